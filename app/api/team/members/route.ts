@@ -1,0 +1,8 @@
+import { handle } from '@/lib/api';
+import { requireApiPermission } from '@/lib/auth';
+import { listMembers } from '@/lib/data/team';
+
+export const GET = handle(async (req) => {
+  const caller = await requireApiPermission(req, 'team.read');
+  return Response.json({ items: await listMembers({ caller }) });
+});

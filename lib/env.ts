@@ -1,0 +1,58 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { randomBytes } from 'node:crypto';
+
+/**
+ * Environment, read lazily so tests can set variables before first use.
+ * Every variable is listed in the README table.
+ */
+export function dataDir(): string {
+  return path.resolve(process.env.STEERWISE_DATA_DIR || 'data');
+}
+
+export function dbPath(): string {
+  return path.resolve(process.env.STEERWISE_DB || path.join(dataDir(), 'steerwise.sqlite'));
+}
+
+let fileSecret: string | undefined;
+
+/**
+ * The secret that signs session cookies and CSRF tokens: NEXTAUTH_SECRET, or
+ * else a random secret generated once into <data dir>/auth-secret (mode 600),
+ * so a fresh clone runs without setup and no secret is ever committed.
+ */
+export function authSecret(): string {
+  if (process.env.NEXTAUTH_SECRET) return process.env.NEXTAUTH_SECRET;
+  if (fileSecret) return fileSecret;
+  const file = path.join(dataDir(), 'auth-secret');
+  try {
+    fileSecret = fs.readFileSync(file, 'utf8').trim();
+  } catch {
+    fs.mkdirSync(dataDir(), { recursive: true });
+    const fresh = randomBytes(32).toString('base64url');
+    try {
+      fs.writeFileSync(file, fresh, { mode: 0o600, flag: 'wx' });
+      fileSecret = fresh;
+    } catch {
+      fileSecret = fs.readFileSync(file, 'utf8').trim(); // another process won the race
+    }
+  }
+  return fileSecret!;
+}
+
+export function appUrl(fallbackOrigin?: string): string {
+  return (process.env.NEXTAUTH_URL || fallbackOrigin || 'http://localhost:3000').replace(/\/$/, '');
+}
+
+export function smtpSinkPort(): number {
+  return Number(process.env.SMTP_SINK_PORT || 2525);
+}
+
+export function mailFrom(): string {
+  return process.env.SMTP_FROM || 'Steerwise <no-reply@steerwise.test>';
+}
+
+/** Largest JSON body accepted by API handlers, in bytes. */
+export function maxJsonBytes(): number {
+  return Number(process.env.STEERWISE_MAX_JSON_BYTES || 1_000_000);
+}

@@ -1,0 +1,15 @@
+import type { QueryInterface } from 'sequelize';
+import * as m0001 from './0001-initial';
+
+export type Migration = {
+  name: string;
+  up: (params: { context: QueryInterface }) => Promise<void>;
+  down: (params: { context: QueryInterface }) => Promise<void>;
+};
+
+/**
+ * Every migration, in order. Add a new file `NNNN-what.ts` exporting typed
+ * `up`/`down` and append it here (an explicit list works the same under tsx,
+ * vitest and the Next bundle, unlike a filesystem glob).
+ */
+export const migrations: Migration[] = [{ name: '0001-initial', ...m0001 }];

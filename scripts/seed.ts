@@ -1,0 +1,21 @@
+/* Seeds the invented demo scenario into STEERWISE_DB. Idempotent. Run after scripts/migrate.ts. */
+import { applyPragmas, createSequelize } from '@/lib/db-core';
+import { dbPath } from '@/lib/env';
+import { DEMO_PASSWORD, seedDemo } from '@/lib/demo/seed';
+
+async function main() {
+  const sequelize = createSequelize(dbPath());
+  await applyPragmas(sequelize);
+  const result = await seedDemo(sequelize);
+  console.log(
+    result.created
+      ? `Seeded the demo teams into ${dbPath()}. Sign in as admin@, engineer@, reviewer@ or viewer@steerwise.test with password "${DEMO_PASSWORD}".`
+      : `Demo data already present in ${dbPath()}; nothing changed.`,
+  );
+  await sequelize.close();
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});
