@@ -12,8 +12,10 @@
  * each side are located by a fine scan (16 samples per 2π/M) refined by golden-section
  * search, and the −3.0103 dB (half-power) points by bisection to ~1e−12 rad, far below
  * the required 0.001°. No 0.886 rule is used. Edges beyond u = ±1 are clipped to
- * ±90° and flagged.
+ * ±90° and flagged. Sidelobe candidates come from |AF| sampled by one zero-padded FFT
+ * (fft.js, ≥ 16 samples per 2π/M); the 16 highest are refined on the exact AF.
  */
+import FFT from 'fft.js';
 import { DoaInputError } from './errors';
 import { requireElementCount, requireSpacing, requireBearing, DEG } from './figures-checks';
 import { effectiveWeights, arrayFactorMagnitudeAtPsi, type EffectiveWeights, type ElementOptions } from './beam-pattern';
@@ -219,6 +221,25 @@ export function firstNullBeamwidthDeg(options: FigureOptions): number {
   return firstNullBeamwidth(options).widthDeg;
 }
 
+/** |AF(2πk/L)| for k = 0 … L−1, L = the power of two ≥ 16·M, by one FFT of the conjugated weights. */
+function sampleMagnitudeOnPsiGrid(w: EffectiveWeights): Float64Array {
+  const m = w.re.length;
+  let size = 16;
+  while (size < 16 * m) size *= 2;
+  const fft = new FFT(size);
+  const input = fft.createComplexArray() as number[];
+  const output = fft.createComplexArray() as number[];
+  for (let i = 0; i < m; i++) {
+    // fft.js computes Σ x_n e^{−j2πkn/L}; with x = conj(c) its magnitude is |Σ c_n e^{+j2πkn/L}|.
+    input[2 * i] = w.re[i];
+    input[2 * i + 1] = -w.im[i];
+  }
+  fft.transform(output, input);
+  const mags = new Float64Array(size);
+  for (let k = 0; k < size; k++) mags[k] = Math.hypot(output[2 * k], output[2 * k + 1]);
+  return mags;
+}
+
 export interface SidelobeResult {
   /** Highest level outside the main lobe (and outside grating lobes) within the visible region, dB re the main-lobe peak; null when none is visible. */
   peakSidelobeDb: number | null;
@@ -266,26 +287,26 @@ export function peakSidelobe(options: FigureOptions & { region?: 'visible' | 'fu
   const scan = full ? [full] : intervals;
   if (scan.length === 0) return { peakSidelobeDb: null, atDeg: null };
   const f = (psi: number) => arrayFactorMagnitudeAtPsi(w, psi);
-  const step = twoPi / (m * 16);
+  // |AF| on the grid ψ_k = 2πk/L (L ≥ 16·M, a power of two) from one zero-padded FFT,
+  // used only to locate candidate maxima; each candidate is then refined on the exact AF.
+  const grid = sampleMagnitudeOnPsiGrid(w);
+  const gridLength = grid.length;
   type Candidate = { psi: number; value: number; lo: number; hi: number; interior: boolean };
   const candidates: Candidate[] = [];
+  const dx = twoPi / gridLength;
   for (const [lo, hi] of scan) {
-    const n = Math.max(2, Math.ceil((hi - lo) / step) + 1);
-    const dx = (hi - lo) / (n - 1);
-    let prev2 = -Infinity;
-    let prev = f(lo);
-    candidates.push({ psi: lo, value: prev, lo, hi: lo, interior: false });
-    for (let i = 1; i < n; i++) {
-      const x = lo + i * dx;
-      const v = f(x);
-      if (i >= 2 && prev >= prev2 && prev >= v) {
-        const c = x - dx;
-        candidates.push({ psi: c, value: prev, lo: Math.max(lo, c - dx), hi: Math.min(hi, c + dx), interior: true });
+    candidates.push({ psi: lo, value: f(lo), lo, hi: lo, interior: false });
+    candidates.push({ psi: hi, value: f(hi), lo: hi, hi, interior: false });
+    const k0 = Math.ceil(lo / dx);
+    const k1 = Math.floor(hi / dx);
+    const at = (k: number) => grid[((k % gridLength) + gridLength) % gridLength];
+    for (let kk = k0 + 1; kk < k1; kk++) {
+      const v = at(kk);
+      if (v >= at(kk - 1) && v >= at(kk + 1)) {
+        const c = kk * dx;
+        candidates.push({ psi: c, value: v, lo: Math.max(lo, c - dx), hi: Math.min(hi, c + dx), interior: true });
       }
-      prev2 = prev;
-      prev = v;
     }
-    candidates.push({ psi: hi, value: prev, lo: hi, hi, interior: false });
   }
   candidates.sort((p, q) => q.value - p.value);
   let bestPsi = candidates[0].psi;
