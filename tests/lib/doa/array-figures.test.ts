@@ -8,6 +8,7 @@ import {
   halfPowerBeamwidthDeg,
   halfPowerBeamwidthFactor,
   firstNullBeamwidthDeg,
+  firstNullBeamwidth,
   peakSidelobe,
   peakSidelobeDb,
   directivity,
@@ -197,6 +198,29 @@ describe('disabled elements and calibration', () => {
     const p = beamPattern({ elements: 16, ...half, enabled, thetaDeg: [holed.atDeg!], normalize: 'coherent' });
     // The reported level is relative to the main-lobe peak, which for real weights is at the steering angle.
     expect(p.valuesDb[0]).toBeCloseTo(holed.peakSidelobeDb!, 6);
+  });
+  it('with random calibration the figures agree with a brute-force scan of the pattern', () => {
+    // Independent check: a dense u grid (1e−5 steps) evaluated by beamPattern; the sidelobe maximum
+    // outside the first nulls and the −3.0103 dB crossings must agree with the refined figures.
+    const gainDb = [0.4, -0.8, 0.1, 1.2, -0.3, 0.0, 0.7, -1.1, 0.2, 0.5, -0.6, 0.3];
+    const phaseDeg = [3, -7, 12, -4, 0, 9, -11, 5, 2, -6, 8, -1];
+    const opts = { elements: 12, spacingWavelengths: 0.55, steerDeg: 15, gainDb, phaseDeg, taper: 'hann' as const };
+    const u = Float64Array.from({ length: 200001 }, (_, i) => -1 + i * 1e-5);
+    const p = beamPattern({ ...opts, u, normalize: 'peak' });
+    const fn = firstNullBeamwidth(opts);
+    const nullU = fn.edgesDeg.map((t) => Math.sin((t * Math.PI) / 180));
+    let best = -Infinity;
+    for (let i = 0; i < u.length; i++) if (u[i] < nullU[0] || u[i] > nullU[1]) best = Math.max(best, p.valuesDb[i]);
+    const psl = peakSidelobeDb(opts)!;
+    expect(Math.abs(psl - best)).toBeLessThan(1e-3);
+    const hp = halfPowerBeamwidth(opts);
+    // Half-power edges: 3.0103 dB below the main-lobe peak (taken from the dense grid, coherent reference).
+    const edges = beamPattern({ ...opts, thetaDeg: hp.edgesDeg });
+    const dense = beamPattern({ ...opts, u });
+    let peakCoherent = -Infinity;
+    for (const v of dense.valuesDb) peakCoherent = Math.max(peakCoherent, v);
+    expect(edges.valuesDb[0] - peakCoherent).toBeCloseTo(-10 * Math.log10(2), 6);
+    expect(edges.valuesDb[1] - peakCoherent).toBeCloseTo(-10 * Math.log10(2), 6);
   });
   it('a linear phase error steers the beam, and the half-power width follows the shifted lobe', () => {
     // A phase ramp of φ per element shifts the beam by Δψ = −φ; width in u is unchanged.
