@@ -18,6 +18,7 @@
  * the web layer should call this from a worker for large files.
  * HDF5's own diagnostic printout on failure is muted while h5wasm runs.
  */
+import fs from 'node:fs';
 import { DatasetError, invalid, quoteText, unsupported } from './errors';
 import { checkValueCount, progressReporter, throwIfAborted } from './io';
 import type { ParseOptions, ParsedSnapshots } from './types';
@@ -50,20 +51,45 @@ async function loadH5wasm(): Promise<H5Module> {
   return modulePromise;
 }
 
-/** Runs a synchronous h5wasm call with HDF5's stderr diagnostics captured instead of printed. */
+/**
+ * Runs a synchronous h5wasm call with HDF5's diagnostics captured instead of
+ * printed. HDF5 prints its error stack with fprintf(stderr), which the Node
+ * build of h5wasm turns into fs.writeSync(2, …); both that and
+ * process.stderr.write are diverted for the duration of the (synchronous) call.
+ */
 function muted<T>(fn: () => T): { value?: T; error?: unknown; diagnostics: string } {
-  const original = process.stderr.write;
+  const originalWrite = process.stderr.write;
+  const originalWriteSync = fs.writeSync;
   let diagnostics = '';
+  const keep = (chunk: unknown): void => {
+    if (diagnostics.length >= 20000) return;
+    if (typeof chunk === 'string') diagnostics += chunk;
+    else if (ArrayBuffer.isView(chunk)) diagnostics += Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength).toString('utf8');
+  };
   process.stderr.write = ((chunk: string | Uint8Array) => {
-    if (diagnostics.length < 20000) diagnostics += typeof chunk === 'string' ? chunk : Buffer.from(chunk).toString('utf8');
+    keep(chunk);
     return true;
   }) as typeof process.stderr.write;
+  fs.writeSync = ((fd: number, buffer: unknown, ...rest: unknown[]) => {
+    if (fd !== 2) return (originalWriteSync as (...a: unknown[]) => number)(fd, buffer, ...rest);
+    if (typeof buffer === 'string') {
+      keep(buffer);
+      return Buffer.byteLength(buffer);
+    }
+    if (!ArrayBuffer.isView(buffer)) return 0;
+    const bytes = new Uint8Array(buffer.buffer, buffer.byteOffset, buffer.byteLength);
+    const offset = typeof rest[0] === 'number' ? rest[0] : 0;
+    const length = typeof rest[1] === 'number' ? rest[1] : bytes.byteLength - offset;
+    keep(bytes.subarray(offset, offset + length));
+    return length;
+  }) as typeof fs.writeSync;
   try {
     return { value: fn(), diagnostics };
   } catch (error) {
     return { error, diagnostics };
   } finally {
-    process.stderr.write = original;
+    process.stderr.write = originalWrite;
+    fs.writeSync = originalWriteSync;
   }
 }
 
@@ -189,7 +215,8 @@ export async function parseHdf5File(options: ParseOptions, fileSize: number): Pr
   const opened = muted(() => new h5.File(options.path, 'r'));
   const file = opened.value;
   if (!file || opened.error !== undefined || file.file_id < BigInt(0)) {
-    throw invalid('corrupt', `not a readable HDF5 file (${hdf5Reason(opened.diagnostics, opened.error)})`);
+    const reason = hdf5Reason(opened.diagnostics, opened.error);
+    throw invalid(/truncated/i.test(reason) ? 'truncated' : 'corrupt', `not a readable HDF5 file (${reason})`);
   }
   try {
     return readFromFile(h5, file, options, fileSize);
