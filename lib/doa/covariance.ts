@@ -1,0 +1,263 @@
+/**
+ * Sample covariance and the covariance arrangements of CONVENTIONS §2.
+ *
+ * Layouts: a snapshot matrix X is M × N (elements × snapshots) as a
+ * ComplexMatrix (split re/im, row-major); file-layout "rows" are N × M (one
+ * snapshot per row). Covariances are M × M ComplexMatrix, exactly Hermitian.
+ * Normalisation: R = X·Xᴴ / N. Inputs are never mutated.
+ *
+ * Order fixed by the conventions: (single-snapshot arrangement, or sample
+ * covariance) → forward spatial smoothing → forward–backward averaging.
+ *
+ * Speed: the accumulator copies blocks of `blockSize` snapshots into an
+ * element-major buffer (each element's samples contiguous, M padded to even)
+ * and accumulates only the upper triangle i ≤ k with a 2 × 2 register tile:
+ * four complex products per eight loads. The lower triangle is the conjugate,
+ * so R is Hermitian by construction, which is exactly (R + Rᴴ)/2.
+ */
+import { ComplexMatrix, assertSquare, zeros } from './complex';
+import { DoaInputError } from './errors';
+
+export interface CovarianceAccumulatorOptions {
+  /** Snapshots per block (default 256). */
+  blockSize?: number;
+}
+
+export class CovarianceAccumulator {
+  readonly elements: number;
+  private readonly padded: number;
+  private readonly blockSize: number;
+  private readonly bufRe: Float64Array;
+  private readonly bufIm: Float64Array;
+  private fill = 0;
+  private readonly sumRe: Float64Array;
+  private readonly sumIm: Float64Array;
+  private total = 0;
+
+  constructor(elements: number, options: CovarianceAccumulatorOptions = {}) {
+    if (!Number.isInteger(elements) || elements < 1) {
+      throw new DoaInputError('bad-size', `CovarianceAccumulator: element count ${elements} is not a positive integer`);
+    }
+    const blockSize = options.blockSize ?? 256;
+    if (!Number.isInteger(blockSize) || blockSize < 1) {
+      throw new DoaInputError('bad-option', `CovarianceAccumulator: blockSize ${blockSize} is not a positive integer`);
+    }
+    this.elements = elements;
+    this.padded = elements + (elements % 2);
+    this.blockSize = blockSize;
+    this.bufRe = new Float64Array(this.padded * blockSize);
+    this.bufIm = new Float64Array(this.padded * blockSize);
+    this.sumRe = new Float64Array(this.padded * this.padded);
+    this.sumIm = new Float64Array(this.padded * this.padded);
+  }
+
+  /** Snapshots accumulated so far. */
+  get snapshotCount(): number {
+    return this.total + this.fill;
+  }
+
+  /** Adds N_b snapshots given in file layout: an N_b × M matrix, one snapshot per row. */
+  addRows(rows: ComplexMatrix): void {
+    if (rows.cols !== this.elements) {
+      throw new DoaInputError('bad-size', `snapshot rows have ${rows.cols} columns but the array has ${this.elements} elements`);
+    }
+    const m = this.elements;
+    const b = this.blockSize;
+    for (let n = 0; n < rows.rows; n++) {
+      const src = n * m;
+      const col = this.fill;
+      for (let i = 0; i < m; i++) {
+        const xr = rows.re[src + i];
+        const xi = rows.im[src + i];
+        if (!Number.isFinite(xr) || !Number.isFinite(xi)) {
+          throw new DoaInputError('not-finite', `snapshot row ${n} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`);
+        }
+        this.bufRe[i * b + col] = xr;
+        this.bufIm[i * b + col] = xi;
+      }
+      if (++this.fill === b) this.flush();
+    }
+  }
+
+  /** Adds the N snapshots of an M × N snapshot matrix (one snapshot per column). */
+  addSnapshots(x: ComplexMatrix): void {
+    if (x.rows !== this.elements) {
+      throw new DoaInputError('bad-size', `snapshot matrix has ${x.rows} rows but the array has ${this.elements} elements`);
+    }
+    const m = this.elements;
+    const n = x.cols;
+    const b = this.blockSize;
+    let start = 0;
+    while (start < n) {
+      const take = Math.min(b - this.fill, n - start);
+      for (let i = 0; i < m; i++) {
+        const src = i * n + start;
+        const dst = i * b + this.fill;
+        for (let t = 0; t < take; t++) {
+          const xr = x.re[src + t];
+          const xi = x.im[src + t];
+          if (!Number.isFinite(xr) || !Number.isFinite(xi)) {
+            throw new DoaInputError('not-finite', `snapshot ${start + t} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`);
+          }
+          this.bufRe[dst + t] = xr;
+          this.bufIm[dst + t] = xi;
+        }
+      }
+      this.fill += take;
+      start += take;
+      if (this.fill === b) this.flush();
+    }
+  }
+
+  /** R = X·Xᴴ / N over everything added so far (the accumulator stays usable). */
+  covariance(): ComplexMatrix {
+    this.flush();
+    if (this.total === 0) throw new DoaInputError('bad-size', 'no snapshots were given: the covariance needs at least one');
+    const m = this.elements;
+    const p = this.padded;
+    const out = zeros(m, m);
+    const inv = 1 / this.total;
+    for (let i = 0; i < m; i++) {
+      out.re[i * m + i] = this.sumRe[i * p + i] * inv;
+      for (let k = i + 1; k < m; k++) {
+        const re = this.sumRe[i * p + k] * inv;
+        const im = this.sumIm[i * p + k] * inv;
+        out.re[i * m + k] = re;
+        out.im[i * m + k] = im;
+        out.re[k * m + i] = re;
+        out.im[k * m + i] = -im;
+      }
+    }
+    return out;
+  }
+
+  private flush(): void {
+    const count = this.fill;
+    if (count === 0) return;
+    const b = this.blockSize;
+    const p = this.padded;
+    const br = this.bufRe;
+    const bi = this.bufIm;
+    const sr = this.sumRe;
+    const si = this.sumIm;
+    if (p !== this.elements) {
+      // Zero the padding row so its products vanish.
+      br.fill(0, this.elements * b, this.elements * b + count);
+      bi.fill(0, this.elements * b, this.elements * b + count);
+    }
+    for (let i = 0; i < p; i += 2) {
+      const o0 = i * b;
+      const o1 = o0 + b;
+      for (let k = i; k < p; k += 2) {
+        const q0 = k * b;
+        const q1 = q0 + b;
+        let r00 = 0, j00 = 0, r01 = 0, j01 = 0, r10 = 0, j10 = 0, r11 = 0, j11 = 0;
+        for (let t = 0; t < count; t++) {
+          const a0r = br[o0 + t];
+          const a0i = bi[o0 + t];
+          const a1r = br[o1 + t];
+          const a1i = bi[o1 + t];
+          const c0r = br[q0 + t];
+          const c0i = bi[q0 + t];
+          const c1r = br[q1 + t];
+          const c1i = bi[q1 + t];
+          // x_i·conj(x_k) = (ar·cr + ai·ci) + j(ai·cr − ar·ci)
+          r00 += a0r * c0r + a0i * c0i;
+          j00 += a0i * c0r - a0r * c0i;
+          r01 += a0r * c1r + a0i * c1i;
+          j01 += a0i * c1r - a0r * c1i;
+          r10 += a1r * c0r + a1i * c0i;
+          j10 += a1i * c0r - a1r * c0i;
+          r11 += a1r * c1r + a1i * c1i;
+          j11 += a1i * c1r - a1r * c1i;
+        }
+        sr[i * p + k] += r00;
+        si[i * p + k] += j00;
+        sr[i * p + k + 1] += r01;
+        si[i * p + k + 1] += j01;
+        sr[(i + 1) * p + k] += r10; // lower entry when k = i: unused
+        si[(i + 1) * p + k] += j10;
+        sr[(i + 1) * p + k + 1] += r11;
+        si[(i + 1) * p + k + 1] += j11;
+      }
+    }
+    this.total += count;
+    this.fill = 0;
+  }
+}
+
+/** R = X·Xᴴ/N for an M × N snapshot matrix. */
+export function sampleCovariance(x: ComplexMatrix): ComplexMatrix {
+  const acc = new CovarianceAccumulator(x.rows);
+  acc.addSnapshots(x);
+  return acc.covariance();
+}
+
+/** R = X·Xᴴ/N for file-layout rows (N × M, one snapshot per row; X is their transpose). */
+export function sampleCovarianceFromRows(rows: ComplexMatrix): ComplexMatrix {
+  const acc = new CovarianceAccumulator(rows.cols);
+  acc.addRows(rows);
+  return acc.covariance();
+}
+
+/**
+ * Forward spatial smoothing: the mean of the M−L+1 diagonal L × L blocks
+ * R[i:i+L, i:i+L]. The effective array has L elements at the same spacing.
+ */
+export function spatialSmoothing(r: ComplexMatrix, subarray: number): ComplexMatrix {
+  assertSquare(r, 'spatialSmoothing');
+  const m = r.rows;
+  if (!Number.isInteger(subarray) || subarray < 2 || subarray > m) {
+    throw new DoaInputError('bad-option', `smoothing subarray ${subarray} must be an integer from 2 to the ${m} elements`);
+  }
+  const l = subarray;
+  const blocks = m - l + 1;
+  const out = zeros(l, l);
+  for (let s = 0; s < blocks; s++) {
+    for (let i = 0; i < l; i++) {
+      const src = (s + i) * m + s;
+      const dst = i * l;
+      for (let k = 0; k < l; k++) {
+        out.re[dst + k] += r.re[src + k];
+        out.im[dst + k] += r.im[src + k];
+      }
+    }
+  }
+  const inv = 1 / blocks;
+  for (let i = 0; i < l * l; i++) {
+    out.re[i] *= inv;
+    out.im[i] *= inv;
+  }
+  return out;
+}
+
+/** R_fb = (R + J·conj(R)·J)/2, J the exchange matrix: (J R̄ J)[i,k] = conj(R[M−1−i, M−1−k]). */
+export function forwardBackward(r: ComplexMatrix): ComplexMatrix {
+  assertSquare(r, 'forwardBackward');
+  const m = r.rows;
+  const out = zeros(m, m);
+  for (let i = 0; i < m; i++) {
+    for (let k = 0; k < m; k++) {
+      const src = (m - 1 - i) * m + (m - 1 - k);
+      out.re[i * m + k] = 0.5 * (r.re[i * m + k] + r.re[src]);
+      out.im[i * m + k] = 0.5 * (r.im[i * m + k] - r.im[src]);
+    }
+  }
+  return out;
+}
+
+/** Default single-snapshot subarray, L = ⌊M/2⌋ + 1. */
+export function defaultSingleSnapshotSubarray(elements: number): number {
+  return Math.floor(elements / 2) + 1;
+}
+
+/**
+ * Single-snapshot arrangement (CONVENTIONS §2): for each snapshot x, the
+ * Hankel matrix H[i,k] = x[i+k] (L × (M−L+1)), H·Hᴴ/(M−L+1), averaged over
+ * snapshots. Entry (i, j) of H·Hᴴ/(M−L+1) is the mean over s of x[i+s]·conj(x[j+s]),
+ * which is the smoothed x·xᴴ, so this computes spatialSmoothing(sampleCovariance(x), L)
+ * (the identity is checked in the tests and in fixtures/doa/generate.py).
+ */
+export function singleSnapshotCovariance(x: ComplexMatrix, subarray = defaultSingleSnapshotSubarray(x.rows)): ComplexMatrix {
+  return spatialSmoothing(sampleCovariance(x), subarray);
+}
