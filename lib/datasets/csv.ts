@@ -107,6 +107,8 @@ export async function parseCsvFile(options: ParseOptions, totalBytes: number): P
     }
     // data row
     const base = rows * (elements > 0 ? elements : 0);
+    const rowRe = elements > 0 ? re.reserve(base + elements) : null;
+    const rowIm = elements > 0 ? im.reserve(base + elements) : null;
     let column = 0;
     let fieldStart = start;
     for (;;) {
@@ -122,11 +124,9 @@ export async function parseCsvFile(options: ParseOptions, totalBytes: number): P
       }
       const status = scanComplexField(line, fieldStart, comma, scan);
       if (status !== SCAN_OK) throw fieldError(line.slice(fieldStart, comma), status, column);
-      if (elements > 0) {
-        const r = re.reserve(base + elements);
-        const i = im.reserve(base + elements);
-        r[base + column - 1] = scan.re;
-        i[base + column - 1] = scan.im;
+      if (rowRe !== null && rowIm !== null) {
+        rowRe[base + column - 1] = scan.re;
+        rowIm[base + column - 1] = scan.im;
       } else {
         // first data row without header: M not known yet
         const r = re.reserve(column);
