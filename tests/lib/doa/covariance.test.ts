@@ -1,0 +1,160 @@
+// Covariance chain of CONVENTIONS §2 against the numpy fixtures of
+// fixtures/doa/generate.py and against the defining formulas.
+import { describe, expect, it } from 'vitest';
+import fixtures from '@/fixtures/doa/methods.json';
+import { ComplexMatrix, clone, conjugateTranspose, multiply, scale, zeros } from '@/lib/doa/complex';
+import {
+  CovarianceAccumulator,
+  forwardBackward,
+  sampleCovariance,
+  sampleCovarianceFromRows,
+  singleSnapshotCovariance,
+  spatialSmoothing,
+} from '@/lib/doa/covariance';
+import { simulateSnapshots } from '@/lib/doa/simulate';
+import { DoaInputError } from '@/lib/doa/errors';
+import { matrixFromJson, maxAbsDiff, JsonMatrix } from './helpers';
+
+const scenarios = (fixtures as unknown as { scenarios: { name: string; rows: JsonMatrix; covariance: JsonMatrix; options: Record<string, unknown> }[] }).scenarios;
+
+function transpose(a: ComplexMatrix): ComplexMatrix {
+  const out = zeros(a.cols, a.rows);
+  for (let i = 0; i < a.rows; i++) for (let k = 0; k < a.cols; k++) {
+    out.re[k * a.rows + i] = a.re[i * a.cols + k];
+    out.im[k * a.rows + i] = a.im[i * a.cols + k];
+  }
+  return out;
+}
+
+/** Direct R = X·Xᴴ/N, then (R + Rᴴ)/2 (the definition). */
+function directCovariance(x: ComplexMatrix): ComplexMatrix {
+  const r = scale(multiply(x, conjugateTranspose(x)), 1 / x.cols);
+  const rh = conjugateTranspose(r);
+  const out = zeros(r.rows, r.cols);
+  for (let i = 0; i < r.re.length; i++) {
+    out.re[i] = 0.5 * (r.re[i] + rh.re[i]);
+    out.im[i] = 0.5 * (r.im[i] + rh.im[i]);
+  }
+  return out;
+}
+
+describe('sample covariance', () => {
+  const x = simulateSnapshots({ elements: 7, spacingWavelengths: 0.5, bearingsDeg: [-10, 25], noisePower: 0.3, snapshots: 1001, seed: 5 });
+  const ref = directCovariance(x);
+
+  it('equals the definition X·Xᴴ/N, made Hermitian, for odd M and a partial last block (1e-13 absolute)', () => {
+    const r = sampleCovariance(x);
+    expect(maxAbsDiff(r.re, ref.re)).toBeLessThan(1e-13);
+    expect(maxAbsDiff(r.im, ref.im)).toBeLessThan(1e-13);
+  });
+
+  it('is exactly Hermitian with a real diagonal', () => {
+    const r = sampleCovariance(x);
+    const m = r.rows;
+    for (let i = 0; i < m; i++) {
+      expect(r.im[i * m + i]).toBe(0);
+      for (let k = 0; k < m; k++) {
+        expect(r.re[i * m + k]).toBe(r.re[k * m + i]);
+        expect(r.im[i * m + k] + r.im[k * m + i]).toBe(0);
+      }
+    }
+  });
+
+  it('gives the same result streamed in uneven blocks of rows, in file layout', () => {
+    const rows = transpose(x);
+    const acc = new CovarianceAccumulator(7, { blockSize: 64 });
+    const cut = [0, 1, 130, 131, 700, 1001];
+    for (let c = 0; c + 1 < cut.length; c++) {
+      const part: ComplexMatrix = {
+        rows: cut[c + 1] - cut[c], cols: 7,
+        re: rows.re.subarray(cut[c] * 7, cut[c + 1] * 7), im: rows.im.subarray(cut[c] * 7, cut[c + 1] * 7),
+      };
+      acc.addRows(part);
+    }
+    expect(acc.snapshotCount).toBe(1001);
+    const r = acc.covariance();
+    expect(maxAbsDiff(r.re, ref.re)).toBeLessThan(1e-13);
+    expect(maxAbsDiff(r.im, ref.im)).toBeLessThan(1e-13);
+    expect(maxAbsDiff(sampleCovarianceFromRows(rows).re, ref.re)).toBeLessThan(1e-13);
+  });
+
+  it('does not mutate its input', () => {
+    const before = clone(x);
+    sampleCovariance(x);
+    expect(x).toEqual(before);
+  });
+
+  it('names the row and element of a non-finite value', () => {
+    const rows = transpose(x);
+    const bad = clone(rows);
+    bad.im[3 * 7 + 4] = NaN;
+    expect(() => sampleCovarianceFromRows(bad)).toThrow(DoaInputError);
+    expect(() => sampleCovarianceFromRows(bad)).toThrow(/row 3 \(0-based\), element 4/);
+    expect(() => new CovarianceAccumulator(3).covariance()).toThrow(/no snapshots/);
+    expect(() => new CovarianceAccumulator(3).addRows(rows)).toThrow(/7 columns but the array has 3/);
+  });
+});
+
+describe('smoothing, forward–backward, single-snapshot arrangement', () => {
+  const x = simulateSnapshots({ elements: 9, spacingWavelengths: 0.5, bearingsDeg: [-30, 12], noisePower: 0.1, snapshots: 3, seed: 11 });
+  const r = sampleCovariance(x);
+
+  it('spatial smoothing is the mean of the M−L+1 diagonal blocks (CONVENTIONS §2)', () => {
+    const s = spatialSmoothing(r, 6);
+    expect(s.rows).toBe(6);
+    for (let i = 0; i < 6; i++) for (let k = 0; k < 6; k++) {
+      let re = 0;
+      for (let b = 0; b < 4; b++) re += r.re[(b + i) * 9 + b + k];
+      expect(s.re[i * 6 + k]).toBeCloseTo(re / 4, 14);
+    }
+    expect(() => spatialSmoothing(r, 10)).toThrow(/from 2 to the 9 elements/);
+    expect(() => spatialSmoothing(r, 1.5)).toThrow(DoaInputError);
+  });
+
+  it('forward–backward equals (R + J·conj(R)·J)/2 and is persymmetric', () => {
+    const f = forwardBackward(r);
+    const m = 9;
+    for (let i = 0; i < m; i++) for (let k = 0; k < m; k++) {
+      const j = (m - 1 - i) * m + (m - 1 - k);
+      expect(f.re[i * m + k]).toBeCloseTo(0.5 * (r.re[i * m + k] + r.re[j]), 15);
+      expect(f.im[i * m + k]).toBeCloseTo(0.5 * (r.im[i * m + k] - r.im[j]), 15);
+      expect(f.re[i * m + k]).toBeCloseTo(f.re[j], 15);
+      expect(f.im[i * m + k]).toBeCloseTo(-f.im[j], 15);
+    }
+  });
+
+  it('single-snapshot arrangement equals the literal Hankel form H·Hᴴ/(M−L+1), averaged (CONVENTIONS §2)', () => {
+    const l = 5; // default ⌊9/2⌋+1
+    const literal = zeros(l, l);
+    for (let t = 0; t < x.cols; t++) {
+      const h = zeros(l, 9 - l + 1);
+      for (let i = 0; i < l; i++) for (let k = 0; k < 9 - l + 1; k++) {
+        h.re[i * h.cols + k] = x.re[(i + k) * x.cols + t];
+        h.im[i * h.cols + k] = x.im[(i + k) * x.cols + t];
+      }
+      const hh = scale(multiply(h, conjugateTranspose(h)), 1 / (9 - l + 1) / x.cols);
+      for (let q = 0; q < l * l; q++) {
+        literal.re[q] += hh.re[q];
+        literal.im[q] += hh.im[q];
+      }
+    }
+    const fast = singleSnapshotCovariance(x);
+    expect(fast.rows).toBe(5);
+    expect(maxAbsDiff(fast.re, literal.re)).toBeLessThan(1e-14);
+    expect(maxAbsDiff(fast.im, literal.im)).toBeLessThan(1e-14);
+  });
+
+  for (const s of scenarios) {
+    it(`the whole chain matches numpy for fixture "${s.name}" (1e-13 absolute)`, () => {
+      const rows = matrixFromJson(s.rows);
+      const o = s.options as { singleSnapshot?: boolean; singleSnapshotSubarray?: number; smoothingSubarray?: number; forwardBackward?: boolean };
+      let c = sampleCovarianceFromRows(rows);
+      if (o.singleSnapshot) c = spatialSmoothing(c, o.singleSnapshotSubarray ?? Math.floor(rows.cols / 2) + 1);
+      if (o.smoothingSubarray) c = spatialSmoothing(c, o.smoothingSubarray);
+      if (o.forwardBackward) c = forwardBackward(c);
+      const ref = matrixFromJson(s.covariance);
+      expect(maxAbsDiff(c.re, ref.re)).toBeLessThan(1e-13);
+      expect(maxAbsDiff(c.im, ref.im)).toBeLessThan(1e-13);
+    });
+  }
+});
