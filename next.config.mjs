@@ -3,6 +3,9 @@ const nextConfig = {
   // Native and Node-only packages stay outside the server bundle.
   serverExternalPackages: ['sequelize', 'sqlite3', 'smtp-server', 'mailparser', 'nodemailer', 'h5wasm', 'bcryptjs'],
   poweredByHeader: false,
+  // The build type-checks the whole project. STEERWISE_SKIP_TYPECHECK=1 skips
+  // that for local experiments only; CI and the test suite never set it.
+  typescript: { ignoreBuildErrors: process.env.STEERWISE_SKIP_TYPECHECK === '1' },
 };
 
 export default nextConfig;

@@ -1,14 +1,45 @@
 import { defineConfig } from 'vitest/config';
 import path from 'node:path';
 
+/**
+ * Three projects:
+ * - unit: plain node tests (tests/lib/**: numerics, datasets, designer, …).
+ * - api: route handlers and data functions against a real temporary SQLite
+ *   file, migrated and seeded fresh for every test file (tests/helpers/api-setup.ts).
+ * - e2e: the built app in headless Chromium; its globalSetup builds, migrates,
+ *   seeds, starts `next start` with its own mail sink, and stops it afterwards.
+ */
 export default defineConfig({
   resolve: {
-    alias: { '@': path.resolve(__dirname, '.') },
+    alias: {
+      '@': path.resolve(__dirname, '.'),
+      // `server-only` throws outside the React server build; tests import server modules directly.
+      'server-only': path.resolve(__dirname, 'tests/helpers/server-only-stub.ts'),
+    },
   },
   test: {
     environment: 'node',
-    include: ['tests/**/*.test.ts'],
     testTimeout: 60_000,
     hookTimeout: 300_000,
+    projects: [
+      {
+        extends: true,
+        test: { name: 'unit', include: ['tests/**/*.test.ts'], exclude: ['tests/api/**', 'tests/e2e/**', '**/node_modules/**'] },
+      },
+      {
+        extends: true,
+        test: { name: 'api', include: ['tests/api/**/*.test.ts'], setupFiles: ['tests/helpers/api-setup.ts'] },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          include: ['tests/e2e/**/*.test.ts'],
+          globalSetup: ['tests/e2e/global-setup.ts'],
+          fileParallelism: false,
+          testTimeout: 120_000,
+        },
+      },
+    ],
   },
 });

@@ -7,11 +7,11 @@ import { randomBytes } from 'node:crypto';
  * Every variable is listed in the README table.
  */
 export function dataDir(): string {
-  return path.resolve(process.env.STEERWISE_DATA_DIR || 'data');
+  return path.resolve(/*turbopackIgnore: true*/ process.env.STEERWISE_DATA_DIR || 'data');
 }
 
 export function dbPath(): string {
-  return path.resolve(process.env.STEERWISE_DB || path.join(dataDir(), 'steerwise.sqlite'));
+  return path.resolve(/*turbopackIgnore: true*/ process.env.STEERWISE_DB || path.join(dataDir(), 'steerwise.sqlite'));
 }
 
 let fileSecret: string | undefined;
@@ -24,7 +24,7 @@ let fileSecret: string | undefined;
 export function authSecret(): string {
   if (process.env.NEXTAUTH_SECRET) return process.env.NEXTAUTH_SECRET;
   if (fileSecret) return fileSecret;
-  const file = path.join(dataDir(), 'auth-secret');
+  const file = path.join(/*turbopackIgnore: true*/ dataDir(), 'auth-secret');
   try {
     fileSecret = fs.readFileSync(file, 'utf8').trim();
   } catch {

@@ -1,0 +1,31 @@
+/**
+ * Runs before every test file of the api project: points the app at a fresh
+ * temporary SQLite file (and data folder), migrates it and seeds the demo
+ * teams. Nothing is mocked; handlers use the real database.
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll } from 'vitest';
+
+const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-api-'));
+process.env.STEERWISE_DATA_DIR = dir;
+process.env.STEERWISE_DB = path.join(dir, 'test.sqlite');
+process.env.NEXTAUTH_SECRET = 'test-secret-for-api-tests';
+process.env.NEXTAUTH_URL = 'http://localhost:3000';
+delete process.env.SMTP_HOST;
+
+beforeAll(async () => {
+  const { getDb } = await import('@/lib/db');
+  const { migrateUp } = await import('@/lib/migrate');
+  const { seedDemo } = await import('@/lib/demo/seed');
+  const db = await getDb();
+  await migrateUp(db);
+  await seedDemo(db);
+});
+
+afterAll(async () => {
+  const { closeDb } = await import('@/lib/db');
+  await closeDb();
+  fs.rmSync(dir, { recursive: true, force: true });
+});
