@@ -138,7 +138,6 @@ function checkOptions(options: ParseOptions): { fftLength: number; hop: number; 
 
 export async function parseWavFile(options: ParseOptions, fileSize: number): Promise<ParsedSnapshots> {
   if (fileSize === 0) throw invalid('empty-file', 'the WAV file is empty');
-  const opts = checkOptions(options);
   const header = await readWavHeader(options.path, fileSize);
   const fmt = header.fmt;
   const extensible = fmt.audioFormat === WAVE_FORMAT_EXTENSIBLE;
@@ -161,6 +160,7 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
   if (!Number.isInteger(channels) || channels < 2) {
     throw invalid('too-few-channels', `WAV has ${channels} channel${channels === 1 ? '' : 's'}; an array needs at least 2`);
   }
+  const opts = checkOptions(options);
   const bytesPerSample = bits / 8;
   const block = channels * bytesPerSample;
   if (fmt.blockAlign !== block) {
