@@ -10,6 +10,7 @@
  * parse rate and the memory high-water marks seen while parsing: RSS, V8 heap
  * and ArrayBuffer memory (where the Float64Array outputs live), sampled every
  * 20 ms and at each progress report, plus the process maxRSS from getrusage.
+ * CPU time is printed too, since wall time on a shared machine varies with load.
  * Also times the streaming SHA-256 of the same file. The file is deleted after.
  */
 import { createWriteStream, promises as fsp } from 'node:fs';
@@ -82,9 +83,12 @@ async function main(): Promise<void> {
       peak.arrayBuffers = Math.max(peak.arrayBuffers, m.arrayBuffers);
     };
     const timer = setInterval(sample, 20);
+    const cpu0 = process.cpuUsage();
     const t0 = process.hrtime.bigint();
     const parsed = await parseSnapshotFile({ path: file, maxBytes: Math.max(size + 1, 200 * 1024 * 1024), maxValues: 2 ** 28, onProgress: sample });
     const seconds = Number(process.hrtime.bigint() - t0) / 1e9;
+    const cpu = process.cpuUsage(cpu0);
+    const cpuSeconds = (cpu.user + cpu.system) / 1e6;
     sample();
     clearInterval(timer);
 
@@ -95,6 +99,7 @@ async function main(): Promise<void> {
     const outputMb = (parsed.re.byteLength + parsed.im.byteLength) / MB;
     const mib = (n: number) => `${(n / 1024 / 1024).toFixed(0)} MiB`;
     console.log(`parsed ${parsed.snapshots} × ${parsed.elements} in ${seconds.toFixed(2)} s: ${(size / MB / seconds).toFixed(1)} MB/s`);
+    console.log(`CPU time ${cpuSeconds.toFixed(2)} s: ${(size / MB / cpuSeconds).toFixed(1)} MB per CPU-second (less sensitive to a busy machine; includes GC threads)`);
     console.log(`output arrays (re + im): ${outputMb.toFixed(1)} MB`);
     console.log(`memory before parse: rss ${mib(base.rss)}, heap ${mib(base.heapUsed)}, arrayBuffers ${mib(base.arrayBuffers)}`);
     console.log(`peak during parse:   rss ${mib(peak.rss)}, heap ${mib(peak.heapUsed)}, arrayBuffers ${mib(peak.arrayBuffers)}`);
