@@ -13,7 +13,8 @@
  * Integer, string and other datatypes are refused with 415.
  *
  * Memory: the dataset is read in blocks of rows with h5wasm's slice(), so the
- * JavaScript side never holds more than about a million values besides the output.
+ * JavaScript side never holds more than about a million values (a quarter of
+ * that for compounds) besides the output.
  * The h5wasm calls are synchronous and block the event loop while they run;
  * the web layer should call this from a worker for large files.
  * HDF5's own diagnostic printout on failure is muted while h5wasm runs.
@@ -279,7 +280,9 @@ function readFromFile(h5: H5Module, file: H5File, options: ParseOptions, fileSiz
   const re = new Float64Array(snapshots * elements);
   const im = new Float64Array(snapshots * elements);
   const report = progressReporter(options, fileSize);
-  const blockRows = Math.max(1, Math.floor(BLOCK_VALUES / elements));
+  // compounds come back as one small JS array per value, so read them in smaller blocks
+  const blockValues = layout.kind === 'compound' ? BLOCK_VALUES / 4 : BLOCK_VALUES;
+  const blockRows = Math.max(1, Math.floor(blockValues / elements));
   for (let r0 = 0; r0 < snapshots; r0 += blockRows) {
     throwIfAborted(options.signal);
     const r1 = Math.min(snapshots, r0 + blockRows);
