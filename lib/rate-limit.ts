@@ -8,15 +8,17 @@ import { getDb } from './db';
  */
 export async function countHit({ key, windowMs, now = Date.now() }: { key: string; windowMs: number; now?: number }): Promise<number> {
   const db = await getDb();
-  const rows = await db.query<{ count: number }>(
-    `INSERT INTO rate_limits ("key", "windowStart", "count") VALUES (:key, :now, 1)
-     ON CONFLICT("key") DO UPDATE SET
-       "count" = CASE WHEN "windowStart" <= :expired THEN 1 ELSE "count" + 1 END,
-       "windowStart" = CASE WHEN "windowStart" <= :expired THEN :now ELSE "windowStart" END
-     RETURNING "count"`,
-    { replacements: { key, now, expired: now - windowMs }, type: QueryTypes.SELECT },
-  );
-  return Number(rows[0]?.count ?? 1);
+  return db.transaction(async (transaction) => {
+    await db.query(
+      `INSERT INTO rate_limits ("key", "windowStart", "count") VALUES (:key, :now, 1)
+       ON CONFLICT("key") DO UPDATE SET
+         "count" = CASE WHEN "windowStart" <= :expired THEN 1 ELSE "count" + 1 END,
+         "windowStart" = CASE WHEN "windowStart" <= :expired THEN :now ELSE "windowStart" END`,
+      { replacements: { key, now, expired: now - windowMs }, transaction },
+    );
+    const rows = await db.query<{ count: number }>(`SELECT "count" FROM rate_limits WHERE "key" = :key`, { replacements: { key }, type: QueryTypes.SELECT, transaction });
+    return Number(rows[0]?.count ?? 1);
+  });
 }
 
 export async function currentCount({ key, windowMs, now = Date.now() }: { key: string; windowMs: number; now?: number }): Promise<{ count: number; retryAfterSec: number }> {
