@@ -1,0 +1,98 @@
+/**
+ * Benchmark of the bearing-estimation engine (lib/doa).
+ *
+ *   npm run bench            human-readable table
+ *   npm run bench -- --json  one JSON line per case: {"case": ..., "medianMs": ...}
+ *
+ * Cases:
+ *   pipeline-MxN    sample covariance of an M × N snapshot matrix + Hermitian
+ *                   EVD + LS-ESPRIT (K = 2), for 16x1000, 64x10000, 128x20000;
+ *   music-64-18001  Hermitian EVD + MUSIC spectrum on the default 18001-point
+ *                   grid, M = 64, K = 2.
+ * When python3 with numpy is available, scripts/bench_numpy.py times the same
+ * algorithms in numpy in the same run; the script then prints
+ * {"case", "numpyMedianMs"} and {"case", "ratio"} lines (ratio = ours / numpy).
+ * Snapshot generation is outside the timed region.
+ */
+import { spawnSync } from 'node:child_process';
+import path from 'node:path';
+import { sampleCovariance } from '../lib/doa/covariance';
+import { hermitianEigen } from '../lib/doa/hermitian-eigen';
+import { espritLsElectricalAngles, signalSubspace } from '../lib/doa/esprit';
+import { bearingsFromElectricalAngles } from '../lib/doa/angles';
+import { musicSpectrumValues } from '../lib/doa/music';
+import { DEFAULT_GRID, gridAngles } from '../lib/doa/spectrum';
+import { simulateSnapshots } from '../lib/doa/simulate';
+import { ComplexMatrix } from '../lib/doa/complex';
+
+const json = process.argv.includes('--json');
+const skipNumpy = process.argv.includes('--no-numpy');
+
+function median(values: number[]): number {
+  const s = [...values].sort((a, b) => a - b);
+  const h = Math.floor(s.length / 2);
+  return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
+}
+
+function time(fn: () => unknown, reps: number): number {
+  for (let i = 0; i < 5; i++) fn(); // JIT warm-up
+  const t: number[] = [];
+  for (let i = 0; i < reps; i++) {
+    const t0 = performance.now();
+    fn();
+    t.push(performance.now() - t0);
+  }
+  return median(t);
+}
+
+function pipeline(x: ComplexMatrix): number[] {
+  const eig = hermitianEigen(sampleCovariance(x));
+  return bearingsFromElectricalAngles(espritLsElectricalAngles(signalSubspace(eig.vectors, 2)), 0.5).bearingsDeg;
+}
+
+interface Case { name: string; run: () => unknown; reps: number }
+
+const cases: Case[] = [];
+for (const [m, n] of [[16, 1000], [64, 10000], [128, 20000]] as const) {
+  const x = simulateSnapshots({ elements: m, spacingWavelengths: 0.5, bearingsDeg: [-20, 15], noisePower: 1, snapshots: n, seed: 1 });
+  cases.push({ name: `pipeline-${m}x${n}`, run: () => pipeline(x), reps: m * n <= 100000 ? 30 : 9 });
+}
+{
+  const x = simulateSnapshots({ elements: 64, spacingWavelengths: 0.5, bearingsDeg: [-20, 15], noisePower: 1, snapshots: 1000, seed: 2 });
+  const r = sampleCovariance(x);
+  cases.push({
+    name: 'music-64-18001',
+    run: () => musicSpectrumValues(hermitianEigen(r).vectors, 2, 0.5, gridAngles(DEFAULT_GRID)),
+    reps: 15,
+  });
+}
+
+const ours = new Map<string, number>();
+for (const c of cases) {
+  const ms = time(c.run, c.reps);
+  ours.set(c.name, ms);
+  if (json) console.log(JSON.stringify({ case: c.name, medianMs: Number(ms.toFixed(3)) }));
+  else console.log(`${c.name.padEnd(20)} ${ms.toFixed(2).padStart(10)} ms`);
+}
+
+if (!skipNumpy) {
+  const script = path.join(__dirname, 'bench_numpy.py');
+  const res = spawnSync('python3', [script, ...cases.map((c) => c.name)], { encoding: 'utf8' });
+  if (res.status !== 0 || res.error) {
+    const why = res.error ? res.error.message : res.stderr.trim().split('\n').pop();
+    if (!json) console.log(`numpy comparison skipped (${why})`);
+  } else {
+    for (const line of res.stdout.trim().split('\n')) {
+      const row = JSON.parse(line) as { case: string; numpyMedianMs: number };
+      const mine = ours.get(row.case);
+      if (mine === undefined) continue;
+      const ratio = Number((mine / row.numpyMedianMs).toFixed(3));
+      if (json) {
+        console.log(JSON.stringify(row));
+        console.log(JSON.stringify({ case: row.case, ratio }));
+      } else {
+        console.log(`${row.case.padEnd(20)} numpy ${row.numpyMedianMs.toFixed(2).padStart(10)} ms   ratio ${ratio.toFixed(2)}×`);
+      }
+    }
+  }
+}

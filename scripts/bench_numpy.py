@@ -1,0 +1,63 @@
+#!/usr/bin/env python3
+"""numpy timings for scripts/bench.ts (same cases, same algorithms, same sizes).
+
+Usage: python3 scripts/bench_numpy.py <case> [<case> ...]
+Prints one JSON line per case: {"case": ..., "numpyMedianMs": ...}.
+Data are seeded random complex snapshots of the case's size (timings do not
+depend on the values). BLAS threads are left at numpy's default.
+"""
+import json
+import sys
+import time
+
+import numpy as np
+
+
+def pipeline(x):
+    n = x.shape[1]
+    r = x @ x.conj().T / n
+    r = (r + r.conj().T) / 2
+    w, v = np.linalg.eigh(r)
+    es = v[:, ::-1][:, :2]
+    psi = np.linalg.pinv(es[:-1]) @ es[1:]
+    mu = np.angle(np.linalg.eigvals(psi))
+    return np.sort(np.degrees(np.arcsin(np.clip(mu / np.pi, -1, 1))))
+
+
+def music(r):
+    w, v = np.linalg.eigh(r)
+    en = v[:, :-2]  # eigh is ascending: the M−K smallest
+    grid = (np.arange(18001) - 9000) / 100.0
+    a = np.exp(1j * np.pi * np.arange(r.shape[0])[:, None] * np.sin(np.radians(grid))[None, :])
+    return 1.0 / np.sum(np.abs(en.conj().T @ a) ** 2, axis=0)
+
+
+def timed(fn, arg, reps):
+    fn(arg)
+    times = []
+    for _ in range(reps):
+        t0 = time.perf_counter()
+        fn(arg)
+        times.append((time.perf_counter() - t0) * 1000)
+    return float(np.median(times))
+
+
+def main():
+    rng = np.random.default_rng(7)
+    for case in sys.argv[1:]:
+        if case.startswith("pipeline-"):
+            m, n = (int(v) for v in case[len("pipeline-"):].split("x"))
+            x = (rng.standard_normal((m, n)) + 1j * rng.standard_normal((m, n))) / np.sqrt(2)
+            reps = 30 if m * n <= 100000 else 9
+            ms = timed(pipeline, x, reps)
+        elif case == "music-64-18001":
+            x = (rng.standard_normal((64, 1000)) + 1j * rng.standard_normal((64, 1000))) / np.sqrt(2)
+            r = x @ x.conj().T / 1000
+            ms = timed(music, (r + r.conj().T) / 2, 15)
+        else:
+            raise SystemExit(f"unknown case {case}")
+        print(json.dumps({"case": case, "numpyMedianMs": round(ms, 3)}), flush=True)
+
+
+if __name__ == "__main__":
+    main()
