@@ -285,6 +285,32 @@ describe('layout, format choice, progress and streaming boundaries', () => {
     }
   });
 
+  it('an HDF5 dataset larger than one read block (written with h5wasm) comes back in order', async () => {
+    const dir = await fsp.mkdtemp(path.join(os.tmpdir(), 'sw-bigh5-'));
+    try {
+      const file = path.join(dir, 'big.h5');
+      const N = 300000;
+      const M = 4;
+      const data = new Float64Array(N * M * 2);
+      for (let q = 0; q < N * M; q++) {
+        data[2 * q] = q;
+        data[2 * q + 1] = -q / 4;
+      }
+      const h5 = await import('h5wasm/node');
+      await h5.ready;
+      const out = new h5.File(file, 'w');
+      out.create_dataset({ name: 'x', data, shape: [N, M, 2], dtype: '<d' });
+      out.close();
+      const parsed = await parseSnapshotFile({ path: file });
+      expect([parsed.snapshots, parsed.elements]).toEqual([N, M]);
+      let bad = 0;
+      for (let q = 0; q < N * M; q++) if (parsed.re[q] !== q || parsed.im[q] !== -q / 4) bad++;
+      expect(bad).toBe(0);
+    } finally {
+      await fsp.rm(dir, { recursive: true, force: true });
+    }
+  });
+
   it('abort: a fired signal rejects with its reason', async () => {
     const controller = new AbortController();
     const reason = new Error('stopped by test');
