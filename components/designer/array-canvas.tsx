@@ -320,7 +320,7 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
                     }}
                     onDragEnd={endDrag}
                   />
-                  <Text x={s.x + 12} y={s.y - 16} text={`S${s.index + 1} ${s.bearingDeg.toFixed(1)}°`} fontSize={11} fill={COLORS.source} listening={false} />
+                  <Text x={s.x + 12} y={s.y - 6 + (s.index % 3) * 12} text={`S${s.index + 1} ${s.bearingDeg.toFixed(1)}°`} fontSize={11} fill={COLORS.source} listening={false} />
                 </Group>
               );
             })}

@@ -100,7 +100,7 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
               </label>
               <input
                 id="f-name"
-                className={cn('mt-1 block w-full rounded-md border bg-white px-2 py-1.5 text-sm', nameError ? 'border-coral-500' : 'border-ink-200')}
+                className={cn('mt-1 block w-full rounded-md border bg-white px-2 py-1.5 text-sm disabled:bg-ink-50 disabled:text-ink-500', nameError ? 'border-coral-500' : 'border-ink-200')}
                 aria-invalid={nameError ? true : undefined}
                 aria-describedby={nameError ? 'f-name-error' : undefined}
                 data-testid="field-name"

@@ -42,7 +42,7 @@ export function FiguresPanel({ figures: f, taperLabel, enabledCount }: FiguresPa
           value={f.gratingLobeFreeScanDeg}
           digits={2}
           unit="°"
-          note={`±; required sector ±${f.scanSectorDeg.toFixed(1)}°`}
+          note={`each side of broadside; the sector needs ±${f.scanSectorDeg.toFixed(1)}°`}
           tone={f.scanExceedsGratingFree ? 'warn' : undefined}
         />
         <Figure id="rayleigh-gap" label="Rayleigh gap 1/(M·d)" value={f.rayleighGapU} digits={4} unit="in u" note={`${f.rayleighGapDegAtBroadside.toFixed(3)}° at broadside`} />

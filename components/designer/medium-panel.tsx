@@ -50,7 +50,7 @@ export function NumberField({ name, label, unit, step = 'any', readOnly, testId,
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${id}-error` : undefined}
         data-testid={testId ?? `field-${name}`}
-        className={cn('block w-full rounded-md border bg-white px-2 py-1.5 text-sm tabular', hideLabel ? '' : 'mt-1', error ? 'border-coral-500' : 'border-ink-200')}
+        className={cn('block w-full rounded-md border bg-white px-2 py-1.5 text-sm tabular disabled:bg-ink-50 disabled:text-ink-500', hideLabel ? '' : 'mt-1', error ? 'border-coral-500' : 'border-ink-200')}
         {...register(name as never, { setValueAs: num })}
       />
       {error ? (

@@ -113,7 +113,9 @@ const finite = (v: number) => typeof v === 'number' && Number.isFinite(v);
 /** Keeps the spacing unit: converts a spacing in wavelengths to the draft's unit. */
 function withSpacingWavelengths(state: DesignerDraft, d: number): DesignerDraft {
   const geometry = resolveArrayGeometry(state);
-  const value = spacingInUnit(d, state.spacing.unit, geometry.wavelengthM);
+  const exact = spacingInUnit(d, state.spacing.unit, geometry.wavelengthM);
+  // Physical units keep 6 significant digits (µm-level at metre spacings), so the form shows a readable number.
+  const value = state.spacing.unit === 'wavelength' ? exact : Number(exact.toPrecision(6));
   if (value === state.spacing.value) return state;
   return { ...state, spacing: { value, unit: state.spacing.unit } };
 }
