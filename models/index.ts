@@ -6,8 +6,18 @@ import { AuthLink } from './auth-link';
 import { AuditEvent } from './audit-event';
 import { OutboxMessage } from './outbox-message';
 import { RateLimit } from './rate-limit';
+import { ArrayDesign } from './array-design';
+import { ArrayRevision } from './array-revision';
+import { Dataset } from './dataset';
+import { EstimateRun } from './estimate-run';
+import { Review } from './review';
+import { Handoff } from './handoff';
 
-export { Team, User, ApiToken, AuthLink, AuditEvent, OutboxMessage, RateLimit };
+export { Team, User, ApiToken, AuthLink, AuditEvent, OutboxMessage, RateLimit, ArrayDesign, ArrayRevision, Dataset, EstimateRun, Review, Handoff };
+export type { RunStatus } from './estimate-run';
+export { runStatuses } from './estimate-run';
+export type { ReviewKind } from './review';
+export { reviewKinds } from './review';
 export type { Role } from './user';
 export { roles } from './user';
 export type { TeamSettings } from './team';
@@ -25,6 +35,12 @@ export function initModels(sequelize: Sequelize): void {
   AuditEvent.initModel(sequelize);
   OutboxMessage.initModel(sequelize);
   RateLimit.initModel(sequelize);
+  ArrayDesign.initModel(sequelize);
+  ArrayRevision.initModel(sequelize);
+  Dataset.initModel(sequelize);
+  EstimateRun.initModel(sequelize);
+  Review.initModel(sequelize);
+  Handoff.initModel(sequelize);
 
   Team.hasMany(User, { foreignKey: 'teamId', as: 'members' });
   User.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });
@@ -35,4 +51,26 @@ export function initModels(sequelize: Sequelize): void {
   AuthLink.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
   Team.hasMany(AuditEvent, { foreignKey: 'teamId', as: 'auditEvents' });
   AuditEvent.belongsTo(User, { foreignKey: 'userId', as: 'user' });
+
+  Team.hasMany(ArrayDesign, { foreignKey: 'teamId', as: 'arrays' });
+  ArrayDesign.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });
+  ArrayDesign.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
+  ArrayDesign.hasMany(ArrayRevision, { foreignKey: 'arrayId', as: 'revisions' });
+  ArrayRevision.belongsTo(ArrayDesign, { foreignKey: 'arrayId', as: 'array' });
+  ArrayRevision.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
+  Team.hasMany(Dataset, { foreignKey: 'teamId', as: 'datasets' });
+  Dataset.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });
+  Dataset.belongsTo(ArrayDesign, { foreignKey: 'arrayId', as: 'array' });
+  Dataset.belongsTo(User, { foreignKey: 'uploadedById', as: 'uploadedBy' });
+  Team.hasMany(EstimateRun, { foreignKey: 'teamId', as: 'estimateRuns' });
+  EstimateRun.belongsTo(Dataset, { foreignKey: 'datasetId', as: 'dataset' });
+  EstimateRun.belongsTo(ArrayRevision, { foreignKey: 'arrayRevisionId', as: 'arrayRevision' });
+  EstimateRun.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
+  ArrayRevision.hasMany(Review, { foreignKey: 'arrayRevisionId', as: 'reviews' });
+  EstimateRun.hasMany(Review, { foreignKey: 'estimateRunId', as: 'reviews' });
+  Review.belongsTo(ArrayRevision, { foreignKey: 'arrayRevisionId', as: 'arrayRevision' });
+  Review.belongsTo(EstimateRun, { foreignKey: 'estimateRunId', as: 'estimateRun' });
+  Review.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
+  Handoff.belongsTo(ArrayDesign, { foreignKey: 'arrayId', as: 'array' });
+  Handoff.belongsTo(User, { foreignKey: 'sentById', as: 'sentBy' });
 }

@@ -1,5 +1,6 @@
 import type { QueryInterface } from 'sequelize';
 import * as m0001 from './0001-initial';
+import * as m0002 from './0002-arrays-datasets-runs';
 
 export type Migration = {
   name: string;
@@ -12,4 +13,7 @@ export type Migration = {
  * `up`/`down` and append it here (an explicit list works the same under tsx,
  * vitest and the Next bundle, unlike a filesystem glob).
  */
-export const migrations: Migration[] = [{ name: '0001-initial', ...m0001 }];
+export const migrations: Migration[] = [
+  { name: '0001-initial', ...m0001 },
+  { name: '0002-arrays-datasets-runs', ...m0002 },
+];
