@@ -12,7 +12,9 @@
  * When python3 with numpy is available, scripts/bench_numpy.py times the same
  * algorithms in numpy in the same run; the script then prints
  * {"case", "numpyMedianMs"} and {"case", "ratio"} lines (ratio = ours / numpy).
- * Snapshot generation is outside the timed region.
+ * Snapshot generation is outside the timed region. numpy runs with one BLAS
+ * thread (OPENBLAS_NUM_THREADS=1) unless the environment already sets it,
+ * since this library is single-threaded.
  */
 import { spawnSync } from 'node:child_process';
 import path from 'node:path';
@@ -77,7 +79,10 @@ for (const c of cases) {
 
 if (!skipNumpy) {
   const script = path.join(__dirname, 'bench_numpy.py');
-  const res = spawnSync('python3', [script, ...cases.map((c) => c.name)], { encoding: 'utf8' });
+  // Our code is single-threaded, so BLAS is pinned to one thread unless the caller set it
+  // (on a shared 2-core box, multithreaded OpenBLAS also spins badly under load).
+  const env = { OPENBLAS_NUM_THREADS: '1', OMP_NUM_THREADS: '1', MKL_NUM_THREADS: '1', ...process.env };
+  const res = spawnSync('python3', [script, ...cases.map((c) => c.name)], { encoding: 'utf8', env });
   if (res.status !== 0 || res.error) {
     const why = res.error ? res.error.message : res.stderr.trim().split('\n').pop();
     if (!json) console.log(`numpy comparison skipped (${why})`);
