@@ -1,0 +1,298 @@
+import 'server-only';
+import fs from 'node:fs';
+import path from 'node:path';
+import { randomUUID } from 'node:crypto';
+import { ArrayDesign, ArrayRevision, Dataset, User } from '@/models';
+import { ApiError } from '../api';
+import { assertPermission, type Caller } from '../auth';
+import { recordAudit } from '../audit';
+import { getDb } from '../db';
+import { DatasetError, detectFormat, parseSnapshotFile, type ParsedSnapshots, type ParseOptions, type SnapshotFormat } from '../datasets';
+import { CovarianceAccumulator, hermitianEigen, sourceCountCriteria } from '../doa';
+import { datasetsDir, maxUploadBytes, removeQuietly, resolveStoragePath, type ReceivedUpload } from '../storage/uploads';
+import { datasetUploadFieldsSchema } from '../validations/dataset';
+import { dataDir } from '../env';
+
+/** What the dataset page and GET /api/v1/datasets/{id} show. */
+export interface DatasetSummary {
+  /** 10·log10 of the mean |x|² per channel (element), dB re 1; −300 for a dead channel. */
+  channelPowerDb: number[];
+  /** Eigenvalues of the sample covariance R = X·Xᴴ/N, descending. */
+  eigenvalues: number[];
+  /** MDL(k) and AIC(k), k = 0 … M−1 (Wax & Kailath 1985, from lib/doa). */
+  mdl: number[];
+  aic: number[];
+  mdlChoice: number;
+  aicChoice: number;
+  /** |R[i][k]| (M ≤ 128; null above). */
+  covarianceMagnitude: number[][] | null;
+  /** The first snapshots as stored (rows = snapshots, columns = elements). */
+  preview: { re: number[][]; im: number[][] };
+}
+
+export interface DatasetDto {
+  id: number;
+  name: string;
+  format: SnapshotFormat;
+  elements: number;
+  snapshots: number;
+  sha256: string;
+  bytes: number;
+  originalName: string;
+  arrayId: number | null;
+  options: Record<string, unknown> | null;
+  details: Record<string, unknown> | null;
+  uploadedBy: { id: number; name: string } | null;
+  createdAt: string;
+  summary: DatasetSummary | null;
+}
+
+export type DatasetListItem = Omit<DatasetDto, 'summary' | 'details' | 'options'>;
+
+export const PREVIEW_ROWS = 20;
+export const HEATMAP_MAX_ELEMENTS = 128;
+
+function toDto(d: Dataset, uploader: User | null, withSummary: boolean): DatasetDto {
+  const details = (d.details ?? null) as (Record<string, unknown> & { summary?: DatasetSummary }) | null;
+  const { summary, ...rest } = details ?? {};
+  return {
+    id: d.id,
+    name: d.name,
+    format: d.format,
+    elements: d.elements,
+    snapshots: d.snapshots,
+    sha256: d.sha256,
+    bytes: Number(d.bytes),
+    originalName: d.originalName,
+    arrayId: (d.arrayId as number | null) ?? null,
+    options: d.options ?? null,
+    details: details ? rest : null,
+    uploadedBy: uploader ? { id: uploader.id, name: uploader.name } : null,
+    createdAt: d.createdAt.toISOString(),
+    summary: withSummary ? (summary ?? null) : null,
+  };
+}
+
+/** The created answer of POST /api/v1/datasets (CONVENTIONS §7). */
+export function createdBody(d: DatasetDto) {
+  return { id: d.id, name: d.name, format: d.format, elements: d.elements, snapshots: d.snapshots, sha256: d.sha256 };
+}
+
+/** The latest revision of an array of the caller's team, or 404. */
+export async function findTeamArrayRevision({ caller, arrayId }: { caller: Caller; arrayId: number }): Promise<{ array: ArrayDesign; revision: ArrayRevision }> {
+  await getDb();
+  const array = await ArrayDesign.findOne({ where: { id: arrayId, teamId: caller.teamId } });
+  if (!array) throw new ApiError('not_found', `No array with id ${arrayId} in your team.`);
+  const revision = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: array.latestRevision } });
+  if (!revision) throw new ApiError('not_found', `Array ${arrayId} has no saved revision.`);
+  return { array, revision };
+}
+
+/** Computes the page's figures from parsed snapshots (rows = snapshots). */
+export function summarise(parsed: Pick<ParsedSnapshots, 'elements' | 'snapshots' | 're' | 'im'>): DatasetSummary {
+  const m = parsed.elements;
+  const n = parsed.snapshots;
+  const power = new Array<number>(m).fill(0);
+  for (let r = 0; r < n; r++) {
+    const base = r * m;
+    for (let c = 0; c < m; c++) power[c] += parsed.re[base + c] ** 2 + parsed.im[base + c] ** 2;
+  }
+  const channelPowerDb = power.map((p) => (p > 0 ? 10 * Math.log10(p / n) : -300));
+  const acc = new CovarianceAccumulator(m);
+  acc.addRows({ rows: n, cols: m, re: parsed.re, im: parsed.im });
+  const r = acc.covariance();
+  const eig = hermitianEigen(r, { vectors: false });
+  const eigenvalues = Array.from(eig.values);
+  let mdl: number[] = [];
+  let aic: number[] = [];
+  let mdlChoice = 0;
+  let aicChoice = 0;
+  if (eigenvalues[0] > 0) {
+    const crit = sourceCountCriteria(eig.values, n);
+    mdl = crit.mdl;
+    aic = crit.aic;
+    mdlChoice = crit.mdlChoice;
+    aicChoice = crit.aicChoice;
+  }
+  let covarianceMagnitude: number[][] | null = null;
+  if (m <= HEATMAP_MAX_ELEMENTS) {
+    covarianceMagnitude = [];
+    for (let i = 0; i < m; i++) {
+      const row: number[] = [];
+      for (let k = 0; k < m; k++) row.push(Math.hypot(r.re[i * m + k], r.im[i * m + k]));
+      covarianceMagnitude.push(row);
+    }
+  }
+  const rows = Math.min(n, PREVIEW_ROWS);
+  const preview = { re: [] as number[][], im: [] as number[][] };
+  for (let i = 0; i < rows; i++) {
+    preview.re.push(Array.from(parsed.re.subarray(i * m, (i + 1) * m)));
+    preview.im.push(Array.from(parsed.im.subarray(i * m, (i + 1) * m)));
+  }
+  return { channelPowerDb, eigenvalues, mdl, aic, mdlChoice, aicChoice, covarianceMagnitude, preview };
+}
+
+/** A DatasetError as the v1 error body (with its reader code and location). */
+export function datasetErrorToApi(err: DatasetError): ApiError | null {
+  if (err.status === 500) return null;
+  const code = err.status === 413 ? 'too_large' : err.status === 415 ? 'unsupported_format' : 'validation_failed';
+  const where = err.location ? [err.location.row !== undefined ? `row ${err.location.row}` : '', err.location.column !== undefined ? `column ${err.location.column}` : ''].filter(Boolean).join(', ') : '';
+  // The reader's stable code and the 1-based location travel in `fields`, the one open slot of the §7 error body.
+  const fields: Record<string, string[]> = { file: [err.message], reason: [err.code] };
+  if (where) fields.location = [where];
+  return new ApiError(code, err.message, { fields });
+}
+
+function parseOptionsOf(fields: ReturnType<typeof datasetUploadFieldsSchema.parse>): Omit<ParseOptions, 'path'> {
+  const o: Omit<ParseOptions, 'path'> = {};
+  if (fields.datasetPath !== undefined) o.datasetPath = fields.datasetPath;
+  if (fields.frequencyHz !== undefined) o.frequencyHz = fields.frequencyHz;
+  if (fields.fftLength !== undefined) o.fftLength = fields.fftLength;
+  if (fields.hop !== undefined) o.hop = fields.hop;
+  if (fields.window !== undefined) o.window = fields.window;
+  return o;
+}
+
+/**
+ * Parses a received upload and stores it: the temp file is renamed into
+ * datasets/<team>/ and the row inserted in one transaction. On any failure
+ * neither the row nor a file remains (the caller deletes the temp file).
+ */
+export async function createDataset({ caller, upload }: { caller: Caller; upload: ReceivedUpload }): Promise<DatasetDto> {
+  assertPermission(caller, 'datasets.upload');
+  const fields = datasetUploadFieldsSchema.parse(upload.fields);
+  const format = detectFormat(upload.originalName);
+  let target: { array: ArrayDesign; revision: ArrayRevision } | null = null;
+  if (fields.arrayId !== undefined) target = await findTeamArrayRevision({ caller, arrayId: fields.arrayId });
+  const options = parseOptionsOf(fields);
+  const parsed = await parseSnapshotFile({ path: upload.tempPath, fileName: upload.originalName, format, maxBytes: maxUploadBytes(), ...options });
+  if (target && target.revision.elements !== parsed.elements) {
+    throw new ApiError(
+      'validation_failed',
+      `The file has ${parsed.elements} columns (elements) but array "${target.array.name}" (revision ${target.revision.revision}) has ${target.revision.elements} elements; they must match.`,
+      { fields: { arrayId: [`array has ${target.revision.elements} elements, the file has ${parsed.elements}`] } },
+    );
+  }
+  const summary = summarise(parsed);
+  const name = fields.name ?? upload.originalName.replace(/\.[A-Za-z0-9]+$/, '').slice(0, 200) ?? 'dataset';
+  const ext = path.extname(upload.originalName).toLowerCase();
+  const rel = path.join('datasets', String(caller.teamId), `${randomUUID()}${ext}`);
+  const finalPath = resolveStoragePath(rel);
+  await fs.promises.mkdir(path.dirname(finalPath), { recursive: true });
+  const db = await getDb();
+  let moved = false;
+  try {
+    const row = await db.transaction(async (transaction) => {
+      const created = await Dataset.create(
+        {
+          teamId: caller.teamId,
+          name: name || 'dataset',
+          format: parsed.format,
+          elements: parsed.elements,
+          snapshots: parsed.snapshots,
+          sha256: upload.sha256,
+          bytes: upload.bytes,
+          originalName: upload.originalName.slice(0, 255),
+          storagePath: rel,
+          arrayId: target ? target.array.id : null,
+          options: Object.keys(options).length ? (options as Record<string, unknown>) : null,
+          details: { ...(parsed.details as unknown as Record<string, unknown>), ...(parsed.sampleRate ? { sampleRate: parsed.sampleRate } : {}), summary },
+          uploadedById: caller.id,
+        },
+        { transaction },
+      );
+      await recordAudit(
+        { teamId: caller.teamId, userId: caller.id, action: 'dataset.uploaded', target: created.name, detail: { id: created.id, sha256: upload.sha256, bytes: upload.bytes, format: parsed.format } },
+        transaction,
+      );
+      await fs.promises.rename(upload.tempPath, finalPath);
+      moved = true;
+      return created;
+    });
+    const uploader = await User.findByPk(caller.id);
+    return toDto(row, uploader, true);
+  } catch (err) {
+    if (moved) await removeQuietly(finalPath);
+    throw err;
+  }
+}
+
+export async function getDataset({ caller, id }: { caller: Caller; id: number }): Promise<DatasetDto> {
+  assertPermission(caller, 'datasets.read');
+  await getDb();
+  const d = await Dataset.findOne({ where: { id, teamId: caller.teamId } });
+  if (!d) throw new ApiError('not_found', `No dataset with id ${id} in your team.`);
+  const uploader = d.uploadedById ? await User.findByPk(d.uploadedById as number) : null;
+  return toDto(d, uploader, true);
+}
+
+export async function listDatasets({ caller }: { caller: Caller }): Promise<DatasetListItem[]> {
+  assertPermission(caller, 'datasets.read');
+  await getDb();
+  const rows = await Dataset.findAll({ where: { teamId: caller.teamId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], include: [{ model: User, as: 'uploadedBy' }] });
+  return rows.map((d) => {
+    const { summary: _s, details: _d, options: _o, ...rest } = toDto(d, (d as unknown as { uploadedBy: User | null }).uploadedBy ?? null, false);
+    return rest;
+  });
+}
+
+/** Deletes the row (runs keep their stored checksum; their datasetId becomes null) and then the file. */
+export async function deleteDataset({ caller, id }: { caller: Caller; id: number }): Promise<void> {
+  assertPermission(caller, 'datasets.upload');
+  const db = await getDb();
+  const storagePath = await db.transaction(async (transaction) => {
+    const d = await Dataset.findOne({ where: { id, teamId: caller.teamId }, transaction });
+    if (!d) throw new ApiError('not_found', `No dataset with id ${id} in your team.`);
+    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'dataset.deleted', target: d.name, detail: { id: d.id, sha256: d.sha256 } }, transaction);
+    await d.destroy({ transaction });
+    return d.storagePath;
+  });
+  await removeQuietly(resolveStoragePath(storagePath));
+}
+
+/** The stored dataset's snapshots, re-read from its file (server side, for estimate runs). */
+export async function loadDatasetSnapshots({
+  caller,
+  id,
+  onProgress,
+}: {
+  caller: Caller;
+  id: number;
+  onProgress?: ParseOptions['onProgress'];
+}): Promise<{ dataset: Dataset; parsed: ParsedSnapshots }> {
+  assertPermission(caller, 'datasets.read');
+  await getDb();
+  const dataset = await Dataset.findOne({ where: { id, teamId: caller.teamId } });
+  if (!dataset) throw new ApiError('not_found', `No dataset with id ${id} in your team.`);
+  const file = resolveStoragePath(dataset.storagePath);
+  const parsed = await parseSnapshotFile({
+    path: file,
+    format: dataset.format,
+    fileName: dataset.originalName,
+    maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
+    ...((dataset.options ?? {}) as Omit<ParseOptions, 'path'>),
+    onProgress,
+  });
+  return { dataset, parsed };
+}
+
+/** Files under datasets/ and uploads/tmp/ (tests and operators check for orphans with it). */
+export function listStoredFiles(): string[] {
+  const out: string[] = [];
+  const walk = (dir: string) => {
+    let entries: fs.Dirent[];
+    try {
+      entries = fs.readdirSync(dir, { withFileTypes: true });
+    } catch {
+      return;
+    }
+    for (const e of entries) {
+      const full = path.join(dir, e.name);
+      if (e.isDirectory()) walk(full);
+      else out.push(path.relative(dataDir(), full));
+    }
+  };
+  walk(datasetsDir());
+  walk(path.join(dataDir(), 'uploads'));
+  return out.sort();
+}

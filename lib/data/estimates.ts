@@ -1,0 +1,415 @@
+import 'server-only';
+import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, User } from '@/models';
+import packageJson from '@/package.json';
+import { ApiError } from '../api';
+import { assertPermission, type Caller } from '../auth';
+import { recordAudit } from '../audit';
+import { getDb } from '../db';
+import { DatasetError, sha256File } from '../datasets';
+import { bounds, defaultSingleSnapshotSubarray, DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
+import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
+import { runMethod, usedCovariance, v1Fields, type MethodResult, type RunOptions } from '../jobs/estimate-run';
+import { resolveStoragePath } from '../storage/uploads';
+import type { EstimateRequest } from '../validations/estimate';
+import { datasetErrorToApi, findTeamArrayRevision, loadDatasetSnapshots } from './datasets';
+
+export const SOFTWARE_VERSION: string = packageJson.version;
+
+/** The geometry a run used, stored with it. */
+export interface RunArray {
+  elements: number;
+  spacingWavelengths: number;
+  arrayId?: number;
+  arrayRevisionId?: number;
+  revision?: number;
+  name?: string;
+}
+
+/** What a run stores as `inputs`: the request as validated plus what it resolved to. */
+export interface RunInputs {
+  request: EstimateRequest;
+  methods: DoaMethod[];
+  options: RunOptions;
+  array: RunArray;
+  dataset?: { id: number; sha256: string; name: string; elements: number; snapshots: number };
+  rerunOf?: number;
+}
+
+export interface EstimateRunDto {
+  id: number;
+  status: EstimateRun['status'];
+  progress: number;
+  error: string | null;
+  inputs: RunInputs;
+  softwareVersion: string;
+  datasetSha256: string | null;
+  arrayRevisionId: number | null;
+  createdAt: string;
+  updatedAt: string;
+  createdBy: { id: number; name: string } | null;
+  results: MethodResult[];
+}
+
+export type EstimateRunListItem = Pick<EstimateRunDto, 'id' | 'status' | 'progress' | 'error' | 'createdAt' | 'softwareVersion'> & {
+  methods: DoaMethod[];
+  datasetName: string | null;
+  arrayLabel: string;
+  bearingsDeg: Record<string, number[]>;
+};
+
+const STALE_MESSAGE = 'The run was interrupted (the server restarted before it finished); re-run it.';
+
+function toDto(run: EstimateRun, creator: User | null): EstimateRunDto {
+  const result = (run.result ?? null) as { results?: MethodResult[] } | null;
+  return {
+    id: run.id,
+    status: run.status,
+    progress: run.progress,
+    error: run.error ?? null,
+    inputs: run.inputs as unknown as RunInputs,
+    softwareVersion: run.softwareVersion,
+    datasetSha256: run.datasetSha256 ?? null,
+    arrayRevisionId: (run.arrayRevisionId as number | null) ?? null,
+    createdAt: run.createdAt.toISOString(),
+    updatedAt: run.updatedAt.toISOString(),
+    createdBy: creator ? { id: creator.id, name: creator.name } : null,
+    results: result?.results ?? [],
+  };
+}
+
+/** The §7 answer of POST /api/v1/estimates: the first (or only) method's fields and the run id. */
+export function v1Answer(run: EstimateRunDto) {
+  const first = run.results[0];
+  return { id: run.id, ...(first ? v1Fields(first) : {}) };
+}
+
+/** GET /api/v1/estimates/{id}: the §7 fields, the inputs, and every method's full result. */
+export function v1RunBody(run: EstimateRunDto) {
+  return { ...v1Answer(run), ...run };
+}
+
+/** An array revision's disabled elements (from the designer's elementStates), 1-based. */
+function disabledElements(revision: ArrayRevision): number[] {
+  const states = (revision.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
+  if (!Array.isArray(states)) return [];
+  return states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : []));
+}
+
+/**
+ * The effective element count L for the options, with the same rules the
+ * engine applies (CONVENTIONS §2), so that a bad size is refused with 422
+ * before anything is stored.
+ */
+function checkSizes(m: number, options: RunOptions, snapshots: number): void {
+  const fields: Record<string, string[]> = {};
+  let size = m;
+  if (options.singleSnapshot) {
+    const l = options.singleSnapshotSubarray ?? defaultSingleSnapshotSubarray(m);
+    if (l > m) fields.singleSnapshotSubarray = [`singleSnapshotSubarray ${l} must be at most the ${m} elements`];
+    else size = l;
+  }
+  if (options.smoothingSubarray !== undefined) {
+    if (options.smoothingSubarray > size) fields.smoothingSubarray = [`smoothingSubarray ${options.smoothingSubarray} must be at most ${size} (the elements available)`];
+    else size = options.smoothingSubarray;
+  }
+  if (options.sourceCount !== undefined && options.sourceCount >= size) {
+    fields.sourceCount = [`sourceCount ${options.sourceCount} must be below the ${size} effective elements (K < ${size === m ? 'M' : 'L'} = ${size})`];
+  }
+  if (snapshots < 1) fields.snapshots = ['the data holds no snapshots'];
+  const first = Object.entries(fields)[0];
+  if (first) throw new ApiError('validation_failed', first[1][0], { fields });
+}
+
+function optionsOf(input: EstimateRequest): RunOptions {
+  const o: RunOptions = {};
+  if (input.sourceCount !== undefined) o.sourceCount = input.sourceCount;
+  if (input.sourceCountRule !== undefined) o.sourceCountRule = input.sourceCountRule;
+  if (input.forwardBackward !== undefined) o.forwardBackward = input.forwardBackward;
+  if (input.smoothingSubarray !== undefined) o.smoothingSubarray = input.smoothingSubarray;
+  if (input.singleSnapshot !== undefined) o.singleSnapshot = input.singleSnapshot;
+  if (input.singleSnapshotSubarray !== undefined) o.singleSnapshotSubarray = input.singleSnapshotSubarray;
+  if (input.includeSpectrum !== undefined) o.includeSpectrum = input.includeSpectrum;
+  return o;
+}
+
+async function resolveArray({ caller, input, dataset, pinnedRevisionId }: { caller: Caller; input: EstimateRequest; dataset: Dataset | null; pinnedRevisionId?: number }): Promise<RunArray> {
+  let revision: ArrayRevision | null = null;
+  let design: ArrayDesign | null = null;
+  if (pinnedRevisionId !== undefined) {
+    revision = await ArrayRevision.findByPk(pinnedRevisionId);
+    design = revision ? await ArrayDesign.findOne({ where: { id: revision.arrayId as number, teamId: caller.teamId } }) : null;
+    if (!revision || !design) throw new ApiError('conflict', `The array revision this run used (id ${pinnedRevisionId}) no longer exists; start a new run.`);
+  } else if (input.array) {
+    return { elements: input.array.elements, spacingWavelengths: input.array.spacingWavelengths };
+  } else {
+    const arrayId = input.arrayId ?? ((dataset?.arrayId as number | null) ?? undefined);
+    if (arrayId === undefined) {
+      throw new ApiError('validation_failed', 'Give arrayId or array {elements, spacingWavelengths}: the spacing is needed to turn phases into bearings.', {
+        fields: { arrayId: ['arrayId or array is required'] },
+      });
+    }
+    ({ array: design, revision } = await findTeamArrayRevision({ caller, arrayId }));
+  }
+  const disabled = disabledElements(revision);
+  if (disabled.length) {
+    throw new ApiError(
+      'validation_failed',
+      `Array "${design.name}" (revision ${revision.revision}) has disabled element(s) ${disabled.join(', ')}. The estimators assume a full uniform line (ESPRIT and root-MUSIC need the shift invariance, and the spectra are computed for contiguous elements), so runs on an array with disabled elements are refused; enable them in the designer or use an array without gaps.`,
+      { fields: { arrayId: [`elements ${disabled.join(', ')} are disabled`] } },
+    );
+  }
+  return { elements: revision.elements, spacingWavelengths: revision.spacingWavelengths, arrayId: design.id, arrayRevisionId: revision.id, revision: revision.revision, name: design.name };
+}
+
+function inlineRows(s: NonNullable<EstimateRequest['snapshots']>): ComplexMatrix {
+  const n = s.re.length;
+  const m = s.re[0].length;
+  const re = new Float64Array(n * m);
+  const im = new Float64Array(n * m);
+  for (let r = 0; r < n; r++) {
+    for (let c = 0; c < m; c++) {
+      const a = s.re[r][c];
+      const b = s.im[r][c];
+      if (!Number.isFinite(a) || !Number.isFinite(b)) throw new ApiError('validation_failed', `snapshots row ${r + 1}, column ${c + 1} is not a finite number`, { fields: { snapshots: ['not finite'] } });
+      re[r * m + c] = a;
+      im[r * m + c] = b;
+    }
+  }
+  return { rows: n, cols: m, re, im };
+}
+
+function engineToApi(err: unknown): unknown {
+  if (err instanceof DoaInputError) return new ApiError('validation_failed', `The estimate cannot be computed: ${err.message}.`, { fields: { engine: [err.code] } });
+  if (err instanceof DoaNumericalError) return new ApiError('validation_failed', `The computation did not succeed on these data: ${err.message}.`, { fields: { engine: [err.code] } });
+  if (err instanceof DatasetError) return datasetErrorToApi(err) ?? err;
+  return err;
+}
+
+/**
+ * Validates and stores a run, queues it, and (when `wait`) resolves once it
+ * is done. Size problems (K ≥ L, a mismatched element count, disabled
+ * elements) are 422 before anything is stored; a run the engine refuses when
+ * waited on is removed and answered with 422.
+ */
+export async function submitEstimate({
+  caller,
+  input,
+  wait,
+  pinnedRevisionId,
+  rerunOf,
+}: {
+  caller: Caller;
+  input: EstimateRequest;
+  wait: boolean;
+  pinnedRevisionId?: number;
+  rerunOf?: number;
+}): Promise<EstimateRunDto> {
+  assertPermission(caller, 'estimates.run');
+  const db = await getDb();
+  let dataset: Dataset | null = null;
+  let m: number;
+  let n: number;
+  if (input.datasetId !== undefined) {
+    dataset = await Dataset.findOne({ where: { id: input.datasetId, teamId: caller.teamId } });
+    if (!dataset) throw new ApiError('not_found', `No dataset with id ${input.datasetId} in your team.`);
+    m = dataset.elements;
+    n = dataset.snapshots;
+  } else {
+    m = input.snapshots!.re[0].length;
+    n = input.snapshots!.re.length;
+  }
+  const array = await resolveArray({ caller, input, dataset, pinnedRevisionId });
+  if (array.elements !== m) {
+    const what = dataset ? `dataset "${dataset.name}" has ${m} columns (elements)` : `the snapshots have ${m} columns (elements)`;
+    const arrayName = array.name ? `array "${array.name}" (revision ${array.revision})` : 'the array';
+    throw new ApiError('validation_failed', `The element counts differ: ${what} but ${arrayName} has ${array.elements} elements.`, {
+      fields: { [input.array ? 'array' : 'arrayId']: [`${array.elements} elements, the data has ${m}`] },
+    });
+  }
+  const options = optionsOf(input);
+  checkSizes(m, options, n);
+  const methods: DoaMethod[] = input.methods ?? [input.method!];
+  const inputs: RunInputs = {
+    request: input,
+    methods,
+    options,
+    array,
+    ...(dataset ? { dataset: { id: dataset.id, sha256: dataset.sha256, name: dataset.name, elements: dataset.elements, snapshots: dataset.snapshots } } : {}),
+    ...(rerunOf !== undefined ? { rerunOf } : {}),
+  };
+  const run = await db.transaction(async (transaction) => {
+    const created = await EstimateRun.create(
+      {
+        teamId: caller.teamId,
+        status: 'queued',
+        datasetId: dataset ? dataset.id : null,
+        datasetSha256: dataset ? dataset.sha256 : null,
+        arrayRevisionId: array.arrayRevisionId ?? null,
+        inputs: inputs as unknown as Record<string, unknown>,
+        softwareVersion: SOFTWARE_VERSION,
+        createdById: caller.id,
+      },
+      { transaction },
+    );
+    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: rerunOf ? 'estimate.rerun' : 'estimate.started', target: methods.join(', '), detail: { id: created.id, rerunOf: rerunOf ?? null } }, transaction);
+    return created;
+  });
+  const done = enqueue(String(run.id), () => executeRun({ caller, runId: run.id }));
+  if (!wait) {
+    done.catch(() => undefined); // the run row records the failure
+    return getEstimateRun({ caller, id: run.id });
+  }
+  try {
+    await done;
+  } catch (err) {
+    const mapped = engineToApi(err);
+    if (mapped instanceof ApiError) {
+      await EstimateRun.destroy({ where: { id: run.id } });
+      throw mapped;
+    }
+    throw err;
+  }
+  return getEstimateRun({ caller, id: run.id });
+}
+
+/** The job: load the data, run each method with a yield in between, store progress and results. */
+async function executeRun({ caller, runId }: { caller: Caller; runId: number }): Promise<void> {
+  const run = await EstimateRun.findByPk(runId);
+  if (!run) return;
+  const inputs = run.inputs as unknown as RunInputs;
+  const setProgress = async (progress: number, status: EstimateRun['status'] = 'running') => {
+    await EstimateRun.update({ progress: Math.min(1, progress), status }, { where: { id: runId } });
+  };
+  try {
+    await setProgress(0.02);
+    let rows: ComplexMatrix;
+    if (inputs.dataset) {
+      let last = 0;
+      const { parsed } = await loadDatasetSnapshots({
+        caller,
+        id: inputs.dataset.id,
+        onProgress: ({ bytesRead, totalBytes }) => {
+          const p = 0.02 + 0.28 * (bytesRead / Math.max(1, totalBytes));
+          if (p - last > 0.05) {
+            last = p;
+            void setProgress(p);
+          }
+        },
+      });
+      rows = { rows: parsed.snapshots, cols: parsed.elements, re: parsed.re, im: parsed.im };
+    } else {
+      rows = inlineRows(inputs.request.snapshots!);
+    }
+    await setProgress(0.3);
+    await yieldToEventLoop();
+    const covariance = usedCovariance(rows, inputs.options);
+    const results: MethodResult[] = [];
+    for (let i = 0; i < inputs.methods.length; i++) {
+      await yieldToEventLoop();
+      results.push(
+        runMethod({ rows, elements: inputs.array.elements, spacingWavelengths: inputs.array.spacingWavelengths, method: inputs.methods[i], options: inputs.options, covariance }),
+      );
+      await setProgress(0.3 + (0.7 * (i + 1)) / inputs.methods.length);
+    }
+    await EstimateRun.update({ status: 'done', progress: 1, result: { results } as unknown as Record<string, unknown>, error: null }, { where: { id: runId } });
+  } catch (err) {
+    const mapped = engineToApi(err);
+    const message = mapped instanceof ApiError ? mapped.message : 'The run failed on the server; the detail has been logged.';
+    if (!(mapped instanceof ApiError)) console.error('[steerwise] estimate run failed', runId, err);
+    await EstimateRun.update({ status: 'failed', error: message }, { where: { id: runId } });
+    throw err;
+  }
+}
+
+export async function getEstimateRun({ caller, id }: { caller: Caller; id: number }): Promise<EstimateRunDto> {
+  assertPermission(caller, 'datasets.read');
+  await getDb();
+  const run = await EstimateRun.findOne({ where: { id, teamId: caller.teamId } });
+  if (!run) throw new ApiError('not_found', `No estimate run with id ${id} in your team.`);
+  if ((run.status === 'queued' || run.status === 'running') && !isActive(String(run.id))) {
+    run.status = 'failed';
+    run.error = STALE_MESSAGE;
+    await run.save();
+  }
+  const creator = run.createdById ? await User.findByPk(run.createdById as number) : null;
+  return toDto(run, creator);
+}
+
+export async function listEstimateRuns({ caller, limit = 50 }: { caller: Caller; limit?: number }): Promise<EstimateRunListItem[]> {
+  assertPermission(caller, 'datasets.read');
+  await getDb();
+  const runs = await EstimateRun.findAll({ where: { teamId: caller.teamId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit });
+  return runs.map((run) => {
+    const inputs = run.inputs as unknown as RunInputs;
+    const results = ((run.result ?? {}) as { results?: MethodResult[] }).results ?? [];
+    const stale = (run.status === 'queued' || run.status === 'running') && !isActive(String(run.id));
+    return {
+      id: run.id,
+      status: stale ? 'failed' : run.status,
+      progress: run.progress,
+      error: stale ? STALE_MESSAGE : (run.error ?? null),
+      createdAt: run.createdAt.toISOString(),
+      softwareVersion: run.softwareVersion,
+      methods: inputs.methods ?? [],
+      datasetName: inputs.dataset?.name ?? null,
+      arrayLabel: inputs.array?.name ? `${inputs.array.name} r${inputs.array.revision}` : `${inputs.array?.elements} × ${inputs.array?.spacingWavelengths} λ`,
+      bearingsDeg: Object.fromEntries(results.map((r) => [r.method, r.bearingsDeg])),
+    };
+  });
+}
+
+export interface RerunComparison {
+  method: DoaMethod;
+  storedBearingsDeg: number[];
+  newBearingsDeg: number[];
+  maxAbsDifferenceDeg: number | null;
+  identical: boolean;
+}
+
+/**
+ * Runs a stored run again with its exact inputs: the same array revision
+ * (not the array's latest), the same dataset file (its SHA-256 is checked
+ * again; 409 if the file changed or the dataset is gone) and options; then
+ * compares the bearings method by method.
+ */
+export async function rerunEstimate({ caller, id, wait }: { caller: Caller; id: number; wait: boolean }): Promise<{ run: EstimateRunDto; rerunOf: number; comparison: RerunComparison[] | null; softwareVersionThen: string }> {
+  assertPermission(caller, 'estimates.run');
+  const old = await getEstimateRun({ caller, id });
+  const inputs = old.inputs;
+  if (inputs.dataset) {
+    const dataset = await Dataset.findOne({ where: { id: inputs.dataset.id, teamId: caller.teamId } });
+    if (!dataset) throw new ApiError('conflict', `The dataset this run used ("${inputs.dataset.name}", id ${inputs.dataset.id}) has been deleted; the run cannot be repeated.`);
+    const digest = await sha256File(resolveStoragePath(dataset.storagePath)).catch(() => null);
+    if (digest !== inputs.dataset.sha256) {
+      throw new ApiError('conflict', `The stored file of dataset "${dataset.name}" no longer has the SHA-256 the run used (${inputs.dataset.sha256.slice(0, 12)}…); the run cannot be repeated exactly.`);
+    }
+  }
+  const request: EstimateRequest = { ...inputs.request };
+  if (inputs.array.arrayRevisionId === undefined) request.array = { elements: inputs.array.elements, spacingWavelengths: inputs.array.spacingWavelengths };
+  const run = await submitEstimate({ caller, input: request, wait, pinnedRevisionId: inputs.array.arrayRevisionId, rerunOf: id });
+  const comparison = run.status === 'done' && old.status === 'done' ? compareRuns(old.results, run.results) : null;
+  return { run, rerunOf: id, comparison, softwareVersionThen: old.softwareVersion };
+}
+
+export function compareRuns(before: MethodResult[], after: MethodResult[]): RerunComparison[] {
+  return after.map((r) => {
+    const prev = before.find((b) => b.method === r.method);
+    const stored = prev?.bearingsDeg ?? [];
+    let max: number | null = null;
+    if (stored.length === r.bearingsDeg.length) {
+      max = 0;
+      for (let i = 0; i < stored.length; i++) max = Math.max(max, Math.abs(stored[i] - r.bearingsDeg[i]));
+    }
+    return { method: r.method, storedBearingsDeg: stored, newBearingsDeg: r.bearingsDeg, maxAbsDifferenceDeg: max, identical: max === 0 };
+  });
+}
+
+/** POST /api/v1/bounds: lib/doa bounds() with engine errors as 422. */
+export async function computeBounds({ caller, input }: { caller: Caller; input: Parameters<typeof bounds>[0] }) {
+  assertPermission(caller, 'datasets.read');
+  try {
+    return bounds(input);
+  } catch (err) {
+    throw engineToApi(err);
+  }
+}
