@@ -52,7 +52,7 @@ function buildIfNeeded(): void {
   fs.mkdirSync(path.join(root, 'test-results'), { recursive: true });
   const log = path.join(root, 'test-results', 'e2e-build.log');
   console.log(`[e2e] building the app (next build); log in ${path.relative(root, log)}`);
-  const res = spawnSync(process.execPath, [path.join(root, 'node_modules/next/dist/bin/next'), 'build'], { cwd: root, encoding: 'utf8', env: { ...process.env, NEXT_TELEMETRY_DISABLED: '1' }, maxBuffer: 64 * 1024 * 1024 });
+  const res = spawnSync(process.execPath, [path.join(root, 'node_modules/next/dist/bin/next'), 'build'], { cwd: root, encoding: 'utf8', env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1' }, maxBuffer: 64 * 1024 * 1024 });
   fs.writeFileSync(log, `${res.stdout}\n${res.stderr}`);
   if (res.status !== 0) throw new Error(`next build failed (exit ${res.status}):\n${`${res.stdout}\n${res.stderr}`.slice(-4000)}`);
 }
