@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize';
 import { AuditEvent, AuthLink, Team, User, initModels } from '@/models';
 import type { Role } from '@/models/user';
 import { hashPassword } from '../passwords';
+import { seedDemoArrays } from './arrays';
 import { randomSecret, sha256Hex } from '../secrets';
 
 /**
@@ -87,6 +88,7 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
         { transaction },
       );
     }
+    await seedDemoArrays({ teamId: team.id, users, transaction });
     return { teamId: team.id, otherTeamId: other.id, users, created: teamCreated };
   });
 }
