@@ -1,0 +1,383 @@
+import 'server-only';
+/**
+ * Builds the hand-off bundle of one array revision (README "Hand-off bundle
+ * format"): the revision as JSON, per-element calibration as CSV, the beam
+ * pattern and separation-versus-aperture charts as SVG, a plain-text summary,
+ * and optionally chosen datasets (file + metadata) and estimate runs (inputs
+ * + results), each listed with its SHA-256 in manifest.json (lib/bundle).
+ */
+import fs from 'node:fs';
+import { Op } from 'sequelize';
+import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, Review, Team, User } from '@/models';
+import { ApiError } from '@/lib/api';
+import { assertPermission, type Caller } from '@/lib/auth';
+import { recordAudit } from '@/lib/audit';
+import { getDb } from '@/lib/db';
+import { writeBundle, sha256Hex, type BundleFileInput, type BundleManifest } from '@/lib/bundle/bundle';
+import { arrayInputSchema, type ArrayInput } from '@/lib/validations/array';
+import { normalizeDraft, type DesignerDraft } from '@/lib/designer/state';
+import { designFigures, pairAdvice } from '@/lib/designer/analysis';
+import { beamPatternSvg, separationChartSvg } from './charts';
+import { resolveDataPath } from './storage';
+import { storedResults } from './runs';
+import { SOFTWARE_VERSION } from './version';
+
+export const REVISION_PATH = 'array/revision.json';
+export const CALIBRATION_PATH = 'array/calibration.csv';
+export const BEAM_CHART_PATH = 'charts/beam-pattern.svg';
+export const SEPARATION_CHART_PATH = 'charts/separation-vs-aperture.svg';
+export const SUMMARY_PATH = 'summary.txt';
+
+export interface BundleSelection {
+  /** Revision number; default the latest. */
+  revision?: number;
+  datasetIds?: number[];
+  runIds?: number[];
+}
+
+/** array/revision.json */
+export interface BundleRevisionJson {
+  format: 'steerwise-array-revision';
+  name: string;
+  revision: number;
+  createdAt: string;
+  author: { name: string; email: string } | null;
+  elements: number;
+  spacingWavelengths: number;
+  frequencyHz: number | null;
+  propagationSpeedMps: number | null;
+  /** The validated array input (lib/validations/array.ts), exactly as stored. */
+  config: Record<string, unknown>;
+  signOffs: { by: string; at: string; note: string }[];
+}
+
+/** datasets/<id>/dataset.json */
+export interface BundleDatasetJson {
+  format: 'steerwise-dataset';
+  originalId: number;
+  name: string;
+  fileFormat: string;
+  elements: number;
+  snapshots: number;
+  sha256: string;
+  bytes: number;
+  originalName: string;
+  options: Record<string, unknown> | null;
+  createdAt: string;
+  /** Path of the data file inside the bundle. */
+  file: string;
+}
+
+/** runs/<id>.json */
+export interface BundleRunJson {
+  format: 'steerwise-estimate-run';
+  originalId: number;
+  createdAt: string;
+  softwareVersion: string;
+  datasetSha256: string | null;
+  /** Folder of the run's dataset inside the bundle (datasets/<id>), or null when the data is not included. */
+  dataset: string | null;
+  inputs: Record<string, unknown>;
+  result: Record<string, unknown>;
+}
+
+const iso = (d: Date | string) => new Date(d).toISOString();
+const parseJson = <T,>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
+
+/** A file name: lower-case letters, digits and hyphens. */
+export function slug(text: string, fallback = 'array'): string {
+  const s = text.normalize('NFKD').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 60);
+  return s || fallback;
+}
+
+/** Whether this caller may put dataset files into a bundle (viewers only when the team allows it). */
+export async function mayExportDatasets(caller: Caller): Promise<boolean> {
+  if (caller.role !== 'viewer') return true;
+  const team = await Team.findByPk(caller.teamId);
+  return Boolean(team?.settings.allowViewerDatasetExport);
+}
+
+/** Per-element state as CSV: position along the axis, enabled, gain and phase calibration. */
+export function calibrationCsv(draft: DesignerDraft, spacingWavelengths: number, wavelengthM?: number): string {
+  const lines = ['element,position_wavelengths,position_m,enabled,gain_db,phase_deg'];
+  draft.elementStates.forEach((e, m) => {
+    const pos = m * spacingWavelengths;
+    lines.push([m, pos, wavelengthM !== undefined ? pos * wavelengthM : '', e.enabled ? 1 : 0, e.gainDb, e.phaseDeg].join(','));
+  });
+  return lines.join('\n') + '\n';
+}
+
+const f = (v: number | null | undefined, digits = 3, unit = '') => (v === null || v === undefined || !Number.isFinite(v) ? '—' : `${v.toFixed(digits)}${unit}`);
+
+function mediumText(draft: DesignerDraft): string {
+  const m = draft.medium;
+  switch (m.kind) {
+    case 'radio':
+      return 'radio (speed of light)';
+    case 'sea-water':
+      return `sea water, ${m.temperatureC} °C, ${m.salinityPpt} ppt, ${m.depthM} m depth (${m.equation})`;
+    case 'fresh-water':
+      return `fresh water, ${m.temperatureC} °C`;
+    case 'air':
+      return `air, ${m.temperatureC} °C`;
+    case 'custom':
+      return `custom speed ${m.speedMps} m/s`;
+  }
+}
+
+/** The plain-text summary: figures, cautions, contents, and how to check the files without the app. */
+export function summaryText({
+  draft,
+  revision,
+  arrayName,
+  author,
+  createdAt,
+  signOffs,
+  datasets,
+  runs,
+  datasetsLeftOut,
+  exportedBy,
+}: {
+  draft: DesignerDraft;
+  revision: number;
+  arrayName: string;
+  author: string;
+  createdAt: string;
+  signOffs: BundleRevisionJson['signOffs'];
+  datasets: BundleDatasetJson[];
+  runs: BundleRunJson[];
+  datasetsLeftOut: boolean;
+  exportedBy: string;
+}): string {
+  const fig = designFigures(draft);
+  const pairs = pairAdvice(draft);
+  const disabled = draft.elementStates.map((e, i) => (e.enabled ? -1 : i)).filter((i) => i >= 0);
+  const calibrated = draft.elementStates.filter((e) => e.gainDb !== 0 || e.phaseDeg !== 0).length;
+  const L: string[] = [];
+  L.push(`STEERWISE HAND-OFF: ${arrayName}, revision ${revision}`);
+  L.push('='.repeat(Math.min(78, L[0].length)));
+  L.push(`Revision saved ${createdAt} by ${author}. Bundle written ${new Date().toISOString()} by ${exportedBy} (${SOFTWARE_VERSION}).`);
+  L.push('');
+  L.push('ARRAY');
+  L.push(`  Uniform linear array of ${draft.elements} elements, spacing ${draft.spacing.value} ${draft.spacing.unit === 'wavelength' ? 'λ' : draft.spacing.unit} = ${fig.spacingWavelengths.toPrecision(6)} λ.`);
+  if (draft.frequencyHz !== undefined) L.push(`  Analysis frequency ${draft.frequencyHz} Hz; medium ${mediumText(draft)}; wavelength ${f(fig.geometry.wavelengthM, 6, ' m')}.`);
+  else L.push('  No analysis frequency: the spacing is known in wavelengths only.');
+  L.push(`  Steering ${draft.steerDeg}°, scan sector ±${draft.scanSectorDeg}°, taper ${draft.taper.kind === 'chebyshev' ? `Chebyshev ${draft.taper.sidelobeDb} dB` : draft.taper.kind}.`);
+  L.push(`  Elements disabled: ${disabled.length ? disabled.join(', ') : 'none'}; elements with gain/phase calibration: ${calibrated} (see array/calibration.csv).`);
+  L.push('');
+  L.push('FIGURES (computed by the Steerwise engine; angles in degrees from broadside)');
+  L.push(`  Aperture                      ${f(fig.apertureWavelengths, 3, ' λ')}${fig.apertureM !== undefined ? ` (${f(fig.apertureM, 4, ' m')})` : ''}`);
+  L.push(`  Half-power beamwidth          ${f(fig.halfPowerBeamwidthDeg, 3, '°')}${fig.halfPowerClipped ? ' (clipped at endfire)' : ''}`);
+  L.push(`  First-null beamwidth          ${f(fig.firstNullBeamwidthDeg, 3, '°')}${fig.firstNullClipped ? ' (clipped at endfire)' : ''}`);
+  L.push(`  Peak sidelobe                 ${f(fig.peakSidelobeDb, 2, ' dB')}${fig.peakSidelobeAtDeg !== null ? ` at ${f(fig.peakSidelobeAtDeg, 2, '°')}` : ''}`);
+  L.push(`  Grating-lobe-free scan        ±${f(fig.gratingLobeFreeScanDeg, 2, '°')}`);
+  L.push(`  Rayleigh gap (broadside)      ${f(fig.rayleighGapDegAtBroadside, 3, '°')} (Δu = ${fig.rayleighGapU.toPrecision(4)})`);
+  L.push(`  Planning case                 ${draft.snrDb} dB SNR per element, ${draft.snapshots} snapshots`);
+  L.push('');
+  L.push('CAUTIONS');
+  const cautions: string[] = [];
+  if (fig.beamError) cautions.push(`The beam figures could not be computed: ${fig.beamError}.`);
+  if (fig.scanExceedsGratingFree) cautions.push(`The scan sector ±${draft.scanSectorDeg}° exceeds the grating-lobe-free scan ±${f(fig.gratingLobeFreeScanDeg, 2, '°')}: grating lobes enter visible space. Reduce the spacing to at most ${f(fig.maxSpacingForScanWavelengths, 3, ' λ')}.`);
+  if (disabled.length) cautions.push(`${disabled.length} element(s) are disabled: the array is no longer uniform, so ESPRIT-family methods (which need shift invariance) and root-MUSIC cannot use it as is.`);
+  for (const w of fig.geometry.warnings) if (w.code !== 'no-frequency') cautions.push(w.message);
+  for (const p of pairs) if (p.verdict !== 'resolvable') cautions.push(`${p.outcome}${p.fixes.length ? ` Fixes: ${p.fixes.join(' ')}` : ''}`);
+  cautions.push('Estimates are advisory: the Cramér–Rao bound limits the variance of unbiased estimators and guarantees nothing for one estimate; calibration errors, coupling, near-field, wideband or coherent sources break the model. A line array measures a cone angle and cannot tell left from right.');
+  for (const c of cautions) L.push(`  - ${c}`);
+  L.push('');
+  if (pairs.length) {
+    L.push('PLANNED SOURCE PAIRS');
+    for (const p of pairs) L.push(`  - sources ${p.i + 1}/${p.j + 1} at ${p.bearingsDeg[0]}° and ${p.bearingsDeg[1]}°: ${p.verdict}`);
+    L.push('');
+  }
+  L.push('SIGN-OFF');
+  if (signOffs.length) for (const s of signOffs) L.push(`  Approved by ${s.by} at ${s.at}${s.note ? `: "${s.note}"` : ''}`);
+  else L.push('  This revision had no sign-off when the bundle was written.');
+  L.push('');
+  L.push('DATASETS');
+  if (datasets.length) for (const d of datasets) L.push(`  - ${d.file}: "${d.name}", ${d.fileFormat}, ${d.elements} elements × ${d.snapshots} snapshots, SHA-256 ${d.sha256}`);
+  else L.push(datasetsLeftOut ? '  Dataset files were left out: your role may not export them in this team.' : '  None included.');
+  L.push('');
+  L.push('ESTIMATE RUNS');
+  if (runs.length === 0) L.push('  None included.');
+  for (const r of runs) {
+    let results: string;
+    try {
+      results = storedResults(r.result).map((m) => `${m.method}: ${m.bearingsDeg.map((b) => b.toFixed(4) + '°').join(', ') || 'no bearings'}`).join('; ');
+    } catch (err) {
+      results = `(result not readable: ${(err as Error).message})`;
+    }
+    L.push(`  - run ${r.originalId} (${r.createdAt}, ${r.softwareVersion})${r.dataset ? ` on ${r.dataset}` : ''}: ${results}`);
+  }
+  L.push('');
+  L.push('CHECKING THE FILES WITHOUT STEERWISE');
+  L.push('  manifest.json lists every file with its SHA-256 and size. On a Unix shell:');
+  L.push('    sha256sum array/revision.json   # compare with the manifest entry');
+  L.push('  Charts are plain SVG (open in a browser); calibration and datasets are CSV or the uploaded file as received.');
+  L.push('  Import the whole bundle in Steerwise (Hand-off page) to get a new array in your team and re-run the estimates.');
+  return L.join('\n') + '\n';
+}
+
+/** Builds the bundle; checks team ownership of everything chosen. Records an audit entry. */
+export async function buildArrayBundle({
+  caller,
+  arrayId,
+  selection = {},
+  audit = true,
+}: {
+  caller: Caller;
+  arrayId: number;
+  selection?: BundleSelection;
+  audit?: boolean;
+}): Promise<{ zip: Uint8Array; fileName: string; manifest: BundleManifest; revision: number; sha256: string }> {
+  assertPermission(caller, 'arrays.read');
+  await getDb();
+  const array = await ArrayDesign.findOne({ where: { id: arrayId, teamId: caller.teamId } });
+  if (!array) throw new ApiError('not_found', `No array with id ${arrayId} in your team.`);
+  const revisionNumber = selection.revision ?? array.latestRevision;
+  const rev = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: revisionNumber } });
+  if (!rev) throw new ApiError('not_found', `Array "${array.name}" has no revision ${revisionNumber} (latest is ${array.latestRevision}).`, { fields: { revision: [`no revision ${revisionNumber}`] } });
+
+  const config = parseJson<Record<string, unknown>>(rev.config);
+  const parsedConfig = arrayInputSchema.safeParse(config);
+  if (!parsedConfig.success) throw new Error(`stored config of array ${array.id} revision ${rev.revision} does not validate: ${parsedConfig.error.message}`);
+  const input: ArrayInput = parsedConfig.data;
+  const draft = normalizeDraft(input);
+  const fig = designFigures(draft);
+
+  const datasetIds = [...new Set(selection.datasetIds ?? [])];
+  const runIds = [...new Set(selection.runIds ?? [])];
+  const datasetsAllowed = await mayExportDatasets(caller);
+  if (datasetIds.length && !datasetsAllowed) {
+    throw new ApiError('forbidden', 'Your role (viewer) cannot export dataset files in this team: an admin can allow it in the team settings. Export without datasets instead.');
+  }
+
+  const runs = runIds.length ? await EstimateRun.findAll({ where: { id: { [Op.in]: runIds }, teamId: caller.teamId } }) : [];
+  for (const id of runIds) if (!runs.some((r) => r.id === id)) throw new ApiError('not_found', `No estimate run with id ${id} in your team.`, { fields: { runs: [`no run ${id}`] } });
+  for (const r of runs) {
+    if (r.status !== 'done') throw new ApiError('validation_failed', `Estimate run ${r.id} is ${r.status}; only finished runs go into a bundle.`, { fields: { runs: [`run ${r.id} is ${r.status}`] } });
+    if (r.arrayRevisionId !== rev.id) {
+      const used = r.arrayRevisionId ? await ArrayRevision.findByPk(r.arrayRevisionId as number) : null;
+      const what = used ? (used.arrayId === array.id ? `revision ${used.revision} of this array` : 'another array') : 'an inline array';
+      throw new ApiError('validation_failed', `Estimate run ${r.id} used ${what}, not revision ${rev.revision}; export the revision it used.`, { fields: { runs: [`run ${r.id} used ${what}`] } });
+    }
+  }
+  // Runs bring their datasets along when the caller may export data.
+  const wanted = new Set(datasetIds);
+  if (datasetsAllowed) for (const r of runs) if (r.datasetId) wanted.add(r.datasetId as number);
+  const datasets = wanted.size ? await Dataset.findAll({ where: { id: { [Op.in]: [...wanted] }, teamId: caller.teamId }, order: [['id', 'ASC']] }) : [];
+  for (const id of datasetIds) if (!datasets.some((d) => d.id === id)) throw new ApiError('not_found', `No dataset with id ${id} in your team.`, { fields: { datasets: [`no dataset ${id}`] } });
+
+  const author = rev.authorId ? await User.findByPk(rev.authorId as number) : null;
+  const approvals = await Review.findAll({ where: { teamId: caller.teamId, arrayRevisionId: rev.id, kind: 'approval' }, order: [['createdAt', 'ASC']] });
+  const approvers = await User.findAll({ where: { id: { [Op.in]: approvals.map((a) => a.authorId as number).filter(Boolean) } } });
+  const signOffs = approvals.map((a) => ({ by: approvers.find((u) => u.id === a.authorId)?.name ?? 'a former member', at: iso(a.createdAt), note: a.body }));
+
+  const revisionJson: BundleRevisionJson = {
+    format: 'steerwise-array-revision',
+    name: array.name,
+    revision: rev.revision,
+    createdAt: iso(rev.createdAt),
+    author: author ? { name: author.name, email: author.email } : null,
+    elements: rev.elements,
+    spacingWavelengths: rev.spacingWavelengths,
+    frequencyHz: rev.frequencyHz ?? null,
+    propagationSpeedMps: rev.propagationSpeedMps ?? null,
+    config,
+    signOffs,
+  };
+
+  const files: BundleFileInput[] = [
+    { path: REVISION_PATH, kind: 'array-revision', data: JSON.stringify(revisionJson, null, 2) + '\n' },
+    { path: CALIBRATION_PATH, kind: 'calibration', data: calibrationCsv(draft, fig.spacingWavelengths, fig.geometry.wavelengthM) },
+    { path: BEAM_CHART_PATH, kind: 'chart', data: beamPatternSvg(draft) },
+    { path: SEPARATION_CHART_PATH, kind: 'chart', data: separationChartSvg(draft) },
+  ];
+
+  const datasetJsons: BundleDatasetJson[] = [];
+  for (const d of datasets) {
+    const ext = (d.originalName.match(/\.([A-Za-z0-9]{1,8})$/)?.[1] ?? d.format).toLowerCase();
+    const folder = `datasets/${d.id}`;
+    const bytes = await fs.promises.readFile(resolveDataPath(d.storagePath));
+    if (sha256Hex(bytes) !== d.sha256) throw new Error(`stored file of dataset ${d.id} no longer matches its SHA-256`);
+    const meta: BundleDatasetJson = {
+      format: 'steerwise-dataset',
+      originalId: d.id,
+      name: d.name,
+      fileFormat: d.format,
+      elements: d.elements,
+      snapshots: d.snapshots,
+      sha256: d.sha256,
+      bytes: Number(d.bytes),
+      originalName: d.originalName,
+      options: parseJson<Record<string, unknown> | null>(d.options ?? null),
+      createdAt: iso(d.createdAt),
+      file: `${folder}/data.${ext}`,
+    };
+    datasetJsons.push(meta);
+    files.push({ path: `${folder}/dataset.json`, kind: 'dataset', data: JSON.stringify(meta, null, 2) + '\n' });
+    files.push({ path: meta.file, kind: 'dataset', data: new Uint8Array(bytes) });
+  }
+
+  const runJsons: BundleRunJson[] = [];
+  for (const r of runs) {
+    const inputs = { ...parseJson<Record<string, unknown>>(r.inputs) };
+    if (!datasetsAllowed) {
+      // Inline snapshots are data too.
+      delete inputs.snapshots;
+      if (inputs.request && typeof inputs.request === 'object') {
+        const { snapshots: _s, ...request } = inputs.request as Record<string, unknown>;
+        void _s;
+        inputs.request = request;
+      }
+    }
+    const ds = r.datasetId ? datasets.find((d) => d.id === r.datasetId) : undefined;
+    const run: BundleRunJson = {
+      format: 'steerwise-estimate-run',
+      originalId: r.id,
+      createdAt: iso(r.createdAt),
+      softwareVersion: r.softwareVersion,
+      datasetSha256: r.datasetSha256 ?? null,
+      dataset: ds ? `datasets/${ds.id}` : null,
+      inputs,
+      result: parseJson<Record<string, unknown>>(r.result ?? {}),
+    };
+    runJsons.push(run);
+    files.push({ path: `runs/${r.id}.json`, kind: 'estimate-run', data: JSON.stringify(run, null, 2) + '\n' });
+  }
+
+  files.push({
+    path: SUMMARY_PATH,
+    kind: 'summary',
+    data: summaryText({
+      draft,
+      revision: rev.revision,
+      arrayName: array.name,
+      author: author ? `${author.name} <${author.email}>` : 'a former member',
+      createdAt: iso(rev.createdAt),
+      signOffs,
+      datasets: datasetJsons,
+      runs: runJsons,
+      datasetsLeftOut: !datasetsAllowed && runs.some((r) => r.datasetId),
+      exportedBy: `${caller.name} <${caller.email}>`,
+    }),
+  });
+
+  const { zip, manifest } = await writeBundle({
+    title: `${array.name}, revision ${rev.revision}`.slice(0, 200),
+    author: { name: caller.name, email: caller.email },
+    softwareVersion: SOFTWARE_VERSION,
+    createdAt: new Date(),
+    files,
+  });
+  const sha256 = sha256Hex(zip);
+  if (audit) {
+    await recordAudit({
+      teamId: caller.teamId,
+      userId: caller.id,
+      action: 'bundle.exported',
+      target: array.name,
+      detail: { arrayId: array.id, revision: rev.revision, datasets: datasets.map((d) => d.id), runs: runs.map((r) => r.id), bytes: zip.byteLength, sha256 },
+    });
+  }
+  return { zip, fileName: `${slug(array.name)}-r${rev.revision}.steerwise.zip`, manifest, revision: rev.revision, sha256 };
+}
