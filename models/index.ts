@@ -71,6 +71,8 @@ export function initModels(sequelize: Sequelize): void {
   Review.belongsTo(ArrayRevision, { foreignKey: 'arrayRevisionId', as: 'arrayRevision' });
   Review.belongsTo(EstimateRun, { foreignKey: 'estimateRunId', as: 'estimateRun' });
   Review.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
+  Team.hasMany(Review, { foreignKey: 'teamId', as: 'reviews' });
+  Team.hasMany(Handoff, { foreignKey: 'teamId', as: 'handoffs' });
   Handoff.belongsTo(ArrayDesign, { foreignKey: 'arrayId', as: 'array' });
   Handoff.belongsTo(User, { foreignKey: 'sentById', as: 'sentBy' });
 }
