@@ -111,12 +111,9 @@ export async function receiveUpload(req: Request, { maxBytes = maxUploadBytes() 
     originalName = (info.filename ?? '').trim();
     const t = new Sha256PassThrough();
     tap = t;
-    stream.on('limit', () => {
-      fail(tooLarge(maxBytes));
-      stream.unpipe();
-      stream.resume();
-      t.destroy(tooLarge(maxBytes));
-    });
+    // busboy stops passing data at the limit and ends the part; the rest of the
+    // body is read and discarded, then the request is refused and the temp file removed.
+    stream.on('limit', () => fail(tooLarge(maxBytes)));
     fileWrite = pipeline(stream, t, fs.createWriteStream(tempPath, { flags: 'wx' }));
     // Errors are collected by the awaited promise below; keep Node from reporting them as unhandled meanwhile.
     fileWrite.catch(() => undefined);
@@ -124,6 +121,10 @@ export async function receiveUpload(req: Request, { maxBytes = maxUploadBytes() 
 
   try {
     const body = Readable.fromWeb(req.body as import('node:stream/web').ReadableStream<Uint8Array>);
+    // A client that goes away aborts the request signal: stop reading at once.
+    const onAbort = () => body.destroy(new Error(`the client closed the connection (${String((req.signal.reason as Error)?.message ?? req.signal.reason ?? 'aborted')})`));
+    if (req.signal.aborted) onAbort();
+    else req.signal.addEventListener('abort', onAbort, { once: true });
     try {
       await pipeline(body, bb);
     } catch (err) {

@@ -38,9 +38,15 @@ export const datasetUploadFieldsSchema = z.object({
   fftLength: optionalNumber('fftLength', (v) => Number.isInteger(v) && v >= 2 && v <= 65536 && (v & (v - 1)) === 0, 'a power of two from 2 to 65536'),
   hop: optionalNumber('hop', (v) => Number.isInteger(v) && v >= 1 && v <= 1 << 20, 'a whole number of samples ≥ 1'),
   window: z
-    .enum(['hann', 'hamming', 'rectangular'], { error: 'window must be hann, hamming or rectangular' })
+    .string()
+    .trim()
     .optional()
-    .or(z.literal('').transform(() => undefined)),
+    .transform((v, ctx) => {
+      if (v === undefined || v === '') return undefined;
+      if (v === 'hann' || v === 'hamming' || v === 'rectangular') return v;
+      ctx.addIssue({ code: 'custom', message: `window must be hann, hamming or rectangular (got '${v.slice(0, 40)}')` });
+      return z.NEVER;
+    }),
 });
 
 export type DatasetUploadFields = z.infer<typeof datasetUploadFieldsSchema>;
