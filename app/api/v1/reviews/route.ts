@@ -1,0 +1,33 @@
+import { z } from 'zod';
+import { handle, readJson } from '@/lib/api';
+import { getCaller, requireApiPermission } from '@/lib/auth';
+import { createReview, listReviews } from '@/lib/data/reviews';
+import { reviewCreateSchema } from '@/lib/handoff/validation';
+
+const id = (field: string) =>
+  z
+    .string()
+    .regex(/^[1-9][0-9]{0,15}$/, { error: `${field} must be a positive whole number` })
+    .transform(Number)
+    .optional();
+const querySchema = z.object({ arrayId: id('arrayId'), revision: id('revision'), runId: id('runId') });
+
+/**
+ * Reviews of one array revision (?arrayId=&revision=) or one run (?runId=).
+ * GET: the thread, its sign-offs and status. POST {arrayId, revision | runId,
+ * kind: comment | approval | changes-requested, body}: comments need
+ * review.comment (engineer, reviewer, admin); approvals and requests for
+ * changes need review.approve (reviewer, admin). 201 with the thread.
+ */
+export const GET = handle(async (req) => {
+  const caller = await requireApiPermission(req, 'arrays.read');
+  const q = new URL(req.url).searchParams;
+  const query = querySchema.parse({ arrayId: q.get('arrayId') ?? undefined, revision: q.get('revision') ?? undefined, runId: q.get('runId') ?? undefined });
+  return Response.json(await listReviews({ caller, ...query }));
+});
+
+export const POST = handle(async (req) => {
+  const caller = await getCaller(req);
+  const input = reviewCreateSchema.parse(await readJson(req));
+  return Response.json(await createReview({ caller, input, origin: new URL(req.url).origin }), { status: 201 });
+});
