@@ -12,6 +12,7 @@ export const mainNav: NavItem[] = [
   { href: '/arrays', label: 'Arrays', hint: 'Design and revisions' },
   { href: '/datasets', label: 'Datasets', hint: 'Snapshot recordings' },
   { href: '/estimates', label: 'Estimates', hint: 'Bearings and bounds' },
+  { href: '/handoff', label: 'Hand-off', hint: 'Import and sent bundles' },
   { href: '/studies', label: 'Studies', hint: 'Hand-off and review' },
 ];
 
