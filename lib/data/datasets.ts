@@ -296,3 +296,29 @@ export function listStoredFiles(): string[] {
   walk(path.join(dataDir(), 'uploads'));
   return out.sort();
 }
+
+export interface ArrayChoice {
+  id: number;
+  name: string;
+  revision: number;
+  revisionId: number;
+  elements: number;
+  spacingWavelengths: number;
+  disabledElements: number[];
+}
+
+/** The team's arrays at their latest revision, for the upload and estimate forms. */
+export async function listArrayChoices({ caller }: { caller: Caller }): Promise<ArrayChoice[]> {
+  assertPermission(caller, 'arrays.read');
+  await getDb();
+  const arrays = await ArrayDesign.findAll({ where: { teamId: caller.teamId }, order: [['name', 'ASC']] });
+  const out: ArrayChoice[] = [];
+  for (const a of arrays) {
+    const r = await ArrayRevision.findOne({ where: { arrayId: a.id, revision: a.latestRevision } });
+    if (!r) continue;
+    const states = (r.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
+    const disabledElements = Array.isArray(states) ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : [])) : [];
+    out.push({ id: a.id, name: a.name, revision: r.revision, revisionId: r.id, elements: r.elements, spacingWavelengths: r.spacingWavelengths, disabledElements });
+  }
+  return out;
+}
