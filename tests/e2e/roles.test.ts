@@ -42,9 +42,9 @@ describe('each role signs in and sees its pages', () => {
         expect(await nav.getByRole('link', { name: /^Audit log/ }).count()).toBe(r.admin ? 1 : 0);
         await shot(page, `role-${r.role}-overview`);
 
-        // Areas filled later show what will live there.
+        // Every role reads the team's arrays (the demo seed adds two).
         await page.goto('/arrays');
-        await expect(page.getByRole('heading', { name: 'No arrays yet' }).isVisible()).resolves.toBe(true);
+        await page.getByRole('table', { name: 'Arrays' }).waitFor();
 
         // Audit log: admins read it; everyone else gets a clear refusal, not a blank page.
         await page.goto('/audit');
@@ -113,6 +113,27 @@ describe('sign-in refusals in the browser', () => {
       await page.goto('/team');
       expect(new URL(page.url()).pathname).toBe('/login');
       await shot(page, 'login');
+    } finally {
+      await context.close();
+    }
+  });
+
+  it('keyboard: the first Tab reaches the skip link, which moves focus to the content', async () => {
+    const { context, page } = await newPage(browser, baseUrl);
+    try {
+      await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
+      await page.goto('/team');
+      await page.keyboard.press('Tab');
+      await expect(page.evaluate(() => document.activeElement?.textContent?.trim())).resolves.toBe('Skip to content');
+      await shot(page, 'keyboard-skip-link');
+      await page.keyboard.press('Enter');
+      await expect(page.evaluate(() => location.hash)).resolves.toBe('#main');
+      // Sorting the members table works from the keyboard too.
+      const nameHeader = page.getByRole('columnheader', { name: /Name/ });
+      await expect(nameHeader.getAttribute('aria-sort')).resolves.toBe('ascending');
+      await nameHeader.getByRole('button').focus();
+      await page.keyboard.press('Enter');
+      await expect(nameHeader.getAttribute('aria-sort')).resolves.toBe('descending');
     } finally {
       await context.close();
     }
