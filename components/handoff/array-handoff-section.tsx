@@ -16,7 +16,7 @@ import { ExportPanel, type RunChoice } from './export-panel';
 export async function ArrayHandoffSection({ caller, arrayId, revision }: { caller: Caller; arrayId: number; revision: number }) {
   const array = await ArrayDesign.findOne({ where: { id: arrayId, teamId: caller.teamId } });
   const rev = array ? await ArrayRevision.findOne({ where: { arrayId, revision } }) : null;
-  if (!array || !rev) return null;
+  if (!array || !rev) return <p className="text-sm text-coral-700">No array {arrayId} with revision {revision} in your team.</p>;
   const runs = await EstimateRun.findAll({ where: { teamId: caller.teamId, arrayRevisionId: rev.id, status: 'done' }, order: [['id', 'DESC']], limit: 20 });
   const datasets = await Dataset.findAll({ where: { id: { [Op.in]: runs.map((r) => r.datasetId as number).filter(Boolean) }, teamId: caller.teamId }, attributes: ['id', 'name'] });
   const choices: RunChoice[] = runs.map((r) => {
@@ -31,6 +31,7 @@ export async function ArrayHandoffSection({ caller, arrayId, revision }: { calle
   const thread = await listReviews({ caller, arrayId, revision });
   return (
     <div className="mt-8 grid gap-6 lg:grid-cols-2" id="handoff">
+      <h2 className="text-lg font-semibold lg:col-span-2">{array.name}, revision {revision}</h2>
       <ReviewPanel
         initial={thread}
         target={{ arrayId, revision }}

@@ -3,6 +3,7 @@ import { Card, CardHeader } from '@/components/ui/card';
 import { PageHeader } from '@/components/ui/page-header';
 import { Refusal } from '@/components/ui/refusal';
 import { ImportForm } from '@/components/handoff/import-form';
+import { ArrayHandoffSection } from '@/components/handoff/array-handoff-section';
 import { requirePagePermission } from '@/lib/auth';
 import { listHandoffs } from '@/lib/data/handoffs';
 import { can, refusalMessage } from '@/lib/permissions';
@@ -17,6 +18,9 @@ export default async function HandoffPage({ searchParams }: Props) {
   if (!allowed) return <Refusal message={message} />;
   const link = typeof query.link === 'string' && /^[A-Za-z0-9_-]+\.[A-Za-z0-9_-]+$/.test(query.link) ? query.link : undefined;
   const sent = await listHandoffs({ caller: user });
+  const positive = (raw: unknown) => (typeof raw === 'string' && /^[1-9][0-9]{0,8}$/.test(raw) ? Number(raw) : undefined);
+  const arrayId = positive(query.array);
+  const revision = positive(query.rev);
   return (
     <>
       <PageHeader
@@ -25,6 +29,11 @@ export default async function HandoffPage({ searchParams }: Props) {
         description="Import a bundle a colleague sent you, and see what your team has sent. To send one, open an array and use its hand-off panel."
       />
       <div className="space-y-6">
+        {arrayId !== undefined && revision !== undefined ? (
+          <section aria-label="Review and hand-off of one revision">
+            <ArrayHandoffSection caller={user} arrayId={arrayId} revision={revision} />
+          </section>
+        ) : null}
         {can(user.role, 'arrays.edit') ? <ImportForm linkToken={link} /> : <Refusal message={`${refusalMessage(user.role, 'arrays.edit')} Importing a bundle creates an array, so ask an engineer or admin to import it.`} />}
         <Card aria-labelledby="sent-title">
           <CardHeader id="sent-title" title="Sent by your team" description="Each e-mailed link is signed and expires; the bundle is built afresh from the stored revision when it is downloaded." />
@@ -46,7 +55,7 @@ export default async function HandoffPage({ searchParams }: Props) {
                 {sent.map((h) => (
                   <tr key={h.id} className="border-t border-ink-100">
                     <td className="px-5 py-2">
-                      <Link href={`/arrays/${h.arrayId}?rev=${h.revision}`} className="text-glass-700 underline underline-offset-2">
+                      <Link href={`/handoff?array=${h.arrayId}&rev=${h.revision}`} className="text-glass-700 underline underline-offset-2">
                         {h.arrayName}
                       </Link>{' '}
                       r{h.revision}
