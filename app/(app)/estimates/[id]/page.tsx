@@ -1,0 +1,35 @@
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { PageHeader } from '@/components/ui/page-header';
+import { Refusal } from '@/components/ui/refusal';
+import { RunView, type RunDto } from '@/components/estimates/run-view';
+import { ApiError } from '@/lib/api';
+import { requirePagePermission } from '@/lib/auth';
+import { can } from '@/lib/permissions';
+import { getEstimateRun } from '@/lib/data/estimates';
+
+export const dynamic = 'force-dynamic';
+
+export default async function EstimateRunPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const { user, allowed, message } = await requirePagePermission('datasets.read');
+  if (!allowed) return <Refusal message={message} />;
+  if (!/^[1-9][0-9]{0,15}$/.test(id)) notFound();
+  let run;
+  try {
+    run = await getEstimateRun({ caller: user, id: Number(id) });
+  } catch (err) {
+    if (err instanceof ApiError && err.status === 404) notFound();
+    throw err;
+  }
+  return (
+    <>
+      <PageHeader
+        kicker="Estimate run"
+        title={`Run #${run.id}`}
+        description={<>Started by {run.createdBy?.name ?? 'a former member'} on {new Date(run.createdAt).toLocaleString('en-GB')}. <Link className="text-glass-700 hover:underline" href="/estimates">All runs</Link></>}
+      />
+      <RunView id={run.id} initial={run as unknown as RunDto} canRun={can(user.role, 'estimates.run')} />
+    </>
+  );
+}
