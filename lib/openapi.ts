@@ -1,0 +1,146 @@
+/**
+ * The OpenAPI 3.1 document of the v1 API (CONVENTIONS §7), generated from the
+ * same zod schemas the route handlers parse with (zod 4 `z.toJSONSchema`,
+ * JSON Schema 2020-12, which OpenAPI 3.1 uses as its schema dialect).
+ */
+import { z } from 'zod';
+import packageJson from '@/package.json';
+import { arrayInputSchema } from './validations/array';
+import { datasetCreatedSchema, datasetSchema, datasetUploadFormSchema } from './validations/dataset';
+import { boundsAnswerSchema, boundsRequestSchema, estimateAnswerSchema, estimateRequestSchema, estimateRunSchema } from './validations/estimate';
+
+const errorSchema = z.object({
+  error: z.object({ code: z.string(), message: z.string(), fields: z.record(z.string(), z.array(z.string())).optional() }),
+});
+
+const arraySchema = z.object({
+  id: z.int(),
+  name: z.string(),
+  revision: z.int(),
+  elements: z.int(),
+  spacingWavelengths: z.number(),
+  frequencyHz: z.number().optional(),
+  propagationSpeedMps: z.number().optional(),
+  metrics: z.object({
+    apertureWavelengths: z.number(),
+    halfPowerBeamwidthDeg: z.number(),
+    rayleighGapDeg: z.number(),
+    peakSidelobeDb: z.number().nullable(),
+    gratingLobeFreeScanDeg: z.number(),
+  }),
+});
+
+const healthSchema = z.object({ status: z.literal('ok'), db: z.literal('ok') });
+
+function schema(s: z.ZodType, io: 'input' | 'output' = 'output'): Record<string, unknown> {
+  const out = z.toJSONSchema(s, { target: 'draft-2020-12', io, unrepresentable: 'any' }) as Record<string, unknown>;
+  delete out.$schema;
+  return out;
+}
+
+const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
+const json = (name: string) => ({ 'application/json': { schema: ref(name) } });
+const errors = (...codes: number[]) =>
+  Object.fromEntries(codes.map((c) => [String(c), { description: ERROR_TEXT[c], content: json('Error') }]));
+const ERROR_TEXT: Record<number, string> = {
+  400: 'Malformed JSON',
+  401: 'No or bad credentials',
+  403: 'The role may not do this',
+  404: 'Not found, or not in your team',
+  409: 'Conflict',
+  413: 'Too large',
+  415: 'Unsupported format',
+  422: 'Validation failed; the message names the field, row or column',
+  429: 'Rate limited',
+};
+const idParam = { name: 'id', in: 'path', required: true, schema: { type: 'integer', minimum: 1 } };
+
+export function openApiDocument() {
+  return {
+    openapi: '3.1.0',
+    info: {
+      title: 'Steerwise API',
+      version: `v1 (software ${packageJson.version})`,
+      description:
+        'Arrays, snapshot datasets, bearing estimates and bounds for uniform linear arrays. Angles are degrees from broadside; spacing is in wavelengths; one snapshot per row (CONVENTIONS §1–2, §6). Authenticate with `Authorization: Bearer <token>` (account page, or `npm run --silent token -- --email <email>` on the server).',
+    },
+    servers: [{ url: '/' }],
+    security: [{ bearer: [] }],
+    paths: {
+      '/api/health': { get: { summary: 'Liveness and database check', security: [], responses: { '200': { description: 'OK', content: json('Health') } } } },
+      '/api/v1/openapi.json': { get: { summary: 'This document', security: [], responses: { '200': { description: 'OpenAPI 3.1' } } } },
+      '/api/v1/arrays': {
+        get: { summary: "The team's arrays", responses: { '200': { description: 'OK', content: { 'application/json': { schema: { type: 'object', properties: { items: { type: 'array', items: ref('Array') } } } } } }, ...errors(401) } },
+        post: { summary: 'Create an array (revision 1)', requestBody: { required: true, content: json('ArrayInput') }, responses: { '201': { description: 'Created', content: json('Array') }, ...errors(400, 401, 403, 422) } },
+      },
+      '/api/v1/arrays/{id}': {
+        parameters: [idParam],
+        get: { summary: 'An array at its latest revision, with metrics', responses: { '200': { description: 'OK', content: json('Array') }, ...errors(401, 404) } },
+        patch: { summary: 'Change an array (revision + 1)', requestBody: { required: true, content: json('ArrayInput') }, responses: { '200': { description: 'OK', content: json('Array') }, ...errors(400, 401, 403, 404, 422) } },
+      },
+      '/api/v1/arrays/{id}/bundle': {
+        parameters: [idParam],
+        get: { summary: 'The hand-off bundle of an array (zip)', responses: { '200': { description: 'The bundle', content: { 'application/zip': { schema: { type: 'string', format: 'binary' } } } }, ...errors(401, 403, 404) } },
+      },
+      '/api/v1/bundles': {
+        post: {
+          summary: "Import a hand-off bundle into the caller's team",
+          requestBody: { required: true, content: { 'multipart/form-data': { schema: { type: 'object', required: ['file'], properties: { file: { type: 'string', format: 'binary' } } } } } },
+          responses: { '201': { description: 'Imported', content: { 'application/json': { schema: { type: 'object', properties: { arrayId: { type: 'integer' } }, additionalProperties: true } } } }, ...errors(401, 403, 413, 415, 422) },
+        },
+      },
+      '/api/v1/datasets': {
+        get: { summary: "The team's datasets", responses: { '200': { description: 'OK' }, ...errors(401) } },
+        post: {
+          summary: 'Upload a snapshot file',
+          description: 'Streamed to disk while hashed (SHA-256 of the bytes as received), parsed, then stored atomically with its record. Size limit STEERWISE_MAX_UPLOAD_BYTES (default 200 MiB). Reader errors carry `fields.reason` (a stable code) and `fields.location` ("row R, column C", 1-based).',
+          requestBody: { required: true, content: { 'multipart/form-data': { schema: ref('DatasetUpload') } } },
+          responses: { '201': { description: 'Stored', content: json('DatasetCreated') }, ...errors(401, 403, 404, 413, 415, 422) },
+        },
+      },
+      '/api/v1/datasets/{id}': {
+        parameters: [idParam],
+        get: { summary: 'A dataset with its summary figures', responses: { '200': { description: 'OK', content: json('Dataset') }, ...errors(401, 404) } },
+        delete: { summary: 'Delete a dataset and its stored file', responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) } },
+      },
+      '/api/v1/estimates': {
+        get: { summary: "The team's estimate runs", responses: { '200': { description: 'OK' }, ...errors(401) } },
+        post: {
+          summary: 'Estimate bearings',
+          description: 'Waits for the run and answers 201. With `Prefer: respond-async` it answers 202 with the queued run; poll GET /api/v1/estimates/{id}. K ≥ M (or ≥ the smoothed L), mismatched element counts and arrays with disabled elements are 422.',
+          parameters: [{ name: 'Prefer', in: 'header', required: false, schema: { type: 'string', enum: ['respond-async'] } }],
+          requestBody: { required: true, content: json('EstimateRequest') },
+          responses: { '201': { description: 'Done', content: json('Estimate') }, '202': { description: 'Queued', content: json('EstimateRun') }, ...errors(400, 401, 403, 404, 413, 415, 422) },
+        },
+      },
+      '/api/v1/estimates/{id}': {
+        parameters: [idParam],
+        get: { summary: 'A run with its inputs, status, progress and per-method results', responses: { '200': { description: 'OK', content: json('EstimateRun') }, ...errors(401, 404) } },
+      },
+      '/api/v1/estimates/{id}/rerun': {
+        parameters: [idParam],
+        post: { summary: 'Repeat a run with its exact inputs and compare the bearings', responses: { '201': { description: 'Done, with `comparison`' }, '202': { description: 'Queued' }, ...errors(401, 403, 404, 409, 422) } },
+      },
+      '/api/v1/bounds': {
+        post: { summary: 'Stochastic CRB per source and the resolvable-gap test per pair', requestBody: { required: true, content: json('BoundsRequest') }, responses: { '200': { description: 'OK', content: json('Bounds') }, ...errors(400, 401, 422) } },
+      },
+    },
+    components: {
+      securitySchemes: { bearer: { type: 'http', scheme: 'bearer', description: 'A personal API token' } },
+      schemas: {
+        Error: schema(errorSchema),
+        Health: schema(healthSchema),
+        ArrayInput: schema(arrayInputSchema, 'input'),
+        Array: schema(arraySchema),
+        DatasetUpload: schema(datasetUploadFormSchema, 'input'),
+        DatasetCreated: schema(datasetCreatedSchema),
+        Dataset: schema(datasetSchema),
+        EstimateRequest: schema(estimateRequestSchema, 'input'),
+        Estimate: schema(estimateAnswerSchema),
+        EstimateRun: schema(estimateRunSchema),
+        BoundsRequest: schema(boundsRequestSchema, 'input'),
+        Bounds: schema(boundsAnswerSchema),
+      },
+    },
+  };
+}
