@@ -8,27 +8,12 @@ import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from '../audit';
 import { getDb } from '../db';
 import { DatasetError, detectFormat, parseSnapshotFile, type ParsedSnapshots, type ParseOptions, type SnapshotFormat } from '../datasets';
-import { CovarianceAccumulator, hermitianEigen, sourceCountCriteria } from '../doa';
+import { summarise, type DatasetSummary } from '../storage/summary';
 import { datasetsDir, maxUploadBytes, removeQuietly, resolveStoragePath, type ReceivedUpload } from '../storage/uploads';
 import { datasetUploadFieldsSchema } from '../validations/dataset';
-import { dataDir } from '../env';
 
-/** What the dataset page and GET /api/v1/datasets/{id} show. */
-export interface DatasetSummary {
-  /** 10·log10 of the mean |x|² per channel (element), dB re 1; −300 for a dead channel. */
-  channelPowerDb: number[];
-  /** Eigenvalues of the sample covariance R = X·Xᴴ/N, descending. */
-  eigenvalues: number[];
-  /** MDL(k) and AIC(k), k = 0 … M−1 (Wax & Kailath 1985, from lib/doa). */
-  mdl: number[];
-  aic: number[];
-  mdlChoice: number;
-  aicChoice: number;
-  /** |R[i][k]| (M ≤ 128; null above). */
-  covarianceMagnitude: number[][] | null;
-  /** The first snapshots as stored (rows = snapshots, columns = elements). */
-  preview: { re: number[][]; im: number[][] };
-}
+export { summarise, type DatasetSummary };
+import { dataDir } from '../env';
 
 export interface DatasetDto {
   id: number;
@@ -49,8 +34,6 @@ export interface DatasetDto {
 
 export type DatasetListItem = Omit<DatasetDto, 'summary' | 'details' | 'options'>;
 
-export const PREVIEW_ROWS = 20;
-export const HEATMAP_MAX_ELEMENTS = 128;
 
 function toDto(d: Dataset, uploader: User | null, withSummary: boolean): DatasetDto {
   const details = (d.details ?? null) as (Record<string, unknown> & { summary?: DatasetSummary }) | null;
@@ -86,50 +69,6 @@ export async function findTeamArrayRevision({ caller, arrayId }: { caller: Calle
   const revision = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: array.latestRevision } });
   if (!revision) throw new ApiError('not_found', `Array ${arrayId} has no saved revision.`);
   return { array, revision };
-}
-
-/** Computes the page's figures from parsed snapshots (rows = snapshots). */
-export function summarise(parsed: Pick<ParsedSnapshots, 'elements' | 'snapshots' | 're' | 'im'>): DatasetSummary {
-  const m = parsed.elements;
-  const n = parsed.snapshots;
-  const power = new Array<number>(m).fill(0);
-  for (let r = 0; r < n; r++) {
-    const base = r * m;
-    for (let c = 0; c < m; c++) power[c] += parsed.re[base + c] ** 2 + parsed.im[base + c] ** 2;
-  }
-  const channelPowerDb = power.map((p) => (p > 0 ? 10 * Math.log10(p / n) : -300));
-  const acc = new CovarianceAccumulator(m);
-  acc.addRows({ rows: n, cols: m, re: parsed.re, im: parsed.im });
-  const r = acc.covariance();
-  const eig = hermitianEigen(r, { vectors: false });
-  const eigenvalues = Array.from(eig.values);
-  let mdl: number[] = [];
-  let aic: number[] = [];
-  let mdlChoice = 0;
-  let aicChoice = 0;
-  if (eigenvalues[0] > 0) {
-    const crit = sourceCountCriteria(eig.values, n);
-    mdl = crit.mdl;
-    aic = crit.aic;
-    mdlChoice = crit.mdlChoice;
-    aicChoice = crit.aicChoice;
-  }
-  let covarianceMagnitude: number[][] | null = null;
-  if (m <= HEATMAP_MAX_ELEMENTS) {
-    covarianceMagnitude = [];
-    for (let i = 0; i < m; i++) {
-      const row: number[] = [];
-      for (let k = 0; k < m; k++) row.push(Math.hypot(r.re[i * m + k], r.im[i * m + k]));
-      covarianceMagnitude.push(row);
-    }
-  }
-  const rows = Math.min(n, PREVIEW_ROWS);
-  const preview = { re: [] as number[][], im: [] as number[][] };
-  for (let i = 0; i < rows; i++) {
-    preview.re.push(Array.from(parsed.re.subarray(i * m, (i + 1) * m)));
-    preview.im.push(Array.from(parsed.im.subarray(i * m, (i + 1) * m)));
-  }
-  return { channelPowerDb, eigenvalues, mdl, aic, mdlChoice, aicChoice, covarianceMagnitude, preview };
 }
 
 /** A DatasetError as the v1 error body (with its reader code and location). */

@@ -3,6 +3,7 @@ import { AuditEvent, AuthLink, Team, User, initModels } from '@/models';
 import type { Role } from '@/models/user';
 import { hashPassword } from '../passwords';
 import { seedDemoArrays } from './arrays';
+import { seedRecordings } from './recordings';
 import { randomSecret, sha256Hex } from '../secrets';
 
 /**
@@ -89,6 +90,7 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
       );
     }
     await seedDemoArrays({ teamId: team.id, users, transaction });
+    await seedRecordings({ teamId: team.id, uploadedById: users['engineer@steerwise.test'] ?? null, transaction });
     return { teamId: team.id, otherTeamId: other.id, users, created: teamCreated };
   });
 }

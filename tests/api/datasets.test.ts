@@ -69,7 +69,7 @@ describe('every fixture format round-trips through the upload route', () => {
       expectPreview((await getDataset('engineer', up.body.id)).body, exp, 0);
     });
   }
-  for (const [file, exp] of Object.entries(wavExpected.files as Record<string, { sha256: string; channels: number; cases: (Expected & { frequencyHz: number; fftLength: number; hop: number; window: string })[] }>)) {
+  for (const [file, exp] of Object.entries(wavExpected.files as unknown as Record<string, { sha256: string; channels: number; cases: ({ re: number[][]; im: number[][] } & { frequencyHz: number; fftLength: number; hop: number; window: string })[] }>)) {
     it(`WAV ${file}`, async () => {
       const c = exp.cases[exp.cases.length - 1];
       const up = await upload('engineer', file, fixture(`datasets/wav/${file}`), { frequencyHz: c.frequencyHz, fftLength: c.fftLength, hop: c.hop, window: c.window });
