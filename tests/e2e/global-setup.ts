@@ -77,8 +77,57 @@ async function waitForHealth(url: string, server: ChildProcess, output: () => st
   throw new Error(`the app did not become healthy in 90 s:\n${output()}`);
 }
 
+/**
+ * Only one browser-test run may build and serve from .next at a time (a
+ * second `next build` would rewrite the files under a running server), so
+ * runs take a lock directory holding the owner's pid; a lock whose owner is
+ * gone is taken over.
+ */
+const lockDir = path.join(root, 'test-results', '.e2e-lock');
+
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (err) {
+    return (err as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+async function acquireLock(): Promise<() => void> {
+  fs.mkdirSync(path.dirname(lockDir), { recursive: true });
+  const deadline = Date.now() + 30 * 60_000;
+  let told = false;
+  for (;;) {
+    try {
+      fs.mkdirSync(lockDir);
+      fs.writeFileSync(path.join(lockDir, 'pid'), String(process.pid));
+      return () => fs.rmSync(lockDir, { recursive: true, force: true });
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
+    }
+    const owner = Number(fs.readFileSync(path.join(lockDir, 'pid'), { encoding: 'utf8', flag: 'a+' }) || 0);
+    if (owner && !alive(owner)) {
+      fs.rmSync(lockDir, { recursive: true, force: true });
+      continue;
+    }
+    if (Date.now() > deadline) throw new Error(`another browser-test run (pid ${owner}) has held ${lockDir} for 30 minutes`);
+    if (!told) {
+      console.log(`[e2e] waiting for another browser-test run (pid ${owner || '?'}) to finish`);
+      told = true;
+    }
+    await new Promise((r) => setTimeout(r, 2000));
+  }
+}
+
 export default async function setup(project: TestProject) {
-  buildIfNeeded();
+  const release = await acquireLock();
+  try {
+    buildIfNeeded();
+  } catch (err) {
+    release();
+    throw err;
+  }
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-e2e-'));
   const [appPort, sinkPort] = [await freePort(), await freePort()];
   const baseUrl = `http://127.0.0.1:${appPort}`;
@@ -94,8 +143,14 @@ export default async function setup(project: TestProject) {
     STEERWISE_SIGNIN_LIMIT_IP: '200',
   };
   delete env.SMTP_HOST;
-  runScript('scripts/migrate.ts', env);
-  runScript('scripts/seed.ts', env);
+  try {
+    runScript('scripts/migrate.ts', env);
+    runScript('scripts/seed.ts', env);
+  } catch (err) {
+    fs.rmSync(dir, { recursive: true, force: true });
+    release();
+    throw err;
+  }
 
   let output = '';
   const server = spawn(process.execPath, [path.join(root, 'node_modules/next/dist/bin/next'), 'start', '-p', String(appPort), '-H', '127.0.0.1'], { cwd: root, env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
@@ -119,6 +174,7 @@ export default async function setup(project: TestProject) {
     }
     fs.writeFileSync(path.join(root, 'test-results', 'e2e-server.log'), output);
     fs.rmSync(dir, { recursive: true, force: true });
+    release();
   };
   try {
     await waitForHealth(baseUrl, server, () => output);
