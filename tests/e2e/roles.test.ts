@@ -107,6 +107,21 @@ describe('sign-in refusals in the browser', () => {
     }
   });
 
+  it('signing out ends the session: app pages send you back to sign in', async () => {
+    const { context, page } = await newPage(browser, baseUrl);
+    try {
+      await signIn(page, 'viewer@steerwise.test', DEMO_PASSWORD);
+      await page.getByRole('button', { name: 'Sign out' }).click();
+      await page.waitForURL((u) => u.pathname === '/login');
+      await page.goto('/account');
+      expect(new URL(page.url()).pathname).toBe('/login');
+      const res = await page.request.get('/api/account');
+      expect(res.status()).toBe(401);
+    } finally {
+      await context.close();
+    }
+  });
+
   it('a signed-out visitor of an app page is sent to sign in', async () => {
     const { context, page } = await newPage(browser, baseUrl);
     try {
