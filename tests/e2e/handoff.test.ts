@@ -120,6 +120,9 @@ describe('hand-off between two teams', () => {
     // The imported array opens in the colleague's team.
     await result.getByRole('link', { name: 'Open the array' }).click();
     await col.page.waitForURL(/\/arrays\/\d+$/);
+    // The array page carries the review and hand-off panels of the imported revision, with no sign-off yet.
+    await col.page.getByTestId('sign-off').filter({ hasText: 'Revision 1 has no sign-off yet.' }).waitFor();
+    await shot(col.page, 'handoff-6-colleague-array-page');
     await col.context.close();
   });
 });

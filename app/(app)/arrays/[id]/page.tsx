@@ -1,6 +1,7 @@
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { ArrayWorkspace } from '@/components/arrays/array-workspace';
+import { ArrayHandoffSection } from '@/components/handoff/array-handoff-section';
 import { formatWhen } from '@/components/arrays/format';
 import { PageHeader } from '@/components/ui/page-header';
 import { Refusal } from '@/components/ui/refusal';
@@ -44,6 +45,7 @@ export default async function ArrayPage({ params, searchParams }: Props) {
         }
       />
       <ArrayWorkspace initial={array} canEdit={canEdit} readOnlyReason={canEdit ? undefined : refusalMessage(user.role, 'arrays.edit')} />
+      <ArrayHandoffSection caller={user} arrayId={array.id} revision={array.revision} />
     </>
   );
 }
