@@ -193,7 +193,7 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
           <Card aria-labelledby="spectrum-title">
             <CardHeader id="spectrum-title" title="Pseudo-spectra" description="Spectral methods show their own spectrum; ESPRIT and root-MUSIC show the MUSIC spectrum of the same signal subspace. Ticks at the top mark each method's bearings." />
             <div className="px-5 py-4">
-              <SpectrumChart series={run.results.map((r) => ({ label: METHOD_LABELS[r.method] ?? r.method, spectrum: r.spectrum, bearingsDeg: r.bearingsDeg }))} />
+              <SpectrumChart series={run.results.map((r) => ({ label: METHOD_LABELS[r.method] ?? r.method, method: r.method, spectrum: r.spectrum, bearingsDeg: r.bearingsDeg }))} />
             </div>
           </Card>
 
