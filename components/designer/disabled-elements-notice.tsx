@@ -1,11 +1,11 @@
 'use client';
 
 /**
- * Explains what disabled elements mean for estimation. The policy stated here
- * (for the estimates work to honour): ESPRIT-family methods and root-MUSIC need
- * the full uniform array (shift invariance / a polynomial in z over every
- * element) and are refused; MUSIC, Bartlett and MVDR run on the enabled
- * elements only, with steering vectors at their true positions m·d.
+ * Explains what disabled elements mean for estimation, as lib/data/estimates.ts
+ * enforces it: ESPRIT-family methods and root-MUSIC need the full uniform array
+ * (shift invariance / a polynomial in z over every element), and the spectral
+ * methods are evaluated for contiguous elements too, so an estimate on a
+ * revision with disabled elements is refused with the elements named.
  */
 import type { enabledSummary } from '@/lib/designer/state';
 
@@ -32,12 +32,13 @@ export function DisabledElementsNotice({ summary, elements }: DisabledElementsNo
         they do not apply.
       </p>
       <p className="mt-1">
-        <strong className="font-semibold">What an estimate will do:</strong> it refuses ESPRIT and root-MUSIC for this array, with this explanation, and runs MUSIC, Bartlett and MVDR
-        on the {enabledCount} enabled elements at their true positions. The beam figures above already leave the disabled elements out.
+        <strong className="font-semibold">What an estimate will do:</strong> it refuses to run on this revision and names the disabled elements, because every method here assumes a
+        full, evenly spaced line (a gap would bias the spectra, not just widen them). The beam figures above already leave the disabled elements out, so you can still judge the
+        damaged pattern.
       </p>
       {longestRun.length >= 2 && longestRun.length < elements ? (
         <p className="mt-1 text-xs">
-          To use ESPRIT, save a variant with only elements {longestRun.start + 1}–{longestRun.start + longestRun.length} (the longest run of enabled neighbours, {longestRun.length}{' '}
+          To estimate bearings, re-enable the elements or save a variant with only elements {longestRun.start + 1}–{longestRun.start + longestRun.length} (the longest run of enabled neighbours, {longestRun.length}{' '}
           elements).
         </p>
       ) : null}
