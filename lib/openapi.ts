@@ -7,6 +7,7 @@ import { z } from 'zod';
 import packageJson from '@/package.json';
 import { arrayInputSchema } from './validations/array';
 import { datasetCreatedSchema, datasetSchema, datasetUploadFormSchema } from './validations/dataset';
+import { studyRequestSchema } from './validations/study';
 import { boundsAnswerSchema, boundsRequestSchema, estimateAnswerSchema, estimateRequestSchema, estimateRunSchema } from './validations/estimate';
 
 const errorSchema = z.object({
@@ -121,6 +122,20 @@ export function openApiDocument() {
         parameters: [idParam],
         post: { summary: 'Repeat a run with its exact inputs and compare the bearings', responses: { '201': { description: 'Done, with `comparison`' }, '202': { description: 'Queued' }, ...errors(401, 403, 404, 409, 422) } },
       },
+      '/api/v1/studies': {
+        get: { summary: "The team's Monte Carlo studies (without results)", responses: { '200': { description: 'OK' }, ...errors(401) } },
+        post: {
+          summary: 'Start a Monte Carlo accuracy study (RMSE against the stochastic CRB over a sweep of SNR, N or M)',
+          description: 'Answers 202 {id, status} and runs on the job queue; poll GET /api/v1/studies/{id}. A study over the compute budget is 422 with a message saying how to shrink it.',
+          requestBody: { required: true, content: json('StudyRequest') },
+          responses: { '202': { description: 'Queued: {id, status}' }, ...errors(400, 401, 403, 404, 413, 415, 422) },
+        },
+      },
+      '/api/v1/studies/{id}': {
+        parameters: [idParam],
+        get: { summary: 'A study: status, progress, inputs and per-point results', responses: { '200': { description: 'OK' }, ...errors(401, 404) } },
+        delete: { summary: 'Delete a study (a running one is stopped)', responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) } },
+      },
       '/api/v1/bounds': {
         post: { summary: 'Stochastic CRB per source and the resolvable-gap test per pair', requestBody: { required: true, content: json('BoundsRequest') }, responses: { '200': { description: 'OK', content: json('Bounds') }, ...errors(400, 401, 422) } },
       },
@@ -140,6 +155,7 @@ export function openApiDocument() {
         EstimateRun: schema(estimateRunSchema),
         BoundsRequest: schema(boundsRequestSchema, 'input'),
         Bounds: schema(boundsAnswerSchema),
+        StudyRequest: schema(studyRequestSchema, 'input'),
       },
     },
   };

@@ -12,8 +12,10 @@ import { Dataset } from './dataset';
 import { EstimateRun } from './estimate-run';
 import { Review } from './review';
 import { Handoff } from './handoff';
+import { Study } from './study';
 
-export { Team, User, ApiToken, AuthLink, AuditEvent, OutboxMessage, RateLimit, ArrayDesign, ArrayRevision, Dataset, EstimateRun, Review, Handoff };
+export { Team, User, ApiToken, AuthLink, AuditEvent, OutboxMessage, RateLimit, ArrayDesign, ArrayRevision, Dataset, EstimateRun, Review, Handoff, Study };
+export type { StudyStatus } from './study';
 export type { RunStatus } from './estimate-run';
 export { runStatuses } from './estimate-run';
 export type { ReviewKind } from './review';
@@ -41,6 +43,7 @@ export function initModels(sequelize: Sequelize): void {
   EstimateRun.initModel(sequelize);
   Review.initModel(sequelize);
   Handoff.initModel(sequelize);
+  Study.initModel(sequelize);
 
   Team.hasMany(User, { foreignKey: 'teamId', as: 'members' });
   User.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });
@@ -75,4 +78,7 @@ export function initModels(sequelize: Sequelize): void {
   Team.hasMany(Handoff, { foreignKey: 'teamId', as: 'handoffs' });
   Handoff.belongsTo(ArrayDesign, { foreignKey: 'arrayId', as: 'array' });
   Handoff.belongsTo(User, { foreignKey: 'sentById', as: 'sentBy' });
+  Team.hasMany(Study, { foreignKey: 'teamId', as: 'studies' });
+  Study.belongsTo(ArrayRevision, { foreignKey: 'arrayRevisionId', as: 'arrayRevision' });
+  Study.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
 }

@@ -1,6 +1,7 @@
 import type { QueryInterface } from 'sequelize';
 import * as m0001 from './0001-initial';
 import * as m0002 from './0002-arrays-datasets-runs';
+import * as m0003 from './0003-studies';
 
 export type Migration = {
   name: string;
@@ -16,4 +17,5 @@ export type Migration = {
 export const migrations: Migration[] = [
   { name: '0001-initial', ...m0001 },
   { name: '0002-arrays-datasets-runs', ...m0002 },
+  { name: '0003-studies', ...m0003 },
 ];

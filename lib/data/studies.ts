@@ -1,0 +1,248 @@
+import 'server-only';
+import { Study, User } from '@/models';
+import packageJson from '@/package.json';
+import { ApiError } from '../api';
+import { assertPermission, type Caller } from '../auth';
+import { recordAudit } from '../audit';
+import { getDb } from '../db';
+import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
+import { StudyAbortedError, StudyBudgetError, StudyInputError, runStudy, validateStudySpec, type StudyResult, type StudySpec } from '../studies/monte-carlo';
+import type { StudyRequest } from '../validations/study';
+import { findTeamArrayRevision } from './datasets';
+
+/**
+ * Studies: stored, queued Monte Carlo runs of lib/studies/monte-carlo.ts.
+ * Creating one needs `estimates.run` (engineers, admins); reading needs
+ * `arrays.read` (every role). Everything is scoped by the caller's team.
+ */
+export const SOFTWARE_VERSION: string = packageJson.version;
+
+export interface StudyInputs {
+  request: StudyRequest;
+  spec: StudySpec;
+  array: { elements: number; spacingWavelengths: number; arrayId?: number; arrayRevisionId?: number; revision?: number; name?: string };
+}
+
+export interface StudyDto {
+  id: number;
+  name: string;
+  status: Study['status'];
+  progress: number;
+  error: string | null;
+  inputs: StudyInputs;
+  result: StudyResult | null;
+  softwareVersion: string;
+  arrayRevisionId: number | null;
+  createdAt: string;
+  updatedAt: string;
+  createdBy: { id: number; name: string } | null;
+}
+
+export type StudyListItem = Omit<StudyDto, 'inputs' | 'result'> & {
+  variable: StudySpec['sweep']['variable'];
+  values: number[];
+  methods: StudySpec['methods'];
+  trials: number;
+  arrayLabel: string;
+};
+
+const STALE_MESSAGE = 'The study was interrupted (the server restarted before it finished); start it again.';
+
+/** Abort controllers of running studies in this process (DELETE stops a running study). */
+const controllers = ((globalThis as Record<string, unknown>).__steerwiseStudyControllers ??= new Map<number, AbortController>()) as Map<number, AbortController>;
+
+function jobId(id: number): string {
+  return `study-${id}`;
+}
+
+function toDto(study: Study, creator: User | null): StudyDto {
+  return {
+    id: study.id,
+    name: study.name,
+    status: study.status,
+    progress: study.progress,
+    error: study.error ?? null,
+    inputs: study.inputs as unknown as StudyInputs,
+    result: (study.result ?? null) as unknown as StudyResult | null,
+    softwareVersion: study.softwareVersion,
+    arrayRevisionId: (study.arrayRevisionId as number | null) ?? null,
+    createdAt: study.createdAt.toISOString(),
+    updatedAt: study.updatedAt.toISOString(),
+    createdBy: creator ? { id: creator.id, name: creator.name } : null,
+  };
+}
+
+/** Turns the pure module's refusals into 422 bodies naming the field. */
+export function studyErrorToApi(err: unknown): unknown {
+  if (err instanceof StudyInputError) {
+    const field = err.field === 'elements' || err.field === 'spacingWavelengths' ? `array.${err.field}` : ['bearingsDeg', 'powersDb', 'correlation'].includes(err.field) ? `sources.${err.field}` : err.field;
+    return new ApiError('validation_failed', `${field}: ${err.message}`, { fields: { [field]: [err.message] } });
+  }
+  if (err instanceof StudyBudgetError) return new ApiError('validation_failed', err.message, { fields: { trials: [err.message] } });
+  return err;
+}
+
+/** The pure-module spec of a validated request and its resolved array. */
+export function specOf(input: StudyRequest, array: { elements: number; spacingWavelengths: number }): StudySpec {
+  return {
+    elements: array.elements,
+    spacingWavelengths: array.spacingWavelengths,
+    bearingsDeg: input.sources.bearingsDeg,
+    powersDb: input.sources.powersDb,
+    ...(input.sources.correlation !== undefined ? { correlation: input.sources.correlation } : {}),
+    snapshots: input.snapshots,
+    sweep: input.sweep,
+    methods: input.methods,
+    trials: input.trials,
+    seed: input.seed,
+    ...(input.forwardBackward !== undefined ? { forwardBackward: input.forwardBackward } : {}),
+    ...(input.smoothing !== undefined ? { smoothing: input.smoothing } : {}),
+  };
+}
+
+/**
+ * Validates (422 naming the field, or the budget refusal with how to shrink
+ * the study), stores the study as queued and puts it on the job queue.
+ * Returns the stored study at once, and the job's promise for callers that wait (the seed).
+ */
+export async function createStudy({ caller, input }: { caller: Caller; input: StudyRequest }): Promise<{ study: StudyDto; done: Promise<void> }> {
+  assertPermission(caller, 'estimates.run');
+  const db = await getDb();
+  let array: StudyInputs['array'];
+  if (input.arrayId !== undefined) {
+    const found = await findTeamArrayRevision({ caller, arrayId: input.arrayId });
+    const states = (found.revision.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
+    const disabled = Array.isArray(states) ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : [])) : [];
+    if (disabled.length) {
+      throw new ApiError('validation_failed', `Array "${found.array.name}" (revision ${found.revision.revision}) has disabled element(s) ${disabled.join(', ')}; studies simulate a full uniform line. Enable them or give array {elements, spacingWavelengths}.`, {
+        fields: { arrayId: [`elements ${disabled.join(', ')} are disabled`] },
+      });
+    }
+    array = { elements: found.revision.elements, spacingWavelengths: found.revision.spacingWavelengths, arrayId: found.array.id, arrayRevisionId: found.revision.id, revision: found.revision.revision, name: found.array.name };
+  } else {
+    array = { elements: input.array!.elements, spacingWavelengths: input.array!.spacingWavelengths };
+  }
+  const spec = specOf(input, array);
+  try {
+    validateStudySpec(spec);
+  } catch (err) {
+    throw studyErrorToApi(err);
+  }
+  const inputs: StudyInputs = { request: input, spec, array };
+  const study = await db.transaction(async (transaction) => {
+    const created = await Study.create(
+      {
+        teamId: caller.teamId,
+        name: input.name,
+        status: 'queued',
+        arrayRevisionId: array.arrayRevisionId ?? null,
+        inputs: inputs as unknown as Record<string, unknown>,
+        softwareVersion: SOFTWARE_VERSION,
+        createdById: caller.id,
+      },
+      { transaction },
+    );
+    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.started', target: input.name, detail: { id: created.id } }, transaction);
+    return created;
+  });
+  const done = enqueue(jobId(study.id), () => executeStudy(study.id));
+  done.catch(() => undefined); // the row records the failure
+  return { study: await getStudy({ caller, id: study.id }), done };
+}
+
+/** The job: run the study with progress written to the row (at most every 2 %), yielding between chunks. */
+async function executeStudy(id: number): Promise<void> {
+  const study = await Study.findByPk(id);
+  if (!study) return;
+  const { spec } = study.inputs as unknown as StudyInputs;
+  const controller = new AbortController();
+  controllers.set(id, controller);
+  let last = 0;
+  try {
+    await Study.update({ status: 'running', progress: 0 }, { where: { id } });
+    const result = await runStudy(spec, {
+      signal: controller.signal,
+      yieldControl: yieldToEventLoop,
+      onProgress: async (fraction) => {
+        if (fraction - last >= 0.02 && fraction < 1) {
+          last = fraction;
+          await Study.update({ progress: fraction }, { where: { id } });
+        }
+      },
+    });
+    await Study.update({ status: 'done', progress: 1, result: result as unknown as Record<string, unknown>, error: null }, { where: { id } });
+  } catch (err) {
+    if (err instanceof StudyAbortedError) return; // deleted while running: the row is gone
+    const mapped = studyErrorToApi(err);
+    const message = mapped instanceof ApiError ? mapped.message : 'The study failed on the server; the detail has been logged.';
+    if (!(mapped instanceof ApiError)) console.error('[steerwise] study failed', id, err);
+    await Study.update({ status: 'failed', error: message }, { where: { id } });
+  } finally {
+    controllers.delete(id);
+  }
+}
+
+async function findStudy(caller: Caller, id: number): Promise<Study> {
+  await getDb();
+  const study = await Study.findOne({ where: { id, teamId: caller.teamId } });
+  if (!study) throw new ApiError('not_found', `No study with id ${id} in your team.`);
+  return study;
+}
+
+export async function getStudy({ caller, id }: { caller: Caller; id: number }): Promise<StudyDto> {
+  assertPermission(caller, 'arrays.read');
+  const study = await findStudy(caller, id);
+  if ((study.status === 'queued' || study.status === 'running') && !isActive(jobId(study.id))) {
+    study.status = 'failed';
+    study.error = STALE_MESSAGE;
+    await study.save();
+  }
+  const creator = study.createdById ? await User.findByPk(study.createdById as number) : null;
+  return toDto(study, creator);
+}
+
+export async function listStudies({ caller, limit = 100 }: { caller: Caller; limit?: number }): Promise<StudyListItem[]> {
+  assertPermission(caller, 'arrays.read');
+  await getDb();
+  const studies = await Study.findAll({
+    where: { teamId: caller.teamId },
+    attributes: { exclude: ['result'] },
+    include: [{ model: User, as: 'createdBy', attributes: ['id', 'name'] }],
+    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+    limit,
+  });
+  return studies.map((s) => {
+    const inputs = s.inputs as unknown as StudyInputs;
+    const stale = (s.status === 'queued' || s.status === 'running') && !isActive(jobId(s.id));
+    const creator = (s as unknown as { createdBy?: User | null }).createdBy ?? null;
+    return {
+      id: s.id,
+      name: s.name,
+      status: stale ? 'failed' : s.status,
+      progress: s.progress,
+      error: stale ? STALE_MESSAGE : (s.error ?? null),
+      softwareVersion: s.softwareVersion,
+      arrayRevisionId: (s.arrayRevisionId as number | null) ?? null,
+      createdAt: s.createdAt.toISOString(),
+      updatedAt: s.updatedAt.toISOString(),
+      createdBy: creator ? { id: creator.id, name: creator.name } : null,
+      variable: inputs.spec.sweep.variable,
+      values: inputs.spec.sweep.values,
+      methods: inputs.spec.methods,
+      trials: inputs.spec.trials,
+      arrayLabel: inputs.array.name ? `${inputs.array.name} r${inputs.array.revision}` : `${inputs.array.elements} × ${inputs.array.spacingWavelengths} λ`,
+    };
+  });
+}
+
+/** Deletes a study (engineers, admins); a running one is stopped first. */
+export async function deleteStudy({ caller, id }: { caller: Caller; id: number }): Promise<void> {
+  assertPermission(caller, 'estimates.run');
+  const study = await findStudy(caller, id);
+  controllers.get(id)?.abort();
+  const db = await getDb();
+  await db.transaction(async (transaction) => {
+    await study.destroy({ transaction });
+    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.deleted', target: study.name, detail: { id } }, transaction);
+  });
+}
