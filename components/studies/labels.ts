@@ -1,0 +1,17 @@
+export const METHOD_LABELS: Record<string, string> = {
+  'esprit-ls': 'LS-ESPRIT',
+  'esprit-tls': 'TLS-ESPRIT',
+  'esprit-unitary': 'Unitary ESPRIT',
+  'root-music': 'root-MUSIC',
+  music: 'MUSIC',
+  bartlett: 'Bartlett',
+  mvdr: 'MVDR (Capon)',
+};
+
+export const VARIABLE_LABELS: Record<string, { name: string; unit: string; axis: string }> = {
+  snr: { name: 'SNR', unit: 'dB', axis: 'SNR per element of source 1 (dB, log scale in linear SNR)' },
+  snapshots: { name: 'Snapshots N', unit: '', axis: 'snapshots N (log scale)' },
+  elements: { name: 'Elements M', unit: '', axis: 'elements M (log scale)' },
+};
+
+export const COLOURS = ['#0f766e', '#b45309', '#7c3aed', '#be123c', '#2563eb', '#4d7c0f', '#525252'];
