@@ -4,6 +4,7 @@ import type { Role } from '@/models/user';
 import { hashPassword } from '../passwords';
 import { seedDemoArrays } from './arrays';
 import { seedRecordings } from './recordings';
+import { seedDemoStudy } from './studies';
 import { randomSecret, sha256Hex } from '../secrets';
 
 /**
@@ -91,6 +92,7 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
     }
     await seedDemoArrays({ teamId: team.id, users, transaction });
     await seedRecordings({ teamId: team.id, uploadedById: users['engineer@steerwise.test'] ?? null, transaction });
+    await seedDemoStudy({ teamId: team.id, createdById: users['engineer@steerwise.test'] ?? null, transaction });
     return { teamId: team.id, otherTeamId: other.id, users, created: teamCreated };
   });
 }
