@@ -41,7 +41,7 @@ export function RmseChart({ variable, points, slopes }: { variable: string; poin
   const methods = sorted[0]?.methods.map((m) => m.method) ?? [];
   const line = (vals: number[]) => vals.map((v, i) => `${i ? 'L' : 'M'}${x(xs[i]).toFixed(1)},${y(Math.max(ylo, v)).toFixed(1)}`).join('');
   const slopeOf = (m: string) => slopes.find((s) => s.method === m)?.slope;
-  const yTicks = niceLogTicks(ylo, yhi).filter((v) => String(v)[0] === '1');
+  const yTicks = niceLogTicks(ylo, yhi).filter((v) => Math.abs(Math.log10(v) - Math.round(Math.log10(v))) < 1e-9); // decades only
   return (
     <figure>
       <svg viewBox={`0 0 ${W} ${H}`} className="w-full" role="img" aria-label="RMSE and square root of the Cramér–Rao bound against the swept variable, log–log">
