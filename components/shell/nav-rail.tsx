@@ -12,8 +12,8 @@ export const mainNav: NavItem[] = [
   { href: '/arrays', label: 'Arrays', hint: 'Design and revisions' },
   { href: '/datasets', label: 'Datasets', hint: 'Snapshot recordings' },
   { href: '/estimates', label: 'Estimates', hint: 'Bearings and bounds' },
-  { href: '/handoff', label: 'Hand-off', hint: 'Import and sent bundles' },
-  { href: '/studies', label: 'Studies', hint: 'Hand-off and review' },
+  { href: '/handoff', label: 'Hand-off', hint: 'Bundles, e-mail, sign-off' },
+  { href: '/studies', label: 'Studies', hint: 'Monte Carlo accuracy vs the CRB' },
 ];
 
 export const teamNav: NavItem[] = [
