@@ -14,6 +14,7 @@ export const permissions = {
   'datasets.read': ['admin', 'engineer', 'reviewer', 'viewer'],
   'datasets.upload': ['admin', 'engineer'],
   'estimates.run': ['admin', 'engineer'],
+  'studies.run': ['admin', 'engineer'],
   'review.comment': ['admin', 'engineer', 'reviewer'],
   'review.approve': ['admin', 'reviewer'],
 } as const satisfies Record<string, readonly Role[]>;
@@ -35,6 +36,7 @@ export const permissionPhrase: Record<Permission, string> = {
   'datasets.read': 'see datasets',
   'datasets.upload': 'upload datasets',
   'estimates.run': 'run estimates',
+  'studies.run': 'run studies',
   'review.comment': 'comment on reviews',
   'review.approve': 'approve reviews',
 };

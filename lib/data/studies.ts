@@ -12,7 +12,7 @@ import { findTeamArrayRevision } from './datasets';
 
 /**
  * Studies: stored, queued Monte Carlo runs of lib/studies/monte-carlo.ts.
- * Creating one needs `estimates.run` (engineers, admins); reading needs
+ * Creating or deleting one needs `studies.run` (engineers, admins); reading needs
  * `arrays.read` (every role). Everything is scoped by the caller's team.
  */
 export const SOFTWARE_VERSION: string = packageJson.version;
@@ -106,7 +106,7 @@ export function specOf(input: StudyRequest, array: { elements: number; spacingWa
  * Returns the stored study at once, and the job's promise for callers that wait (the seed).
  */
 export async function createStudy({ caller, input }: { caller: Caller; input: StudyRequest }): Promise<{ study: StudyDto; done: Promise<void> }> {
-  assertPermission(caller, 'estimates.run');
+  assertPermission(caller, 'studies.run');
   const db = await getDb();
   let array: StudyInputs['array'];
   if (input.arrayId !== undefined) {
@@ -237,7 +237,7 @@ export async function listStudies({ caller, limit = 100 }: { caller: Caller; lim
 
 /** Deletes a study (engineers, admins); a running one is stopped first. */
 export async function deleteStudy({ caller, id }: { caller: Caller; id: number }): Promise<void> {
-  assertPermission(caller, 'estimates.run');
+  assertPermission(caller, 'studies.run');
   const study = await findStudy(caller, id);
   controllers.get(id)?.abort();
   const db = await getDb();

@@ -152,6 +152,8 @@ describe('role matrix', () => {
     it(`${who}: create ${expectCreate[who]}, list, read ${expectRead[who]}, delete ${expectDelete[who]}`, async () => {
       const created = await post(who, tiny);
       expect(created.status, JSON.stringify(created.body)).toBe(expectCreate[who]);
+      // the refusal names studies, not estimates
+      if (created.status === 403) expect(created.body.error.message).toBe(`Your role (${who}) cannot run studies.`);
       if (created.status === 202) await waitDone(created.body.id, who);
       if (who === 'otherAdmin' && created.status === 202) {
         // the other team's own study is invisible to the demo team

@@ -87,7 +87,7 @@ describe('studies', () => {
     await page.getByRole('link', { name: DEMO_STUDY_NAME }).waitFor();
     expect(await page.getByRole('link', { name: 'New study' }).count()).toBe(0);
     await page.goto(`${baseUrl}/studies/new`);
-    await page.getByText(/cannot run estimates/).first().waitFor();
+    await page.getByText(/cannot run studies/).first().waitFor();
     await shot(page, 'studies-viewer-refused');
     await context.close();
   }, 60_000);

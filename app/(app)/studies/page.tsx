@@ -14,7 +14,7 @@ export const dynamic = 'force-dynamic';
 export default async function StudiesPage() {
   const { user, allowed, message } = await requirePagePermission('arrays.read');
   if (!allowed) return <Refusal message={message} />;
-  const canRun = can(user.role, 'estimates.run');
+  const canRun = can(user.role, 'studies.run');
   const studies = await listStudies({ caller: user });
   return (
     <>

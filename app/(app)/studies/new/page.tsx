@@ -11,7 +11,7 @@ export const metadata = { title: 'New study' };
 export const dynamic = 'force-dynamic';
 
 export default async function NewStudyPage() {
-  const { user, allowed, message } = await requirePagePermission('estimates.run');
+  const { user, allowed, message } = await requirePagePermission('studies.run');
   if (!allowed) return <Refusal message={message} />;
   const arrays = await listArrayChoices({ caller: user });
   return (

@@ -13,7 +13,7 @@ export const GET = handle(async (req) => {
 
 /** Starts a study on the job queue: 202 {id, status}; poll GET /api/v1/studies/{id}. */
 export const POST = handle(async (req) => {
-  const caller = await requireApiPermission(req, 'estimates.run');
+  const caller = await requireApiPermission(req, 'studies.run');
   const input = parseBody(studyRequestSchema, await readJson(req));
   const { study } = await createStudy({ caller, input });
   return Response.json({ id: study.id, status: study.status }, { status: 202, headers: { location: `/api/v1/studies/${study.id}` } });

@@ -16,7 +16,7 @@ export const GET = handle<Ctx>(async (req, ctx) => {
 /** Deletes a study (a running one is stopped): 204. */
 export const DELETE = handle<Ctx>(async (req, ctx) => {
   const { id } = await ctx.params;
-  const caller = await requireApiPermission(req, 'estimates.run');
+  const caller = await requireApiPermission(req, 'studies.run');
   await deleteStudy({ caller, id: parseId(id, 'study') });
   return new Response(null, { status: 204 });
 });
