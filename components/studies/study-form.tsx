@@ -37,6 +37,7 @@ export function StudyForm({ arrays }: { arrays: ArrayChoice[] }) {
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<{ message: string; fields?: Record<string, string[]> } | null>(null);
 
+  const sweepsElements = variable === 'elements';
   const fieldError = (...keys: string[]) => keys.map((k) => error?.fields?.[k]?.[0]).find(Boolean);
 
   async function submit(e: React.FormEvent) {
@@ -54,7 +55,9 @@ export function StudyForm({ arrays }: { arrays: ArrayChoice[] }) {
       forwardBackward: fb,
       smoothing: smoothing === 'none' || smoothing === 'auto' ? smoothing : Number(smoothing),
     };
-    if (arraySource === 'inline') body.array = { elements: Number(elements), spacingWavelengths: Number(spacing) };
+    // When M is swept the sweep values set it; the stored base M is the smallest of them.
+    const baseElements = sweepsElements && numbers(values).some(Number.isFinite) ? Math.min(...numbers(values).filter(Number.isFinite)) : Number(elements);
+    if (arraySource === 'inline') body.array = { elements: baseElements, spacingWavelengths: Number(spacing) };
     else body.arrayId = Number(arraySource);
     try {
       const created = await apiSend<{ id: number }>('POST', '/api/v1/studies', body);
@@ -83,11 +86,16 @@ export function StudyForm({ arrays }: { arrays: ArrayChoice[] }) {
               </option>
             ))}
           </select>
+          {arraySource !== 'inline' && sweepsElements ? <p className="mt-1 text-xs text-ink-500">The sweep values set M; this array's spacing is kept.</p> : null}
           {fieldError('arrayId') ? <p id="study-array-error" className="mt-1 text-xs font-medium text-coral-600">{fieldError('arrayId')}</p> : null}
         </div>
         {arraySource === 'inline' ? (
           <>
-            <Field id="study-elements" label="Elements M" inputMode="numeric" value={elements} onChange={(e) => setElements(e.target.value)} error={fieldError('array', 'array.elements')} />
+            {sweepsElements ? (
+              <Field id="study-elements" label="Elements M" value="" placeholder="from the sweep" disabled hint="Set by the sweep values below" error={fieldError('array', 'array.elements')} />
+            ) : (
+              <Field id="study-elements" label="Elements M" inputMode="numeric" value={elements} onChange={(e) => setElements(e.target.value)} error={fieldError('array', 'array.elements')} />
+            )}
             <Field id="study-spacing" label="Spacing d (wavelengths)" inputMode="decimal" value={spacing} onChange={(e) => setSpacing(e.target.value)} error={fieldError('array.spacingWavelengths')} />
           </>
         ) : null}

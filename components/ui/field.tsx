@@ -1,7 +1,7 @@
 import { cn } from '@/lib/cn';
 
 export const inputClass =
-  'block w-full rounded-md border border-ink-200 bg-white px-3 py-2 text-sm text-ink-900 shadow-xs placeholder:text-ink-300 focus:border-glass-500 focus:outline-2 focus:outline-glass-500/30 aria-[invalid=true]:border-coral-500';
+  'block w-full rounded-md border border-ink-200 bg-white px-3 py-2 text-sm text-ink-900 shadow-xs placeholder:text-ink-300 focus:border-glass-500 focus:outline-2 focus:outline-glass-500/30 aria-[invalid=true]:border-coral-500 disabled:cursor-not-allowed disabled:bg-ink-50';
 
 /** A labelled input; errors are tied to it with aria-describedby. */
 export function Field({ id, label, error, hint, className, ...input }: React.InputHTMLAttributes<HTMLInputElement> & { id: string; label: string; error?: string; hint?: string }) {

@@ -35,7 +35,11 @@ describe('studies', () => {
     await page.goto(`${baseUrl}/studies`);
     await page.getByRole('link', { name: 'New study' }).click();
     await page.locator('#study-name').fill('Browser check: M sweep');
+    expect(await page.getByLabel('Elements M').isEnabled()).toBe(true);
     await page.getByLabel('Swept variable').selectOption('elements');
+    // the sweep sets M, so the Elements M field is disabled and says so
+    expect(await page.getByLabel('Elements M').isDisabled()).toBe(true);
+    await page.getByText('Set by the sweep values below').waitFor();
     await page.getByLabel('Values (elements)').fill('8, 12, 16, 24');
     await page.getByLabel('Trials per point').fill('200');
     await page.getByLabel('Bearings (degrees)').fill('0');
