@@ -8,6 +8,8 @@ import packageJson from '@/package.json';
 import { arrayInputSchema } from './validations/array';
 import { datasetCreatedSchema, datasetSchema, datasetUploadFormSchema } from './validations/dataset';
 import { studyRequestSchema } from './validations/study';
+import { handoffSendSchema, reviewCreateSchema, reviewQuerySchema } from './handoff/validation';
+import { bundleQuerySchema } from './handoff/query';
 import { boundsAnswerSchema, boundsRequestSchema, estimateAnswerSchema, estimateRequestSchema, estimateRunSchema } from './validations/estimate';
 
 const errorSchema = z.object({
@@ -55,6 +57,24 @@ const ERROR_TEXT: Record<number, string> = {
   429: 'Rate limited',
 };
 const idParam = { name: 'id', in: 'path', required: true, schema: { type: 'integer', minimum: 1 } };
+const zip = { 'application/zip': { schema: { type: 'string', format: 'binary' } } };
+
+/** Query parameters from the zod object schema a route parses its query with (all optional). */
+function queryParams(s: z.ZodType) {
+  const props = (schema(s, 'input').properties ?? {}) as Record<string, Record<string, unknown>>;
+  return Object.entries(props).map(([name, p]) => ({ name, in: 'query', required: false, schema: p }));
+}
+
+const reviewThread = {
+  type: 'object',
+  description: 'The thread of one target: every comment and decision, the sign-offs (approvals) with name and time, and the latest decision.',
+  properties: {
+    target: { type: 'object', description: "{type:'array-revision', arrayId, arrayName, revision} or {type:'run', runId}" },
+    items: { type: 'array', items: { type: 'object', properties: { id: { type: 'integer' }, kind: { type: 'string', enum: ['comment', 'approval', 'changes-requested'] }, body: { type: 'string' }, author: { type: ['object', 'null'] }, createdAt: { type: 'string', format: 'date-time' } } } },
+    signOffs: { type: 'array', items: { type: 'object', properties: { by: { type: 'string' }, role: { type: 'string' }, at: { type: 'string', format: 'date-time' }, note: { type: 'string' } } } },
+    status: { type: 'string', enum: ['approved', 'changes-requested', 'open'] },
+  },
+};
 
 export function openApiDocument() {
   return {
@@ -79,15 +99,53 @@ export function openApiDocument() {
         get: { summary: 'An array at its latest revision, with metrics', responses: { '200': { description: 'OK', content: json('Array') }, ...errors(401, 404) } },
         patch: { summary: 'Change an array (revision + 1)', requestBody: { required: true, content: json('ArrayInput') }, responses: { '200': { description: 'OK', content: json('Array') }, ...errors(400, 401, 403, 404, 422) } },
       },
+      '/api/v1/arrays/{id}/revisions/{rev}': {
+        parameters: [idParam, { name: 'rev', in: 'path', required: true, schema: { type: 'integer', minimum: 1 } }],
+        get: { summary: 'An array as saved at one revision, with metrics (same shape as GET /api/v1/arrays/{id})', responses: { '200': { description: 'OK', content: json('Array') }, ...errors(401, 404) } },
+      },
       '/api/v1/arrays/{id}/bundle': {
-        parameters: [idParam],
-        get: { summary: 'The hand-off bundle of an array (zip)', responses: { '200': { description: 'The bundle', content: { 'application/zip': { schema: { type: 'string', format: 'binary' } } } }, ...errors(401, 403, 404) } },
+        parameters: [idParam, ...queryParams(bundleQuerySchema)],
+        get: {
+          summary: 'The hand-off bundle of an array revision (zip)',
+          description: 'revision defaults to the latest; datasets and runs are comma-separated ids to include. The SHA-256 of the zip is in the x-bundle-sha256 header.',
+          responses: { '200': { description: 'The bundle', content: zip }, ...errors(401, 403, 404, 422) },
+        },
       },
       '/api/v1/bundles': {
         post: {
           summary: "Import a hand-off bundle into the caller's team",
           requestBody: { required: true, content: { 'multipart/form-data': { schema: { type: 'object', required: ['file'], properties: { file: { type: 'string', format: 'binary' } } } } } },
           responses: { '201': { description: 'Imported', content: { 'application/json': { schema: { type: 'object', properties: { arrayId: { type: 'integer' } }, additionalProperties: true } } } }, ...errors(401, 403, 413, 415, 422) },
+        },
+      },
+      '/api/v1/reviews': {
+        get: {
+          summary: 'The review thread of one array revision (?arrayId=&revision=) or one run (?runId=)',
+          parameters: queryParams(reviewQuerySchema),
+          responses: { '200': { description: 'OK', content: { 'application/json': { schema: reviewThread } } }, ...errors(401, 404, 422) },
+        },
+        post: {
+          summary: 'Comment on, approve (sign off) or ask for changes to an array revision or a finished run',
+          description: 'Comments need an engineer, reviewer or admin; approvals and requests for changes a reviewer or admin. The author is told by e-mail. A run that has not finished is 409.',
+          requestBody: { required: true, content: json('ReviewRequest') },
+          responses: { '201': { description: 'The thread after the new entry', content: { 'application/json': { schema: reviewThread } } }, ...errors(400, 401, 403, 404, 409, 422) },
+        },
+      },
+      '/api/handoff': {
+        get: { summary: "The team's sent hand-offs", responses: { '200': { description: 'OK' }, ...errors(401) } },
+        post: {
+          summary: 'E-mail a hand-off bundle to a colleague',
+          description: 'Sends a signed, expiring download link (GET /api/handoff/{token}) with the note; a recipient who is not yet a member also gets an invitation. Engineers and admins.',
+          requestBody: { required: true, content: json('HandoffSend') },
+          responses: { '201': { description: 'Sent (the link goes only to the recipient)' }, ...errors(400, 401, 403, 404, 422) },
+        },
+      },
+      '/api/handoff/{token}': {
+        parameters: [{ name: 'token', in: 'path', required: true, description: 'The signed token from the e-mailed link', schema: { type: 'string' } }],
+        get: {
+          summary: 'Download the bundle of an e-mailed hand-off (no sign-in; the signed link is the credential)',
+          security: [],
+          responses: { '200': { description: 'The bundle', content: zip }, '404': { description: 'Altered or unknown link', content: json('Error') }, '422': { description: 'Expired link (code link_expired)', content: json('Error') } },
         },
       },
       '/api/v1/datasets': {
@@ -156,6 +214,8 @@ export function openApiDocument() {
         BoundsRequest: schema(boundsRequestSchema, 'input'),
         Bounds: schema(boundsAnswerSchema),
         StudyRequest: schema(studyRequestSchema, 'input'),
+        ReviewRequest: schema(reviewCreateSchema, 'input'),
+        HandoffSend: schema(handoffSendSchema, 'input'),
       },
     },
   };

@@ -18,6 +18,16 @@ export const handoffSendSchema = z.strictObject({
 });
 export type HandoffSendInput = z.infer<typeof handoffSendSchema>;
 
+const queryId = (field: string) =>
+  z
+    .string()
+    .regex(/^[1-9][0-9]{0,15}$/, { error: `${field} must be a positive whole number` })
+    .transform(Number)
+    .optional();
+
+/** Query of GET /api/v1/reviews: ?arrayId=&revision= (an array revision) or ?runId= (a run). */
+export const reviewQuerySchema = z.object({ arrayId: queryId('arrayId'), revision: queryId('revision'), runId: queryId('runId') });
+
 /** POST /api/v1/reviews: a comment, an approval (sign-off) or a request for changes on one array revision or one run. */
 export const reviewCreateSchema = z
   .strictObject({

@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import * as openapi from '@/app/api/v1/openapi.json/route';
 import { estimateRequestSchema } from '@/lib/validations/estimate';
+import { handoffSendSchema, reviewCreateSchema } from '@/lib/handoff/validation';
 import { json, params, req } from '../helpers/api';
 
 describe('openapi.json', () => {
@@ -16,6 +17,26 @@ describe('openapi.json', () => {
     }
     expect(Object.keys(doc.paths['/api/v1/datasets/{id}'])).toEqual(expect.arrayContaining(['get', 'delete']));
     expect(doc.paths['/api/health'].get.security).toEqual([]);
+  });
+
+  it('lists the revision, review and hand-off routes, with request schemas from the route schemas', async () => {
+    const doc = await json(await openapi.GET(req('GET', '/api/v1/openapi.json'), params({})));
+    const plain = (s: z.ZodType) => (({ $schema: _, ...rest }) => rest)(z.toJSONSchema(s, { target: 'draft-2020-12', io: 'input', unrepresentable: 'any' }) as Record<string, unknown>);
+    expect(doc.paths['/api/v1/arrays/{id}/revisions/{rev}'].get).toBeDefined();
+    expect(doc.paths['/api/v1/arrays/{id}/revisions/{rev}'].parameters.map((p: { name: string }) => p.name)).toEqual(['id', 'rev']);
+    expect(Object.keys(doc.paths['/api/v1/reviews'])).toEqual(expect.arrayContaining(['get', 'post']));
+    expect(doc.paths['/api/v1/reviews'].get.parameters.map((p: { name: string }) => p.name)).toEqual(['arrayId', 'revision', 'runId']);
+    expect(doc.paths['/api/v1/reviews'].post.requestBody.content['application/json'].schema.$ref).toBe('#/components/schemas/ReviewRequest');
+    expect(doc.components.schemas.ReviewRequest).toEqual(plain(reviewCreateSchema));
+    expect(doc.components.schemas.ReviewRequest.properties.kind.enum).toEqual(['comment', 'approval', 'changes-requested']);
+    expect(Object.keys(doc.paths['/api/handoff'])).toEqual(expect.arrayContaining(['get', 'post']));
+    expect(doc.components.schemas.HandoffSend).toEqual(plain(handoffSendSchema));
+    expect(doc.components.schemas.HandoffSend.required).toEqual(expect.arrayContaining(['arrayId', 'recipientEmail']));
+    // the signed download link needs no sign-in
+    expect(doc.paths['/api/handoff/{token}'].get.security).toEqual([]);
+    expect(doc.paths['/api/handoff/{token}'].get.responses['200'].content['application/zip']).toBeDefined();
+    expect(doc.paths['/api/v1/arrays/{id}/bundle'].parameters.map((p: { name: string }) => p.name)).toEqual(['id', 'revision', 'datasets', 'runs']);
+    expect(doc.paths['/api/v1/bundles'].post.requestBody.content['multipart/form-data'].schema.required).toEqual(['file']);
   });
 
   it('the estimate request schema is the one the route parses (methods enum, required method, §7 fields)', async () => {

@@ -1,16 +1,7 @@
-import { z } from 'zod';
 import { handle, readJson } from '@/lib/api';
 import { getCaller, requireApiPermission } from '@/lib/auth';
 import { createReview, listReviews } from '@/lib/data/reviews';
-import { reviewCreateSchema } from '@/lib/handoff/validation';
-
-const id = (field: string) =>
-  z
-    .string()
-    .regex(/^[1-9][0-9]{0,15}$/, { error: `${field} must be a positive whole number` })
-    .transform(Number)
-    .optional();
-const querySchema = z.object({ arrayId: id('arrayId'), revision: id('revision'), runId: id('runId') });
+import { reviewCreateSchema, reviewQuerySchema } from '@/lib/handoff/validation';
 
 /**
  * Reviews of one array revision (?arrayId=&revision=) or one run (?runId=).
@@ -22,7 +13,7 @@ const querySchema = z.object({ arrayId: id('arrayId'), revision: id('revision'),
 export const GET = handle(async (req) => {
   const caller = await requireApiPermission(req, 'arrays.read');
   const q = new URL(req.url).searchParams;
-  const query = querySchema.parse({ arrayId: q.get('arrayId') ?? undefined, revision: q.get('revision') ?? undefined, runId: q.get('runId') ?? undefined });
+  const query = reviewQuerySchema.parse({ arrayId: q.get('arrayId') ?? undefined, revision: q.get('revision') ?? undefined, runId: q.get('runId') ?? undefined });
   return Response.json(await listReviews({ caller, ...query }));
 });
 
