@@ -42,12 +42,15 @@ export function ReviewPanel({
   canComment,
   canApprove,
   title,
+  description,
 }: {
   initial: ReviewThreadDto;
   target: { arrayId: number; revision: number } | { runId: number };
   canComment: boolean;
   canApprove: boolean;
   title: string;
+  /** Defaults to the wording for an array revision. */
+  description?: string;
 }) {
   const [thread, setThread] = useState(initial);
   const [body, setBody] = useState('');
@@ -71,7 +74,7 @@ export function ReviewPanel({
 
   return (
     <Card aria-labelledby="review-title">
-      <CardHeader id="review-title" title={title} description="Comments, sign-off and requests for changes. A sign-off belongs to this revision only; an edit makes a new revision that needs its own." />
+      <CardHeader id="review-title" title={title} description={description ?? 'Comments, sign-off and requests for changes. A sign-off belongs to this revision only; an edit makes a new revision that needs its own.'} />
       <div className="space-y-4 px-5 py-4">
         <SignOffBanner thread={thread} what={what} />
         {thread.items.length ? (

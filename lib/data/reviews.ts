@@ -116,7 +116,7 @@ export async function createReview({ caller, input, origin }: { caller: Caller; 
           text: [
             `Hello ${author.name},`,
             '',
-            `${caller.name} (${caller.role}) ${verb[input.kind]} ${label} on Steerwise${input.kind === 'approval' ? ': this revision now carries their sign-off.' : '.'}`,
+            `${caller.name} (${caller.role}) ${verb[input.kind]} ${label} on Steerwise${input.kind === 'approval' ? `: this ${t.run ? 'run' : 'revision'} now carries their sign-off.` : '.'}`,
             ...(input.body ? ['', ...input.body.split('\n').map((l) => `  ${l}`)] : []),
             '',
             `Open it: ${page}`,

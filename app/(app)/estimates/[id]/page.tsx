@@ -7,6 +7,8 @@ import { ApiError } from '@/lib/api';
 import { requirePagePermission } from '@/lib/auth';
 import { can } from '@/lib/permissions';
 import { getEstimateRun } from '@/lib/data/estimates';
+import { listReviews } from '@/lib/data/reviews';
+import { ReviewPanel } from '@/components/review/review-panel';
 
 export const dynamic = 'force-dynamic';
 
@@ -22,6 +24,7 @@ export default async function EstimateRunPage({ params }: { params: Promise<{ id
     if (err instanceof ApiError && err.status === 404) notFound();
     throw err;
   }
+  const thread = await listReviews({ caller: user, runId: run.id });
   return (
     <>
       <PageHeader
@@ -30,6 +33,20 @@ export default async function EstimateRunPage({ params }: { params: Promise<{ id
         description={<>Started by {run.createdBy?.name ?? 'a former member'} on {new Date(run.createdAt).toLocaleString('en-GB')}. <Link className="text-glass-700 hover:underline" href="/estimates">All runs</Link></>}
       />
       <RunView id={run.id} initial={run as unknown as RunDto} canRun={can(user.role, 'estimates.run')} />
+      <div className="mt-8 max-w-3xl" id="review">
+        <ReviewPanel
+          initial={thread}
+          target={{ runId: run.id }}
+          canComment={can(user.role, 'review.comment')}
+          canApprove={can(user.role, 'review.approve')}
+          title={`Review of run #${run.id}`}
+          description={
+            run.status === 'done'
+              ? 'Comments, sign-off and requests for changes on these results. A re-run is a new run that needs its own sign-off.'
+              : 'Comments, sign-off and requests for changes on these results; they open once the run has finished (reload the page then).'
+          }
+        />
+      </div>
     </>
   );
 }
