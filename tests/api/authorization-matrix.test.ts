@@ -6,7 +6,7 @@
  * so the other team's admin must get 404, never the record.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuthLink, OutboxMessage, User, ApiToken } from '@/models';
+import { AuthLink, OutboxMessage, User, ApiToken, ArrayDesign, Study } from '@/models';
 import { hashPassword } from '@/lib/passwords';
 import { randomSecret, sha256Hex } from '@/lib/secrets';
 import { startSmtpSink } from '@/lib/mail/sink';
@@ -26,6 +26,11 @@ import * as outboxById from '@/app/api/outbox/[id]/route';
 import * as audit from '@/app/api/audit/route';
 import * as passwordReset from '@/app/api/password-reset/route';
 import * as linksComplete from '@/app/api/links/complete/route';
+import * as arrays from '@/app/api/v1/arrays/route';
+import * as arrayById from '@/app/api/v1/arrays/[id]/route';
+import * as arrayRevision from '@/app/api/v1/arrays/[id]/revisions/[rev]/route';
+import * as studies from '@/app/api/v1/studies/route';
+import * as studyById from '@/app/api/v1/studies/[id]/route';
 import { browserHeaders, everyone, json, params, req, userOf, type Who } from '../helpers/api';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
 
@@ -43,6 +48,10 @@ type Case = {
 };
 
 const all = (anonymous: number, signedIn: number): Record<Who, number> => ({ anonymous, viewer: signedIn, reviewer: signedIn, engineer: signedIn, admin: signedIn, otherAdmin: signedIn });
+/** Readable by every member of the demo team; another team's admin gets 404. */
+const teamRead = (ok: number): Record<Who, number> => ({ anonymous: 401, viewer: ok, reviewer: ok, engineer: ok, admin: ok, otherAdmin: 404 });
+/** Engineers and admins (any team, acting in their own); viewers and reviewers 403. */
+const editors = (ok: number): Record<Who, number> => ({ anonymous: 401, viewer: 403, reviewer: 403, engineer: ok, admin: ok, otherAdmin: ok });
 const adminOnly = (ok: number, otherAdmin: number): Record<Who, number> => ({ anonymous: 401, viewer: 403, reviewer: 403, engineer: 403, admin: ok, otherAdmin });
 
 let counter = 0;
@@ -55,6 +64,16 @@ async function freshInvitation(): Promise<AuthLink> {
   counter += 1;
   const admin = await userOf('admin');
   return AuthLink.create({ purpose: 'invite', email: `invitee-${counter}@steerwise.test`, role: 'viewer', teamId: admin.teamId as number, createdById: admin.id, tokenHash: sha256Hex(randomSecret('', 16)), expiresAt: new Date(Date.now() + 3600_000) });
+}
+async function demoArrayId(): Promise<string> {
+  const admin = await userOf('admin');
+  const array = await ArrayDesign.findOne({ where: { teamId: admin.teamId as number }, order: [['id', 'ASC']] });
+  return String(array!.id);
+}
+async function demoStudyId(): Promise<string> {
+  const admin = await userOf('admin');
+  const study = await Study.findOne({ where: { teamId: admin.teamId as number }, order: [['id', 'ASC']] });
+  return String(study!.id);
 }
 async function engineerToken(): Promise<ApiToken> {
   const engineer = await userOf('engineer');
@@ -141,6 +160,28 @@ const cases: Case[] = [
   { name: 'GET /api/audit', method: 'GET', path: () => '/api/audit', handler: audit.GET as Handler, expect: adminOnly(200, 200) },
   // Anonymous by design: the answer never depends on who asks.
   { name: 'POST /api/password-reset', method: 'POST', path: () => '/api/password-reset', handler: passwordReset.POST as Handler, prepare: async (who) => ({ body: { email: `nobody-${who}@steerwise.test` } }), expect: all(202, 202) },
+  { name: 'GET /api/v1/arrays', method: 'GET', path: () => '/api/v1/arrays', handler: arrays.GET as Handler, expect: all(401, 200) },
+  {
+    name: 'POST /api/v1/arrays',
+    method: 'POST',
+    path: () => '/api/v1/arrays',
+    handler: arrays.POST as Handler,
+    prepare: async (who) => ({ body: { name: `Matrix line ${who}`, elements: 8, spacing: { value: 0.5, unit: 'wavelength' } } }),
+    expect: editors(201),
+  },
+  { name: 'GET /api/v1/arrays/{id}', method: 'GET', path: (p) => `/api/v1/arrays/${p.id}`, handler: arrayById.GET as Handler, prepare: async () => ({ params: { id: await demoArrayId() } }), expect: teamRead(200) },
+  {
+    name: 'GET /api/v1/arrays/{id}/revisions/{rev}',
+    method: 'GET',
+    path: (p) => `/api/v1/arrays/${p.id}/revisions/${p.rev}`,
+    handler: arrayRevision.GET as Handler,
+    prepare: async () => ({ params: { id: await demoArrayId(), rev: '1' } }),
+    expect: teamRead(200),
+  },
+  { name: 'GET /api/v1/studies', method: 'GET', path: () => '/api/v1/studies', handler: studies.GET as Handler, expect: all(401, 200) },
+  // an empty body: the permission is checked before the body, so editors get 422 and nothing is queued
+  { name: 'POST /api/v1/studies (empty body)', method: 'POST', path: () => '/api/v1/studies', handler: studies.POST as Handler, prepare: async () => ({ body: {} }), expect: editors(422) },
+  { name: 'GET /api/v1/studies/{id}', method: 'GET', path: (p) => `/api/v1/studies/${p.id}`, handler: studyById.GET as Handler, prepare: async () => ({ params: { id: await demoStudyId() } }), expect: teamRead(200) },
   { name: 'POST /api/links/complete (unknown token)', method: 'POST', path: () => '/api/links/complete', handler: linksComplete.POST as Handler, prepare: async () => ({ body: { token: 'x'.repeat(43), password: 'long enough password' } }), expect: all(404, 404) },
 ];
 
