@@ -11,6 +11,7 @@ import type { DesignerAction, DesignerDraft } from '@/lib/designer/state';
 import type { PairAdvice } from '@/lib/designer/analysis';
 import type { SeparationChart as Curves } from '@/lib/doa/bounds';
 import { columnsCsv, fileSlug } from '@/lib/designer/export';
+import { spreadLabels } from '@/lib/designer/label-layout';
 import { ExportMenu } from './export-menu';
 import { cn } from '@/lib/cn';
 
@@ -73,7 +74,10 @@ export function SeparationChart({ draft, curves, pairs, spacingWavelengths: d, l
     for (let v = Math.ceil(xMin / stepX) * stepX; v <= xMax + 1e-9; v += stepX) xTicks.push(v);
     const yTicks: number[] = [];
     for (let e = lo; e <= hi; e++) yTicks.push(Math.pow(10, e));
-    return { xs, gap, stat, x, y, gapPath: path(gap), statPath: path(stat), currentX, pts, xTicks, yTicks };
+    // pair labels of close pairs would overlap: nudge them apart vertically (12 units for 10-unit text),
+    // below the "this array" label at the top and inside the plot
+    const labelYs = spreadLabels(pts.map((q) => y(q.y)), { minGap: 12, top: T + 22, bottom: H - B - 4 });
+    return { xs, gap, stat, x, y, gapPath: path(gap), statPath: path(stat), currentX, pts, labelYs, xTicks, yTicks };
   }, [curves, pairs, xKind, yKind, draft.elements, d]);
 
   const flagged = pairs.filter((p) => p.belowResolvableGap);
@@ -154,10 +158,13 @@ export function SeparationChart({ draft, curves, pairs, spacingWavelengths: d, l
         <text x={chart.x(chart.currentX) + 4} y={T + 12} fontSize={10} fill={C.marker}>
           this array
         </text>
-        {chart.pts.map(({ p, y }) => (
+        {chart.pts.map(({ p, y }, k) => (
           <g key={`${p.i}-${p.j}`} data-testid="sep-pair-point" data-below-gap={p.belowResolvableGap ? 'true' : 'false'}>
             <circle cx={chart.x(chart.currentX)} cy={chart.y(y)} r={p.belowResolvableGap ? 6 : 4.5} fill={p.belowResolvableGap ? '#ffffff' : C.ok} stroke={p.belowResolvableGap ? C.flag : C.ok} strokeWidth={2} />
-            <text x={chart.x(chart.currentX) + 9} y={chart.y(y) + 3} fontSize={10} fill={p.belowResolvableGap ? C.flag : C.ok}>
+            {Math.abs(chart.labelYs[k] - chart.y(y)) > 1 ? (
+              <line x1={chart.x(chart.currentX) + 6} y1={chart.y(y)} x2={chart.x(chart.currentX) + 8} y2={chart.labelYs[k]} stroke={p.belowResolvableGap ? C.flag : C.ok} strokeWidth={1} />
+            ) : null}
+            <text x={chart.x(chart.currentX) + 9} y={chart.labelYs[k] + 3} fontSize={10} fill={p.belowResolvableGap ? C.flag : C.ok}>
               S{p.i + 1}–S{p.j + 1}
               {p.belowResolvableGap ? ' below gap' : ''}
             </text>
