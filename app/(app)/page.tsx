@@ -22,7 +22,8 @@ export default async function OverviewPage() {
     { href: '/arrays', title: 'Arrays', text: 'Element count and spacing for a band; beam, sidelobes, grating-lobe-free scan and the resolvable gap, saved as revisions.', action: can(user.role, 'arrays.edit') ? 'Design an array' : 'Browse arrays' },
     { href: '/datasets', title: 'Datasets', text: 'Multichannel snapshot files from trials (CSV, NPY, HDF5, WAV), checked channel by channel.', action: can(user.role, 'datasets.upload') ? 'Upload a recording' : 'Browse datasets' },
     { href: '/estimates', title: 'Estimates', text: 'Bearings from ESPRIT- and MUSIC-family methods, side by side, with ±1σ from the Cramér–Rao bound.', action: can(user.role, 'estimates.run') ? 'Run an estimate' : 'Browse estimates' },
-    { href: '/studies', title: 'Studies', text: 'Bundles that hand a configuration and its results to a colleague, with review and sign-off.', action: 'Open studies' },
+    { href: '/handoff', title: 'Hand-off', text: 'Checked, reproducible bundles of an array revision and its runs for a colleague, sent by e-mail, with review and sign-off.', action: can(user.role, 'arrays.edit') ? 'Send or import a bundle' : 'Open hand-off' },
+    { href: '/studies', title: 'Studies', text: 'Seeded Monte Carlo runs that predict bearing accuracy against the Cramér–Rao bound before hardware exists.', action: can(user.role, 'studies.run') ? 'Start a study' : 'Browse studies' },
   ];
   return (
     <>
