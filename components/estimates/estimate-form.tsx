@@ -97,7 +97,7 @@ export function EstimateForm({ arrays, datasets, initialDatasetId }: { arrays: A
             <select aria-label="Array" id="arrayId" className={cn(inputClass, 'mt-2')} value={chosenArray?.id ?? ''} onChange={(e) => setArrayId(e.target.value ? Number(e.target.value) : '')} aria-invalid={mismatch || fieldError('arrayId') ? true : undefined} aria-describedby="arrayId-note">
               {matching.length === 0 ? <option value="">No array with {elements} elements</option> : null}
               {(dataset ? matching : arrays).map((a) => (
-                <option key={a.id} value={a.id}>{a.name} r{a.revision} — {a.elements} elements, d = {a.spacingWavelengths} λ{a.disabledElements.length ? ' (has disabled elements)' : ''}</option>
+                <option key={a.id} value={a.id}>{a.name} r{a.revision} — {a.elements} elements, d = {Number(a.spacingWavelengths.toPrecision(4))} λ{a.disabledElements.length ? ' (has disabled elements)' : ''}</option>
               ))}
             </select>
           ) : (

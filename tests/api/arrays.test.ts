@@ -109,7 +109,7 @@ describe('create and read, with metrics', () => {
     expect(names).toContain(tenElements.name);
     // The seeded demo arrays are there too, at their latest revision.
     const portAlder = body.items.find((a: { name: string }) => a.name === 'Port Alder hydrophone line');
-    expect(portAlder).toMatchObject({ revision: 2, latestRevision: 2, elements: 16, author: { name: 'Tobin Hartree' } });
+    expect(portAlder).toMatchObject({ revision: 3, latestRevision: 3, elements: 16, author: { name: 'Tobin Hartree' } });
     for (const item of body.items) expect(item.metrics).toEqual(arrayMetrics(item.elements, item.spacingWavelengths));
   });
 });
@@ -321,13 +321,15 @@ describe('demo seed', () => {
     await seedDemo(await getDb());
     expect(await counts()).toEqual(before);
     const line = await ArrayDesign.findOne({ where: { name: 'Port Alder hydrophone line' } });
-    expect(line!.latestRevision).toBe(2);
-    const [r1, r2] = await Promise.all([1, 2].map((revision) => ArrayRevision.findOne({ where: { arrayId: line!.id, revision } })));
+    expect(line!.latestRevision).toBe(3);
+    const [r1, r2, r3] = await Promise.all([1, 2, 3].map((revision) => ArrayRevision.findOne({ where: { arrayId: line!.id, revision } })));
     // Mackenzie (1981) at 9 °C, 34 ppt, 40 m; d = 0.25 m at 3 kHz.
     const c = propagationSpeed({ kind: 'sea-water', equation: 'mackenzie', temperatureC: 9, salinityPsu: 34, depthM: 40 }).speedMps;
     close(r1!.spacingWavelengths, (0.25 * 3000) / c, 1e-12);
     expect(r2!.spacingWavelengths).toBe(r1!.spacingWavelengths);
     expect((r2!.config as { elementStates: { enabled: boolean }[] }).elementStates[6].enabled).toBe(false);
+    // Revision 3: the hydrophone is replaced; every element is back in use.
+    expect((r3!.config as { elementStates: { enabled: boolean }[] }).elementStates.every((e) => e.enabled)).toBe(true);
     const row = await ArrayDesign.findOne({ where: { name: 'Gannet Point X-band receive row' } });
     const rr = await ArrayRevision.findOne({ where: { arrayId: row!.id, revision: 1 } });
     // 15 mm at 10 GHz: λ = 29.9792458 mm (REFERENCES §1).

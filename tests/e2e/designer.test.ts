@@ -101,7 +101,7 @@ describe('an engineer designs an array in the browser', () => {
       await page.getByRole('table', { name: 'Arrays' }).waitFor();
       // The seeded demo arrays are listed with their latest revision and author.
       const demoRow = page.getByRole('row', { name: /Port Alder hydrophone line/ });
-      await expect(demoRow.textContent()).resolves.toMatch(/r2.*Tobin Hartree/);
+      await expect(demoRow.textContent()).resolves.toMatch(/r3.*Tobin Hartree/);
       await shot(page, 'designer-00-list');
 
       await page.getByTestId('new-array').click();
