@@ -1,5 +1,8 @@
 import { defineConfig } from 'vitest/config';
 import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const root = path.dirname(fileURLToPath(import.meta.url));
 
 /**
  * Three projects:
@@ -12,9 +15,9 @@ import path from 'node:path';
 export default defineConfig({
   resolve: {
     alias: {
-      '@': path.resolve(__dirname, '.'),
+      '@': root,
       // `server-only` throws outside the React server build; tests import server modules directly.
-      'server-only': path.resolve(__dirname, 'tests/helpers/server-only-stub.ts'),
+      'server-only': path.join(root, 'tests/helpers/server-only-stub.ts'),
     },
   },
   test: {
