@@ -4,20 +4,12 @@ import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
 import { FormMessage, inputClass } from '@/components/ui/field';
 import { apiSendWithHeaders } from './send';
+import { METHOD_LABELS } from './labels';
 import { cn } from '@/lib/cn';
 
 export type ArrayOption = { id: number; name: string; revision: number; elements: number; spacingWavelengths: number; disabledElements: number[] };
 export type DatasetOption = { id: number; name: string; elements: number; snapshots: number; format: string };
 
-export const METHOD_LABELS: Record<string, string> = {
-  'esprit-ls': 'LS-ESPRIT',
-  'esprit-tls': 'TLS-ESPRIT',
-  'esprit-unitary': 'Unitary ESPRIT',
-  'root-music': 'root-MUSIC',
-  music: 'MUSIC',
-  bartlett: 'Bartlett',
-  mvdr: 'MVDR (Capon)',
-};
 const METHODS = Object.keys(METHOD_LABELS);
 
 type Refusal = { message: string; fields?: Record<string, string[]> };

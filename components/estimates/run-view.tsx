@@ -9,7 +9,7 @@ import { Button } from '@/components/ui/button';
 import { FormMessage } from '@/components/ui/field';
 import { EigenvalueChart } from '@/components/datasets/figures';
 import { SpectrumChart } from './spectrum-chart';
-import { METHOD_LABELS } from './estimate-form';
+import { METHOD_LABELS } from './labels';
 import { apiSendWithHeaders } from './send';
 import { WARNING_ADVICE } from './advice';
 

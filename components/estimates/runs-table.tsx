@@ -3,7 +3,7 @@ import Link from 'next/link';
 import type { ColumnDef } from '@tanstack/react-table';
 import { DataTable } from '@/components/ui/data-table';
 import { Badge } from '@/components/ui/badge';
-import { METHOD_LABELS } from './estimate-form';
+import { METHOD_LABELS } from './labels';
 
 export type RunRow = { id: number; status: string; createdAt: string; methods: string[]; datasetName: string | null; arrayLabel: string; bearingsDeg: Record<string, number[]> };
 

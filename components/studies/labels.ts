@@ -1,12 +1,4 @@
-export const METHOD_LABELS: Record<string, string> = {
-  'esprit-ls': 'LS-ESPRIT',
-  'esprit-tls': 'TLS-ESPRIT',
-  'esprit-unitary': 'Unitary ESPRIT',
-  'root-music': 'root-MUSIC',
-  music: 'MUSIC',
-  bartlett: 'Bartlett',
-  mvdr: 'MVDR (Capon)',
-};
+export { METHOD_LABELS } from '@/components/estimates/labels';
 
 export const VARIABLE_LABELS: Record<string, { name: string; unit: string; axis: string }> = {
   snr: { name: 'SNR', unit: 'dB', axis: 'SNR per element of source 1 (dB, log scale in linear SNR)' },
