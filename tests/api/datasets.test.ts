@@ -17,6 +17,7 @@ import * as datasetById from '@/app/api/v1/datasets/[id]/route';
 import { resolveStoragePath } from '@/lib/storage/uploads';
 import { browserHeaders, everyone, json, ORIGIN, params, req, userOf, type Who } from '../helpers/api';
 import { fixture, footprint, multipart, upload } from './datasets.helpers';
+import { float64LE, garbage, npy } from '../helpers/hostile-bytes';
 import csvExpected from '@/fixtures/datasets/csv-expected.json';
 import npyExpected from '@/fixtures/datasets/npy-expected.json';
 import hdf5Expected from '@/fixtures/datasets/hdf5-expected.json';
@@ -120,32 +121,6 @@ describe('every fixture format round-trips through the upload route', () => {
 // ---------------------------------------------------------------------------
 // Hostile corpus through HTTP
 
-function npyBytes(header: string, data: Buffer, major = 1, declared?: number): Buffer {
-  const body = Buffer.from(header + '\n', 'latin1');
-  const pre = Buffer.alloc(major === 1 ? 10 : 12);
-  Buffer.from([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, major, 0]).copy(pre);
-  if (major === 1) pre.writeUInt16LE(declared ?? body.length, 8);
-  else pre.writeUInt32LE(declared ?? body.length, 8);
-  return Buffer.concat([pre, body, data]);
-}
-function garbage(n: number, seed: number): Buffer {
-  const out = Buffer.alloc(n);
-  let x = seed >>> 0 || 1;
-  for (let i = 0; i < n; i++) {
-    x ^= x << 13;
-    x >>>= 0;
-    x ^= x >>> 17;
-    x ^= x << 5;
-    x >>>= 0;
-    out[i] = x & 0xff;
-  }
-  return out;
-}
-const f8 = (vals: number[]) => {
-  const b = Buffer.alloc(vals.length * 8);
-  vals.forEach((v, i) => b.writeDoubleLE(v, i * 8));
-  return b;
-};
 const hdr = (descr: string, shape: string) => `{'descr': '${descr}', 'fortran_order': False, 'shape': ${shape}, }`;
 
 interface HostileCase {
@@ -186,20 +161,20 @@ const CASES: HostileCase[] = [
   { name: 'unclosed parenthesis', file: 'a.csv', bytes: () => '(1+2j,3\n', status: 422, says: ["'(1+2j'"] },
   { name: 'header/data column mismatch', file: 'a.csv', bytes: () => 'a,b,c\n1,2\n', status: 422, says: ['row 2'] },
   // NPY
-  { name: "wrong dtype '<i4'", file: 'a.npy', bytes: () => npyBytes(hdr('<i4', '(2, 2)'), Buffer.alloc(16)), status: 415, says: ["NPY dtype '<i4' is not supported: use complex64, complex128, float32 or float64"] },
-  { name: "boolean dtype", file: 'a.npy', bytes: () => npyBytes(hdr('|b1', '(2, 2)'), Buffer.alloc(4)), status: 415, says: ["'|b1'"] },
-  { name: 'structured dtype', file: 'a.npy', bytes: () => npyBytes("{'descr': [('r', '<f8'), ('i', '<f8')], 'fortran_order': False, 'shape': (2, 2), }", Buffer.alloc(64)), status: 415, says: ['structured'] },
-  { name: 'truncated NPY header', file: 'a.npy', bytes: () => npyBytes(hdr('<c16', '(2, 2)'), Buffer.alloc(0)).subarray(0, 40), status: 422, says: ['header', 'cut short'] },
+  { name: "wrong dtype '<i4'", file: 'a.npy', bytes: () => npy(hdr('<i4', '(2, 2)'), Buffer.alloc(16)), status: 415, says: ["NPY dtype '<i4' is not supported: use complex64, complex128, float32 or float64"] },
+  { name: "boolean dtype", file: 'a.npy', bytes: () => npy(hdr('|b1', '(2, 2)'), Buffer.alloc(4)), status: 415, says: ["'|b1'"] },
+  { name: 'structured dtype', file: 'a.npy', bytes: () => npy("{'descr': [('r', '<f8'), ('i', '<f8')], 'fortran_order': False, 'shape': (2, 2), }", Buffer.alloc(64)), status: 415, says: ['structured'] },
+  { name: 'truncated NPY header', file: 'a.npy', bytes: () => npy(hdr('<c16', '(2, 2)'), Buffer.alloc(0)).subarray(0, 40), status: 422, says: ['header', 'cut short'] },
   { name: 'shorter than the preamble', file: 'a.npy', bytes: () => Buffer.from([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0]), status: 422, says: ['8 bytes'] },
   { name: 'bad magic', file: 'a.npy', bytes: () => garbage(256, 11), status: 422, says: ['not an NPY file'] },
-  { name: 'lying shape (more than the data)', file: 'a.npy', bytes: () => npyBytes(hdr('<c16', '(10, 4)'), f8(new Array(40).fill(1))), status: 422, says: ['(10, 4)', 'holds 320 bytes'] },
-  { name: 'lying shape (less than the data)', file: 'a.npy', bytes: () => npyBytes(hdr('<c16', '(1, 2)'), f8(new Array(8).fill(1))), status: 422, says: ['(1, 2)'] },
-  { name: 'three-dimensional', file: 'a.npy', bytes: () => npyBytes(hdr('<f8', '(2, 2, 2)'), Buffer.alloc(64)), status: 422, says: ['(2, 2, 2)'] },
-  { name: 'one element per snapshot', file: 'a.npy', bytes: () => npyBytes(hdr('<f8', '(5, 1)'), Buffer.alloc(40)), status: 422, says: ['at least 2'] },
-  { name: 'no snapshots (0, 4)', file: 'a.npy', bytes: () => npyBytes(hdr('<c8', '(0, 4)'), Buffer.alloc(0)), status: 422, says: ['(0, 4)'] },
-  { name: 'NaN in NPY data', file: 'a.npy', bytes: () => npyBytes(hdr('<c16', '(2, 2)'), f8([1, 0, 2, 0, 3, NaN, 4, 0])), status: 422, says: ['row 2, column 1'], location: 'row 2, column 1' },
-  { name: 'NPY version 4.0', file: 'a.npy', bytes: () => npyBytes(hdr('<f8', '(1, 2)'), Buffer.alloc(16), 4), status: 415, says: ['version 4.0'] },
-  { name: 'implausible header length', file: 'a.npy', bytes: () => npyBytes(hdr('<f8', '(1, 2)'), Buffer.alloc(16), 2, 0xfffffff0), status: 422, says: ['header length'] },
+  { name: 'lying shape (more than the data)', file: 'a.npy', bytes: () => npy(hdr('<c16', '(10, 4)'), float64LE(new Array(40).fill(1))), status: 422, says: ['(10, 4)', 'holds 320 bytes'] },
+  { name: 'lying shape (less than the data)', file: 'a.npy', bytes: () => npy(hdr('<c16', '(1, 2)'), float64LE(new Array(8).fill(1))), status: 422, says: ['(1, 2)'] },
+  { name: 'three-dimensional', file: 'a.npy', bytes: () => npy(hdr('<f8', '(2, 2, 2)'), Buffer.alloc(64)), status: 422, says: ['(2, 2, 2)'] },
+  { name: 'one element per snapshot', file: 'a.npy', bytes: () => npy(hdr('<f8', '(5, 1)'), Buffer.alloc(40)), status: 422, says: ['at least 2'] },
+  { name: 'no snapshots (0, 4)', file: 'a.npy', bytes: () => npy(hdr('<c8', '(0, 4)'), Buffer.alloc(0)), status: 422, says: ['(0, 4)'] },
+  { name: 'NaN in NPY data', file: 'a.npy', bytes: () => npy(hdr('<c16', '(2, 2)'), float64LE([1, 0, 2, 0, 3, NaN, 4, 0])), status: 422, says: ['row 2, column 1'], location: 'row 2, column 1' },
+  { name: 'NPY version 4.0', file: 'a.npy', bytes: () => npy(hdr('<f8', '(1, 2)'), Buffer.alloc(16), { major: 4 }), status: 415, says: ['version 4.0'] },
+  { name: 'implausible header length', file: 'a.npy', bytes: () => npy(hdr('<f8', '(1, 2)'), Buffer.alloc(16), { major: 2, declaredLength: 0xfffffff0 }), status: 422, says: ['header length'] },
   { name: 'empty .npy', file: 'a.npy', bytes: () => '', status: 422, says: ['empty'] },
   // HDF5
   { name: 'corrupt HDF5 (random bytes)', file: 'g.h5', bytes: () => garbage(8192, 3), status: 422, says: ['HDF5'] },

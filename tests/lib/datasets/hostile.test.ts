@@ -15,6 +15,7 @@ import { promises as fsp } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { DatasetError, parseSnapshotFile, type ParseOptions } from '@/lib/datasets';
+import { float64LE, garbage, npy } from '../../helpers/hostile-bytes';
 
 const FIX = path.resolve(__dirname, '../../../fixtures/datasets');
 let dir = '';
@@ -25,38 +26,6 @@ beforeAll(async () => {
 afterAll(async () => {
   if (dir) await fsp.rm(dir, { recursive: true, force: true });
 });
-
-/** Deterministic pseudo-random bytes (xorshift32), for garbage inputs. */
-function garbage(n: number, seed: number): Buffer {
-  const out = Buffer.alloc(n);
-  let x = seed >>> 0 || 1;
-  for (let i = 0; i < n; i++) {
-    x ^= x << 13;
-    x >>>= 0;
-    x ^= x >>> 17;
-    x ^= x << 5;
-    x >>>= 0;
-    out[i] = x & 0xff;
-  }
-  return out;
-}
-
-/** An NPY file built byte by byte (for hostile variants numpy would not write). */
-function npy(header: string, data: Buffer, opts: { major?: number; declaredLength?: number } = {}): Buffer {
-  const major = opts.major ?? 1;
-  const body = Buffer.from(header + '\n', 'latin1');
-  const pre = Buffer.alloc(major === 1 ? 10 : 12);
-  Buffer.from([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, major, 0]).copy(pre);
-  if (major === 1) pre.writeUInt16LE(opts.declaredLength ?? body.length, 8);
-  else pre.writeUInt32LE(opts.declaredLength ?? body.length, 8);
-  return Buffer.concat([pre, body, data]);
-}
-
-function c16(values: number[]): Buffer {
-  const b = Buffer.alloc(values.length * 8);
-  values.forEach((v, i) => b.writeDoubleLE(v, i * 8));
-  return b;
-}
 
 function csvRows(n: number, m: number): string {
   const rows: string[] = [];
@@ -149,13 +118,13 @@ const cases: Case[] = [
   { name: 'truncated header', file: 'a.npy', content: () => npy("{'descr': '<c16', 'fortran_order': False, 'shape': (2, 2), }", Buffer.alloc(0)).subarray(0, 40), status: 422, code: 'truncated', says: ['header', 'cut short'] },
   { name: 'file shorter than the preamble', file: 'a.npy', content: () => Buffer.from([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0]), status: 422, code: 'truncated', says: ['8 bytes'] },
   { name: 'bad magic', file: 'a.npy', content: () => garbage(256, 11), status: 422, code: 'bad-magic', says: ['not an NPY file'] },
-  { name: 'lying shape: header says more than the data', file: 'a.npy', content: () => npy("{'descr': '<c16', 'fortran_order': False, 'shape': (10, 4), }", c16(new Array(5 * 4 * 2).fill(1))), status: 422, code: 'shape-mismatch', says: ['(10, 4)', 'complex128', '640 bytes', 'holds 320 bytes'] },
-  { name: 'lying shape: data longer than the header says', file: 'a.npy', content: () => npy("{'descr': '<c16', 'fortran_order': False, 'shape': (1, 2), }", c16(new Array(8).fill(1))), status: 422, code: 'shape-mismatch', says: ['(1, 2)', '32 bytes', 'holds 64 bytes'] },
+  { name: 'lying shape: header says more than the data', file: 'a.npy', content: () => npy("{'descr': '<c16', 'fortran_order': False, 'shape': (10, 4), }", float64LE(new Array(5 * 4 * 2).fill(1))), status: 422, code: 'shape-mismatch', says: ['(10, 4)', 'complex128', '640 bytes', 'holds 320 bytes'] },
+  { name: 'lying shape: data longer than the header says', file: 'a.npy', content: () => npy("{'descr': '<c16', 'fortran_order': False, 'shape': (1, 2), }", float64LE(new Array(8).fill(1))), status: 422, code: 'shape-mismatch', says: ['(1, 2)', '32 bytes', 'holds 64 bytes'] },
   { name: 'three-dimensional array', file: 'a.npy', content: () => npy("{'descr': '<f8', 'fortran_order': False, 'shape': (2, 2, 2), }", Buffer.alloc(64)), status: 422, code: 'bad-shape', says: ['(2, 2, 2)', '(N, M)'] },
   { name: 'zero-dimensional array', file: 'a.npy', content: () => npy("{'descr': '<f8', 'fortran_order': False, 'shape': (), }", Buffer.alloc(8)), status: 422, code: 'bad-shape', says: ['()'] },
   { name: 'one element per snapshot', file: 'a.npy', content: () => npy("{'descr': '<f8', 'fortran_order': False, 'shape': (5, 1), }", Buffer.alloc(40)), status: 422, code: 'too-few-elements', says: ['(5, 1)', 'at least 2'] },
   { name: 'no snapshots (shape (0, 4))', file: 'a.npy', content: () => npy("{'descr': '<c8', 'fortran_order': False, 'shape': (0, 4), }", Buffer.alloc(0)), status: 422, code: 'no-snapshots', says: ['(0, 4)'] },
-  { name: 'NaN in the data', file: 'a.npy', content: () => npy("{'descr': '<c16', 'fortran_order': False, 'shape': (2, 2), }", c16([1, 0, 2, 0, 3, NaN, 4, 0])), status: 422, code: 'not-finite', says: ['row 2, column 1', 'NaN'], location: { row: 2, column: 1 } },
+  { name: 'NaN in the data', file: 'a.npy', content: () => npy("{'descr': '<c16', 'fortran_order': False, 'shape': (2, 2), }", float64LE([1, 0, 2, 0, 3, NaN, 4, 0])), status: 422, code: 'not-finite', says: ['row 2, column 1', 'NaN'], location: { row: 2, column: 1 } },
   { name: 'unknown NPY version 4.0', file: 'a.npy', content: () => npy("{'descr': '<f8', 'fortran_order': False, 'shape': (1, 2), }", Buffer.alloc(16), { major: 4 }), status: 415, code: 'unsupported-format', says: ['version 4.0'] },
   { name: 'header is not a complete dictionary', file: 'a.npy', content: () => npy("{'descr': '<f8', 'fortran_order': False, 'shape': (1, 2)", Buffer.alloc(16)), status: 422, code: 'bad-header', says: ['NPY header'] },
   { name: 'header without a shape entry', file: 'a.npy', content: () => npy("{'descr': '<f8', 'fortran_order': False}", Buffer.alloc(16)), status: 422, code: 'bad-header', says: ["'shape'"] },
