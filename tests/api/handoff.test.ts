@@ -6,8 +6,6 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, AuthLink, Handoff, OutboxMessage } from '@/models';
-import { startSmtpSink } from '@/lib/mail/sink';
-import { storeCapturedMail } from '@/lib/mail/outbox';
 import { listOutbox } from '@/lib/data/outbox';
 import { readBundle } from '@/lib/bundle/bundle';
 import { createSignedToken } from '@/lib/handoff/signed-link';
@@ -15,21 +13,14 @@ import { getCaller } from '@/lib/auth';
 import * as handoffRoute from '@/app/api/handoff/route';
 import * as downloadRoute from '@/app/api/handoff/[token]/route';
 import { browserHeaders, json, params, req, userOf, type Who } from '../helpers/api';
-import { createArray, createDataset, createRun } from '../lib/handoff/fixtures';
+import { startSinkWithRun } from './mail-sink.helpers';
 
 let sink: { port: number; close: () => Promise<void> };
 let arrayId: number;
 let runId: number;
 
 beforeAll(async () => {
-  sink = await startSmtpSink({ port: 0, store: storeCapturedMail });
-  process.env.SMTP_SINK_PORT = String(sink.port);
-  const engineer = await userOf('engineer');
-  const { array, revision, spacingWavelengths } = await createArray({ user: engineer });
-  const { dataset } = await createDataset({ user: engineer, elements: 8, spacingWavelengths, arrayId: array.id });
-  const { run } = await createRun({ user: engineer, revision, dataset, spacingWavelengths, methods: ['esprit-ls'] });
-  arrayId = array.id;
-  runId = run.id;
+  ({ sink, arrayId, runId } = await startSinkWithRun({ methods: ['esprit-ls'], datasetOnArray: true }));
 });
 afterAll(async () => {
   await sink.close();

@@ -5,26 +5,17 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, OutboxMessage, Review } from '@/models';
-import { startSmtpSink } from '@/lib/mail/sink';
-import { storeCapturedMail } from '@/lib/mail/outbox';
 import * as reviewsRoute from '@/app/api/v1/reviews/route';
 import * as arrayRoute from '@/app/api/v1/arrays/[id]/route';
 import { browserHeaders, json, params, req, userOf, type Who } from '../helpers/api';
-import { createArray, createDataset, createRun } from '../lib/handoff/fixtures';
+import { startSinkWithRun } from './mail-sink.helpers';
 
 let sink: { port: number; close: () => Promise<void> };
 let arrayId: number;
 let runId: number;
 
 beforeAll(async () => {
-  sink = await startSmtpSink({ port: 0, store: storeCapturedMail });
-  process.env.SMTP_SINK_PORT = String(sink.port);
-  const engineer = await userOf('engineer');
-  const { array, revision, spacingWavelengths } = await createArray({ user: engineer });
-  const { dataset } = await createDataset({ user: engineer, elements: 8, spacingWavelengths });
-  const { run } = await createRun({ user: engineer, revision, dataset, spacingWavelengths, methods: ['root-music'] });
-  arrayId = array.id;
-  runId = run.id;
+  ({ sink, arrayId, runId } = await startSinkWithRun({ methods: ['root-music'] }));
 });
 afterAll(async () => {
   await sink.close();
