@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent, OutboxMessage, Review } from '@/models';
 import * as reviewsRoute from '@/app/api/v1/reviews/route';
 import * as arrayRoute from '@/app/api/v1/arrays/[id]/route';
-import { browserHeaders, json, params, req, userOf, type Who } from '../helpers/api';
+import { browserHeaders, json, params, req, type Who } from '../helpers/api';
 import { startSinkWithRun } from './mail-sink.helpers';
 
 let sink: { port: number; close: () => Promise<void> };
