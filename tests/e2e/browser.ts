@@ -1,6 +1,7 @@
 /** Headless Debian Chromium through playwright-core, with a small page-object for Steerwise. */
 import fs from 'node:fs';
 import path from 'node:path';
+import { afterAll, beforeAll, inject } from 'vitest';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
 export const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
@@ -18,6 +19,33 @@ export async function newPage(browser: Browser, baseUrl: string, viewport = { wi
   const page = await context.newPage();
   page.setDefaultTimeout(20_000);
   return { context, page };
+}
+
+/**
+ * One browser for the calling test file: launched in beforeAll, closed in
+ * afterAll. `open` starts a fresh context and page at the app's base URL
+ * (provided by global-setup.ts); call it and `browser` inside tests only.
+ */
+export function browserForFile() {
+  const baseUrl = inject('baseUrl');
+  let launched: Browser | undefined;
+  beforeAll(async () => {
+    launched = await launch();
+  });
+  afterAll(async () => {
+    await launched?.close();
+  });
+  const browser = (): Browser => {
+    if (!launched) throw new Error('the browser is launched in beforeAll: use it inside a test');
+    return launched;
+  };
+  return { baseUrl, browser, open: (viewport?: { width: number; height: number }) => newPage(browser(), baseUrl, viewport) };
+}
+
+/** The CSRF token of the page's session, for API calls made with page.request. */
+export async function csrf(page: Page): Promise<string> {
+  const res = await page.request.get('/api/auth/csrf');
+  return ((await res.json()) as { csrfToken: string }).csrfToken;
 }
 
 export async function signIn(page: Page, email: string, password: string): Promise<void> {

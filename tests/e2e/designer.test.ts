@@ -8,22 +8,14 @@
  * Screenshots land in test-results/designer-*.png.
  */
 import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
 import { apertureWavelengths, arrayMetrics, firstNullBeamwidthDeg, gratingLobeFreeScanDeg, halfPowerBeamwidthDeg, peakSidelobeDb, rayleighGap } from '@/lib/doa/array-figures';
 import { arrayInputSchema, resolveArrayGeometry, type ArrayInput } from '@/lib/validations/array';
-import { launch, newPage, shot, signIn } from './browser';
+import { browserForFile, shot, signIn } from './browser';
 
-const baseUrl = inject('baseUrl');
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const { open } = browserForFile();
 
 /** The designer's state as the page reports it (E's hidden `designer-state` hook), validated with the shared schema. */
 async function state(page: Page): Promise<ArrayInput> {
@@ -93,7 +85,7 @@ const arrayName = 'Skerry Bank trial line (e2e)';
 
 describe('an engineer designs an array in the browser', () => {
   it('creates it, edits it by mouse and keyboard with the figures matching the engine, and saves revisions', async () => {
-    const { context, page } = await newPage(browser, baseUrl, { width: 1440, height: 1000 });
+    const { context, page } = await open({ width: 1440, height: 1000 });
     const errors = watchErrors(page);
     try {
       await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
@@ -201,7 +193,7 @@ describe('an engineer designs an array in the browser', () => {
   });
 
   it('the separation chart flags a pair below the resolvable gap and not a pair above it', async () => {
-    const { context, page } = await newPage(browser, baseUrl, { width: 1440, height: 1000 });
+    const { context, page } = await open({ width: 1440, height: 1000 });
     try {
       await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
       await page.goto('/arrays/new');
@@ -247,7 +239,7 @@ describe('an engineer designs an array in the browser', () => {
 describe('a reviewer opens an array read-only', () => {
   it('sees every figure but cannot edit or save, and can open an older revision', async () => {
     expect(arrayId, 'the engineer test saved an array first').toBeGreaterThan(0);
-    const { context, page } = await newPage(browser, baseUrl, { width: 1440, height: 1000 });
+    const { context, page } = await open({ width: 1440, height: 1000 });
     const errors = watchErrors(page);
     try {
       await signIn(page, 'reviewer@steerwise.test', DEMO_PASSWORD);

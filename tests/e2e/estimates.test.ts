@@ -5,25 +5,16 @@
  * reference bearings are in fixtures/api/reference.json.
  */
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
 import reference from '@/fixtures/api/reference.json';
-import { launch, newPage, shot, signIn } from './browser';
+import { browserForFile, shot, signIn } from './browser';
 
-const baseUrl = inject('baseUrl');
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const { open } = browserForFile();
 
 describe('datasets and estimates in the browser', () => {
   it('upload a CSV with progress, run LS-ESPRIT and MUSIC, read the bearings and the spectrum', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
       await page.goto('/datasets');
@@ -73,7 +64,7 @@ describe('datasets and estimates in the browser', () => {
   });
 
   it('a viewer reads runs but has no upload or run form', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await signIn(page, 'viewer@steerwise.test', DEMO_PASSWORD);
       await page.goto('/datasets');

@@ -6,26 +6,12 @@
  * (Gannet Point Radar Range) finds the message in their outbox, follows the
  * link, imports, and sees "reproduced". Screenshots in test-results/.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
 import { snapshotsCsv } from '../lib/handoff/fixtures';
-import { launch, newPage, shot, signIn } from './browser';
+import { browserForFile, csrf, shot, signIn } from './browser';
 
-const baseUrl = inject('baseUrl');
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-
-async function csrf(page: Page): Promise<string> {
-  const res = await page.request.get('/api/auth/csrf');
-  return ((await res.json()) as { csrfToken: string }).csrfToken;
-}
+const { browser, open } = browserForFile();
 
 describe('hand-off between two teams', () => {
   it('export, e-mail, sign-off, open the link as the colleague, import, reproduced', async () => {
@@ -33,7 +19,7 @@ describe('hand-off between two teams', () => {
     const arrayName = `Port Alder inshore line ${stamp}`;
 
     // 1. Engineer: an array, a dataset and a two-method run through the API with the browser session.
-    const eng = await newPage(browser, baseUrl);
+    const eng = await open();
     await signIn(eng.page, 'engineer@steerwise.test', DEMO_PASSWORD);
     const token = await csrf(eng.page);
     const created = await eng.page.request.post('/api/v1/arrays', {
@@ -73,7 +59,7 @@ describe('hand-off between two teams', () => {
     await eng.context.close();
 
     // 3. Reviewer: approves revision 1; the sign-off shows name and time.
-    const rev = await newPage(browser, baseUrl);
+    const rev = await open();
     await signIn(rev.page, 'reviewer@steerwise.test', DEMO_PASSWORD);
     await rev.page.goto(`/handoff?array=${arrayId}&rev=1`);
     await rev.page.getByRole('button', { name: 'Approve and sign off' }).click();
@@ -86,7 +72,7 @@ describe('hand-off between two teams', () => {
     await rev.context.close();
 
     // 4. The colleague in the other team: the outbox holds the message; the link opens the import.
-    const col = await newPage(browser, baseUrl);
+    const col = await open();
     await signIn(col.page, 'range-admin@steerwise.test', DEMO_PASSWORD);
     await col.page.goto('/outbox');
     await col.page.getByRole('button', { name: new RegExp(`Tobin Hartree sent you "${arrayName}" revision 1`) }).first().click();
@@ -108,7 +94,7 @@ describe('hand-off between two teams', () => {
 
     // The download link itself works without a session; an altered one is refused with a clear page.
     const download = /(http:\/\/\S+\/api\/handoff\/\S+)/.exec(bodyText)![1];
-    const fresh = await browser.newContext();
+    const fresh = await browser().newContext();
     const ok = await fresh.request.get(download);
     expect(ok.status()).toBe(200);
     const badPage = await fresh.newPage();

@@ -4,20 +4,12 @@
  * reset is done on the newly invited member: other browser-test files sign
  * in with the demo passwords, which must not change.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { alertIn, launch, newPage, shot, signIn } from './browser';
+import { alertIn, browserForFile, shot, signIn } from './browser';
 
-const baseUrl = inject('baseUrl');
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const { baseUrl, open } = browserForFile();
 
 async function linkFromOutbox(page: Page, subject: string, to: string, path: '/invite' | '/reset'): Promise<string> {
   await page.goto('/outbox');
@@ -30,8 +22,8 @@ async function linkFromOutbox(page: Page, subject: string, to: string, path: '/i
 
 describe('links by e-mail', () => {
   it('invitation: admin invites, the invitee joins through the link with the invited role', async () => {
-    const admin = await newPage(browser, baseUrl);
-    const invitee = await newPage(browser, baseUrl);
+    const admin = await open();
+    const invitee = await open();
     try {
       await signIn(admin.page, 'admin@steerwise.test', DEMO_PASSWORD);
       await admin.page.goto('/team');
@@ -59,8 +51,8 @@ describe('links by e-mail', () => {
   });
 
   it('password reset (for the member invited above, so the demo accounts keep their passwords): request, read the link in the outbox, set a new password, sign in with it; the link then refuses', async () => {
-    const anon = await newPage(browser, baseUrl);
-    const admin = await newPage(browser, baseUrl);
+    const anon = await open();
+    const admin = await open();
     try {
       await anon.page.goto('/reset');
       await anon.page.getByLabel('E-mail').fill('tide.gauge@steerwise.test');
@@ -94,7 +86,7 @@ describe('links by e-mail', () => {
   });
 
   it('an API token created on the account page works as a bearer credential', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await signIn(page, 'viewer@steerwise.test', DEMO_PASSWORD);
       await page.goto('/account');

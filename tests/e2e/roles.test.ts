@@ -3,20 +3,11 @@
  * and sees what it may see; refused roles get a clear message. Screenshots
  * land in test-results/.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { alertIn, launch, newPage, shot, signIn } from './browser';
+import { alertIn, browserForFile, shot, signIn } from './browser';
 
-const baseUrl = inject('baseUrl');
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const { open } = browserForFile();
 
 const roles = [
   { role: 'admin', email: 'admin@steerwise.test', name: 'Maren Aldous', admin: true, canManage: true },
@@ -28,7 +19,7 @@ const roles = [
 describe('each role signs in and sees its pages', () => {
   for (const r of roles) {
     it(`${r.role}`, async () => {
-      const { context, page } = await newPage(browser, baseUrl);
+      const { context, page } = await open();
       try {
         await signIn(page, r.email, DEMO_PASSWORD);
         await expect(page.getByTestId('current-role').textContent()).resolves.toBe(r.role);
@@ -76,7 +67,7 @@ describe('each role signs in and sees its pages', () => {
 
 describe('sign-in refusals in the browser', () => {
   it('a wrong password shows a clear message and stays on the sign-in page', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await page.goto('/login');
       await page.getByLabel('E-mail').fill('engineer@steerwise.test');
@@ -90,7 +81,7 @@ describe('sign-in refusals in the browser', () => {
   });
 
   it('after five failures the form says to wait (rate limit)', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await page.goto('/login');
       await page.getByLabel('E-mail').fill('locked-out@steerwise.test');
@@ -108,7 +99,7 @@ describe('sign-in refusals in the browser', () => {
   });
 
   it('signing out ends the session: app pages send you back to sign in', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await signIn(page, 'viewer@steerwise.test', DEMO_PASSWORD);
       await page.getByRole('button', { name: 'Sign out' }).click();
@@ -123,7 +114,7 @@ describe('sign-in refusals in the browser', () => {
   });
 
   it('a signed-out visitor of an app page is sent to sign in', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await page.goto('/team');
       expect(new URL(page.url()).pathname).toBe('/login');
@@ -134,7 +125,7 @@ describe('sign-in refusals in the browser', () => {
   });
 
   it('keyboard: the first Tab reaches the skip link, which moves focus to the content', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     try {
       await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
       await page.goto('/team');
@@ -155,7 +146,7 @@ describe('sign-in refusals in the browser', () => {
   });
 
   it('on a phone-sized screen the navigation folds into a menu button', async () => {
-    const { context, page } = await newPage(browser, baseUrl, { width: 390, height: 844 });
+    const { context, page } = await open({ width: 390, height: 844 });
     try {
       await signIn(page, 'reviewer@steerwise.test', DEMO_PASSWORD);
       const menu = page.getByRole('button', { name: 'Menu' });

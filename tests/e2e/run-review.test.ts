@@ -4,25 +4,11 @@
  * approves, and the sign-off (name and time) shows on the run page for
  * everyone, after a reload too; a viewer reads it without the form.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { launch, newPage, shot, signIn } from './browser';
+import { browserForFile, csrf, shot, signIn } from './browser';
 
-const baseUrl = inject('baseUrl');
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
-
-async function csrf(page: Page): Promise<string> {
-  const res = await page.request.get('/api/auth/csrf');
-  return ((await res.json()) as { csrfToken: string }).csrfToken;
-}
+const { open } = browserForFile();
 
 /** One source at 10° on a half-wavelength ULA of 6 elements plus small deterministic noise (N = 40 rows of M). */
 function snapshots() {
@@ -46,7 +32,7 @@ function snapshots() {
 
 describe('review of an estimate run', () => {
   it('a reviewer approves a run and the sign-off shows on the run page', async () => {
-    const eng = await newPage(browser, baseUrl);
+    const eng = await open();
     await signIn(eng.page, 'engineer@steerwise.test', DEMO_PASSWORD);
     const created = await eng.page.request.post('/api/v1/estimates', {
       headers: { 'x-csrf-token': await csrf(eng.page) },
@@ -70,7 +56,7 @@ describe('review of an estimate run', () => {
     await eng.page.getByRole('button', { name: 'Comment', exact: true }).click();
     await eng.page.getByRole('list', { name: 'Review thread' }).getByText('One contact near 10°; please check.').waitFor();
 
-    const rev = await newPage(browser, baseUrl);
+    const rev = await open();
     await signIn(rev.page, 'reviewer@steerwise.test', DEMO_PASSWORD);
     await rev.page.goto(`/estimates/${runId}`);
     await rev.page.getByRole('list', { name: 'Review thread' }).getByText('One contact near 10°; please check.').waitFor();
@@ -92,7 +78,7 @@ describe('review of an estimate run', () => {
     await eng.page.getByTestId('sign-off').filter({ hasText: 'Signed off by Ilse Carrow (reviewer)' }).waitFor();
     await eng.context.close();
 
-    const viewer = await newPage(browser, baseUrl);
+    const viewer = await open();
     await signIn(viewer.page, 'viewer@steerwise.test', DEMO_PASSWORD);
     await viewer.page.goto(`/estimates/${runId}`);
     await viewer.page.getByTestId('sign-off').filter({ hasText: 'Signed off by Ilse Carrow (reviewer)' }).waitFor();

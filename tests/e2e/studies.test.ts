@@ -6,25 +6,16 @@
  * (the result itself is checked against the closed-form CRB in the unit tests).
  * Screenshots land in test-results/studies-*.png.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
 import { DEMO_STUDY_NAME } from '@/lib/demo/studies';
-import { launch, newPage, shot, signIn } from './browser';
+import { browserForFile, shot, signIn } from './browser';
 
-const baseUrl = inject('baseUrl');
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const { baseUrl, open } = browserForFile();
 
 describe('studies', () => {
   it('engineer: demo study, then a new study with progress, chart and table', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
     await page.goto(`${baseUrl}/studies`);
     await page.getByRole('link', { name: DEMO_STUDY_NAME }).click();
@@ -74,7 +65,7 @@ describe('studies', () => {
   }, 120_000);
 
   it('a bad value is shown under its field', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
     await page.goto(`${baseUrl}/studies/new`);
     await page.getByLabel('Trials per point').fill('0');
@@ -85,7 +76,7 @@ describe('studies', () => {
   }, 60_000);
 
   it('viewer reads studies but has no New study', async () => {
-    const { context, page } = await newPage(browser, baseUrl);
+    const { context, page } = await open();
     await signIn(page, 'viewer@steerwise.test', DEMO_PASSWORD);
     await page.goto(`${baseUrl}/studies`);
     await page.getByRole('link', { name: DEMO_STUDY_NAME }).waitFor();
