@@ -12,6 +12,7 @@ import { SpectrumChart } from './spectrum-chart';
 import { METHOD_LABELS } from './labels';
 import { apiSendWithHeaders } from './send';
 import { WARNING_ADVICE } from './advice';
+import { downloadText } from '@/lib/download';
 
 type MethodResult = {
   method: string;
@@ -41,15 +42,6 @@ export type RunDto = {
 };
 
 const argmin = (v: number[]) => v.reduce((best, x, i) => (x < v[best] ? i : best), 0);
-
-function download(name: string, type: string, text: string) {
-  const url = URL.createObjectURL(new Blob([text], { type }));
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  a.click();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
-}
 
 export function toCsv(run: RunDto): string {
   const lines = ['run,method,source,bearing_deg,crb_std_deg,ci95_low_deg,ci95_high_deg,source_count,source_count_rule,dataset_sha256,software_version'];
@@ -87,8 +79,8 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
           actions={
             run.status === 'done' ? (
               <div className="flex gap-2">
-                <Button variant="secondary" onClick={() => download(`estimate-${run.id}.csv`, 'text/csv', toCsv(run))}>Export CSV</Button>
-                <Button variant="secondary" onClick={() => download(`estimate-${run.id}.json`, 'application/json', JSON.stringify(run, null, 1))}>Export JSON</Button>
+                <Button variant="secondary" onClick={() => downloadText(`estimate-${run.id}.csv`, 'text/csv', toCsv(run))}>Export CSV</Button>
+                <Button variant="secondary" onClick={() => downloadText(`estimate-${run.id}.json`, 'application/json', JSON.stringify(run, null, 1))}>Export JSON</Button>
                 {canRun ? (
                   <Button
                     variant="secondary"

@@ -11,6 +11,7 @@ import { apiSend, ClientApiError, fetcher } from '@/lib/fetcher';
 import type { StudyDto } from '@/lib/data/studies';
 import { METHOD_LABELS, VARIABLE_LABELS } from './labels';
 import { ResolutionChart, RmseChart } from './study-charts';
+import { downloadText } from '@/lib/download';
 
 type Row = {
   value: number;
@@ -58,15 +59,6 @@ function csvOf(study: StudyDto): string {
     }
   }
   return lines.join('\n') + '\n';
-}
-
-function download(name: string, type: string, text: string) {
-  const url = URL.createObjectURL(new Blob([text], { type }));
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  a.click();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
 }
 
 /** A study: progress while it runs (polled), then the log–log chart, resolution curve, table and exports. */
@@ -119,8 +111,8 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
             <div className="flex gap-2">
               {result ? (
                 <>
-                  <Button variant="secondary" onClick={() => download(`study-${id}.csv`, 'text/csv', csvOf(study))}>Export CSV</Button>
-                  <Button variant="secondary" onClick={() => download(`study-${id}.json`, 'application/json', JSON.stringify({ id, name: study.name, softwareVersion: study.softwareVersion, inputs: study.inputs, result }, null, 2))}>Export JSON</Button>
+                  <Button variant="secondary" onClick={() => downloadText(`study-${id}.csv`, 'text/csv', csvOf(study))}>Export CSV</Button>
+                  <Button variant="secondary" onClick={() => downloadText(`study-${id}.json`, 'application/json', JSON.stringify({ id, name: study.name, softwareVersion: study.softwareVersion, inputs: study.inputs, result }, null, 2))}>Export JSON</Button>
                 </>
               ) : null}
               {canEdit ? <Button variant="danger" onClick={remove}>Delete</Button> : null}
