@@ -11,6 +11,7 @@ import type { DesignerAction, DesignerDraft } from '@/lib/designer/state';
 import type { DesignFigures, PatternData } from '@/lib/designer/analysis';
 import { fileSlug, patternCsv } from '@/lib/designer/export';
 import { ExportMenu } from './export-menu';
+import { CHART_FONT, CHART_INK } from './chart-style';
 import { cn } from '@/lib/cn';
 
 export interface BeamPatternChartProps {
@@ -22,9 +23,7 @@ export interface BeamPatternChartProps {
 }
 
 const C = {
-  grid: '#e3e9ee',
-  axis: '#9fb1c1',
-  text: '#4e667b',
+  ...CHART_INK,
   trace: '#207b6d',
   fill: 'rgba(43,153,134,0.10)',
   halfPower: '#e0780b',
@@ -164,7 +163,7 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
         </div>
       </div>
 
-      <svg ref={svgRef} viewBox={`0 0 ${W} ${H}`} className="w-full" role="img" aria-label={`Beam pattern, ${viewKind} view, steered to ${draft.steerDeg.toFixed(1)} degrees`} fontFamily="IBM Plex Sans, ui-sans-serif, sans-serif">
+      <svg ref={svgRef} viewBox={`0 0 ${W} ${H}`} className="w-full" role="img" aria-label={`Beam pattern, ${viewKind} view, steered to ${draft.steerDeg.toFixed(1)} degrees`} fontFamily={CHART_FONT}>
         {viewKind === 'cartesian' ? (
           <g>
             {rings.map((db) => (

@@ -13,6 +13,7 @@ import type { SeparationChart as Curves } from '@/lib/doa/bounds';
 import { columnsCsv, fileSlug } from '@/lib/designer/export';
 import { spreadLabels } from '@/lib/designer/label-layout';
 import { ExportMenu } from './export-menu';
+import { CHART_FONT, CHART_INK } from './chart-style';
 import { cn } from '@/lib/cn';
 
 export interface SeparationChartProps {
@@ -26,9 +27,7 @@ export interface SeparationChartProps {
 }
 
 const C = {
-  grid: '#e3e9ee',
-  axis: '#9fb1c1',
-  text: '#4e667b',
+  ...CHART_INK,
   rayleigh: '#2a3c4d',
   stat: '#2b9986',
   marker: '#e0780b',
@@ -128,7 +127,7 @@ export function SeparationChart({ draft, curves, pairs, spacingWavelengths: d, l
         </div>
       </div>
 
-      <svg ref={svgRef} viewBox={`0 0 ${W} ${H}`} className="w-full" role="img" aria-label="Resolvable separation against aperture" fontFamily="IBM Plex Sans, ui-sans-serif, sans-serif">
+      <svg ref={svgRef} viewBox={`0 0 ${W} ${H}`} className="w-full" role="img" aria-label="Resolvable separation against aperture" fontFamily={CHART_FONT}>
         {chart.yTicks.map((v) => (
           <g key={v}>
             <line x1={L} x2={W - R} y1={chart.y(v)} y2={chart.y(v)} stroke={C.grid} />
