@@ -9,6 +9,7 @@ import { useFormContext, useWatch } from 'react-hook-form';
 import type { ArrayInputRaw, MediumInput } from '@/lib/validations/array';
 import type { ResolvedGeometry } from '@/lib/validations/array';
 import { cn } from '@/lib/cn';
+import { FieldError } from '@/components/ui/field';
 
 export interface MediumPanelProps {
   geometry: ResolvedGeometry;
@@ -53,11 +54,7 @@ export function NumberField({ name, label, unit, step = 'any', readOnly, testId,
         className={cn('block w-full rounded-md border bg-white px-2 py-1.5 text-sm tabular disabled:bg-ink-50 disabled:text-ink-500', hideLabel ? '' : 'mt-1', error ? 'border-coral-500' : 'border-ink-200')}
         {...register(name as never, { setValueAs: num })}
       />
-      {error ? (
-        <p id={`${id}-error`} className="mt-1 text-xs font-medium text-coral-600">
-          {error}
-        </p>
-      ) : null}
+      <FieldError id={id} error={error} />
     </div>
   );
 }

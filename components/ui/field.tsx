@@ -17,13 +17,18 @@ export function Field({ id, label, error, hint, className, ...input }: React.Inp
           {hint}
         </p>
       ) : null}
-      {error ? (
-        <p id={`${id}-error`} className="mt-1 text-xs font-medium text-coral-600">
-          {error}
-        </p>
-      ) : null}
+      <FieldError id={id} error={error} />
     </div>
   );
+}
+
+/** The error under an input, with the id its aria-describedby points at (`${id}-error`); nothing when there is no error. */
+export function FieldError({ id, error }: { id: string; error?: string }) {
+  return error ? (
+    <p id={`${id}-error`} className="mt-1 text-xs font-medium text-coral-600">
+      {error}
+    </p>
+  ) : null;
 }
 
 export function FormMessage({ tone, children }: { tone: 'error' | 'ok' | 'warn'; children: React.ReactNode }) {
