@@ -21,8 +21,10 @@ export function EstimateForm({ arrays, datasets, initialDatasetId }: { arrays: A
   const dataset = datasets.find((d) => d.id === datasetId);
   const [geometry, setGeometry] = useState<'array' | 'inline'>(arrays.length ? 'array' : 'inline');
   const matching = useMemo(() => arrays.filter((a) => !dataset || a.elements === dataset.elements), [arrays, dataset]);
-  const [arrayId, setArrayId] = useState<number | ''>('');
-  const chosenArray = arrays.find((a) => a.id === arrayId) ?? matching[0];
+  // A choice is one saved revision ("arrayId:revision"); the first matching one (newest revision of the first array) by default.
+  const [arrayKey, setArrayKey] = useState('');
+  const keyOf = (a: ArrayOption) => `${a.id}:${a.revision}`;
+  const chosenArray = matching.find((a) => keyOf(a) === arrayKey) ?? matching.find((a) => !a.disabledElements.length) ?? matching[0];
   const [spacing, setSpacing] = useState('0.5');
   const [methods, setMethods] = useState<string[]>(['esprit-ls', 'music']);
   const [countMode, setCountMode] = useState<'mdl' | 'aic' | 'given'>('mdl');
@@ -46,6 +48,7 @@ export function EstimateForm({ arrays, datasets, initialDatasetId }: { arrays: A
     if (geometry === 'array') {
       if (!chosenArray) return setError({ message: `No array of your team has ${elements} elements; enter the spacing instead.` });
       body.arrayId = chosenArray.id;
+      body.arrayRevision = chosenArray.revision;
     } else body.array = { elements, spacingWavelengths: Number(spacing) };
     if (countMode === 'given') body.sourceCount = Number(sourceCount);
     else body.sourceCountRule = countMode;
@@ -86,10 +89,10 @@ export function EstimateForm({ arrays, datasets, initialDatasetId }: { arrays: A
             <label className="flex items-center gap-1.5"><input type="radio" name="geometry" checked={geometry === 'inline'} onChange={() => setGeometry('inline')} /> Spacing only</label>
           </div>
           {geometry === 'array' ? (
-            <select aria-label="Array" id="arrayId" className={cn(inputClass, 'mt-2')} value={chosenArray?.id ?? ''} onChange={(e) => setArrayId(e.target.value ? Number(e.target.value) : '')} aria-invalid={mismatch || fieldError('arrayId') ? true : undefined} aria-describedby="arrayId-note">
+            <select aria-label="Array" id="arrayId" className={cn(inputClass, 'mt-2')} value={chosenArray ? keyOf(chosenArray) : ''} onChange={(e) => setArrayKey(e.target.value)} aria-invalid={mismatch || fieldError('arrayId') ? true : undefined} aria-describedby="arrayId-note">
               {matching.length === 0 ? <option value="">No array with {elements} elements</option> : null}
               {(dataset ? matching : arrays).map((a) => (
-                <option key={a.id} value={a.id}>{a.name} r{a.revision} — {a.elements} elements, d = {Number(a.spacingWavelengths.toPrecision(4))} λ{a.disabledElements.length ? ' (has disabled elements)' : ''}</option>
+                <option key={keyOf(a)} value={keyOf(a)}>{a.name} r{a.revision} — {a.elements} elements, d = {Number(a.spacingWavelengths.toPrecision(4))} λ{a.disabledElements.length ? ' (has disabled elements)' : ''}</option>
               ))}
             </select>
           ) : (
@@ -100,7 +103,7 @@ export function EstimateForm({ arrays, datasets, initialDatasetId }: { arrays: A
             </div>
           )}
           <p id="arrayId-note" className={cn('mt-1 text-xs', mismatch || fieldError('arrayId') || fieldError('array') ? 'text-coral-700' : 'text-ink-500')}>
-            {fieldError('arrayId') ?? fieldError('array') ?? (mismatch ? `The array has ${chosenArray!.elements} elements but the dataset has ${elements} columns.` : 'Only arrays whose element count equals the dataset’s columns are listed.')}
+            {fieldError('arrayId') ?? fieldError('array') ?? (mismatch ? `The array has ${chosenArray!.elements} elements but the dataset has ${elements} columns.` : 'Only arrays whose element count equals the dataset’s columns are listed; each saved revision is a choice, and the run keeps the one you pick.')}
           </p>
         </fieldset>
       </div>

@@ -75,7 +75,7 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
         <CardHeader
           id="status-title"
           title={active ? 'Running…' : run.status === 'done' ? 'Done' : 'Failed'}
-          description={`${run.inputs.methods.map((m) => METHOD_LABELS[m] ?? m).join(', ')} on ${run.inputs.dataset ? `“${run.inputs.dataset.name}”` : 'inline snapshots'} with ${run.inputs.array.name ? `${run.inputs.array.name} r${run.inputs.array.revision}` : 'an inline array'} (M = ${run.inputs.array.elements}, d = ${run.inputs.array.spacingWavelengths} λ). Software ${run.softwareVersion}.`}
+          description={`${run.inputs.methods.map((m) => METHOD_LABELS[m] ?? m).join(', ')} on ${run.inputs.dataset ? `“${run.inputs.dataset.name}”` : 'inline snapshots'} with ${run.inputs.array.name ? `${run.inputs.array.name} r${run.inputs.array.revision}` : 'an inline array'} (M = ${run.inputs.array.elements}, d = ${Number(run.inputs.array.spacingWavelengths.toPrecision(6))} λ). Software ${run.softwareVersion}.`}
           actions={
             run.status === 'done' ? (
               <div className="flex gap-2">

@@ -62,12 +62,15 @@ export function createdBody(d: DatasetDto) {
 }
 
 /** The latest revision of an array of the caller's team, or 404. */
-export async function findTeamArrayRevision({ caller, arrayId }: { caller: Caller; arrayId: number }): Promise<{ array: ArrayDesign; revision: ArrayRevision }> {
+/** An array of the caller's team at its latest revision, or at `revision` when given (404 when either is missing). */
+export async function findTeamArrayRevision({ caller, arrayId, revision: wanted }: { caller: Caller; arrayId: number; revision?: number }): Promise<{ array: ArrayDesign; revision: ArrayRevision }> {
   await getDb();
   const array = await ArrayDesign.findOne({ where: { id: arrayId, teamId: caller.teamId } });
   if (!array) throw new ApiError('not_found', `No array with id ${arrayId} in your team.`);
-  const revision = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: array.latestRevision } });
-  if (!revision) throw new ApiError('not_found', `Array ${arrayId} has no saved revision.`);
+  const revision = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: wanted ?? array.latestRevision } });
+  if (!revision) {
+    throw new ApiError('not_found', wanted === undefined ? `Array ${arrayId} has no saved revision.` : `Array ${arrayId} has no revision ${wanted} (its latest is ${array.latestRevision}).`);
+  }
   return { array, revision };
 }
 
@@ -246,18 +249,23 @@ export interface ArrayChoice {
   disabledElements: number[];
 }
 
-/** The team's arrays at their latest revision, for the upload and estimate forms. */
-export async function listArrayChoices({ caller }: { caller: Caller }): Promise<ArrayChoice[]> {
+/** The team's arrays at their latest revision (or every revision, newest first, with `allRevisions`), for the upload, estimate and study forms. */
+export async function listArrayChoices({ caller, allRevisions = false }: { caller: Caller; allRevisions?: boolean }): Promise<ArrayChoice[]> {
   assertPermission(caller, 'arrays.read');
   await getDb();
   const arrays = await ArrayDesign.findAll({ where: { teamId: caller.teamId }, order: [['name', 'ASC']] });
   const out: ArrayChoice[] = [];
   for (const a of arrays) {
-    const r = await ArrayRevision.findOne({ where: { arrayId: a.id, revision: a.latestRevision } });
-    if (!r) continue;
-    const states = (r.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
-    const disabledElements = Array.isArray(states) ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : [])) : [];
-    out.push({ id: a.id, name: a.name, revision: r.revision, revisionId: r.id, elements: r.elements, spacingWavelengths: r.spacingWavelengths, disabledElements });
+    const revisions = allRevisions
+      ? await ArrayRevision.findAll({ where: { arrayId: a.id }, order: [['revision', 'DESC']] })
+      : await ArrayRevision.findAll({ where: { arrayId: a.id, revision: a.latestRevision } });
+    for (const r of revisions) out.push(arrayChoiceOf(a, r));
   }
   return out;
+}
+
+function arrayChoiceOf(a: ArrayDesign, r: ArrayRevision): ArrayChoice {
+  const states = (r.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
+  const disabledElements = Array.isArray(states) ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : [])) : [];
+  return { id: a.id, name: a.name, revision: r.revision, revisionId: r.id, elements: r.elements, spacingWavelengths: r.spacingWavelengths, disabledElements };
 }

@@ -148,7 +148,7 @@ async function resolveArray({ caller, input, dataset, pinnedRevisionId }: { call
         fields: { arrayId: ['arrayId or array is required'] },
       });
     }
-    ({ array: design, revision } = await findTeamArrayRevision({ caller, arrayId }));
+    ({ array: design, revision } = await findTeamArrayRevision({ caller, arrayId, revision: input.arrayId !== undefined ? input.arrayRevision : undefined }));
   }
   const disabled = disabledElements(revision);
   if (disabled.length) {

@@ -16,6 +16,7 @@
  * - quay-wall multipath: two coherent arrivals that need spatial smoothing
  *   (the estimator warns `coherent-sources-suspected` without it) (CSV).
  */
+import { soundSpeedMackenzie } from '@/lib/doa/medium';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Transaction } from 'sequelize';
@@ -41,13 +42,16 @@ interface Recording {
   comments?: string[];
 }
 
+/** The Port Alder hydrophone line of the demo arrays: 0.25 m at 3 kHz in 9 °C, 34 ppt water at 40 m (Mackenzie 1981). */
+const PORT_ALDER_LINE_SPACING = (0.25 * 3000) / soundSpeedMackenzie(9, 34, 40).speedMps;
+
 export const DEMO_RECORDINGS: Recording[] = [
   {
     slug: 'harbour-line-two-vessels',
     name: 'Port Alder harbour line — Marsh Wren and Coldharbour',
     format: 'csv',
     elements: 16,
-    spacingWavelengths: 0.5,
+    spacingWavelengths: PORT_ALDER_LINE_SPACING,
     bearingsDeg: [-23.0, 31.5],
     powers: [1.0, 2.5],
     noisePower: 0.5,
@@ -57,7 +61,7 @@ export const DEMO_RECORDINGS: Recording[] = [
     header: Array.from({ length: 16 }, (_, i) => `h${String(i + 1).padStart(2, '0')}`),
     comments: [
       '# Kestrel Sound Laboratory, Port Alder harbour wall, hut 3 (invented demo data)',
-      '# 16-hydrophone line, d = 0.5 wavelength at 1.5 kHz; trawler Marsh Wren and ferry Coldharbour',
+      '# 16-hydrophone line, 0.25 m spacing, analysed at 3 kHz; trawler Marsh Wren and ferry Coldharbour',
     ],
   },
   {
@@ -65,7 +69,7 @@ export const DEMO_RECORDINGS: Recording[] = [
     name: 'Port Alder harbour line — Marsh Wren passing Coldharbour (close pair)',
     format: 'npy',
     elements: 16,
-    spacingWavelengths: 0.5,
+    spacingWavelengths: PORT_ALDER_LINE_SPACING,
     bearingsDeg: [4.0, 7.0],
     powers: [1.0, 1.5],
     noisePower: 0.1,

@@ -69,6 +69,9 @@ export const estimateRequestSchema = z
     datasetId: positiveInt('datasetId').optional(),
     snapshots: inlineSnapshotsSchema.optional(),
     arrayId: positiveInt('arrayId').optional(),
+    arrayRevision: positiveInt('arrayRevision')
+      .optional()
+      .meta({ description: 'Extension: pin a saved revision of arrayId (default: its latest revision)' }),
     array: inlineArraySchema.optional(),
     method: doaMethodSchema.optional(),
     methods: z
@@ -91,6 +94,9 @@ export const estimateRequestSchema = z
     }
     if (v.arrayId !== undefined && v.array !== undefined) {
       ctx.addIssue({ code: 'custom', path: ['arrayId'], message: 'give arrayId or array, not both' });
+    }
+    if (v.arrayRevision !== undefined && v.arrayId === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['arrayRevision'], message: 'arrayRevision pins a revision of arrayId; give arrayId too' });
     }
     if ((v.method === undefined) === (v.methods === undefined)) {
       ctx.addIssue({ code: 'custom', path: ['method'], message: v.method === undefined ? 'method is required' : 'give method or methods, not both' });

@@ -189,6 +189,32 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
     expect(res.body.error.message).toMatch(/disabled element\(s\) 4/);
   });
 
+  it('arrayRevision pins an older revision: the run uses and stores it; unknown or orphan pins are refused', async () => {
+    // Like the demo line: revision 1 is the full line, revision 2 switched element 4 off.
+    const engineer = await userOf('engineer');
+    const a = await ArrayDesign.create({ teamId: engineer.teamId as number, name: 'Line repaired later', latestRevision: 2 } as never);
+    const full = { name: 'Line repaired later', elements: 8, spacing: { value: 0.5, unit: 'wavelength' } };
+    const r1 = await ArrayRevision.create({ arrayId: a.id, revision: 1, config: full, elements: 8, spacingWavelengths: 0.5 } as never);
+    await ArrayRevision.create({ arrayId: a.id, revision: 2, config: { ...full, elementStates: Array.from({ length: 8 }, (_, i) => ({ enabled: i !== 3, gainDb: 0, phaseDeg: 0 })) }, elements: 8, spacingWavelengths: 0.5 } as never);
+    const snapshots = inlineOf(methodsFixture.scenarios[0]);
+    const latest = await estimate('engineer', { snapshots, arrayId: a.id, method: 'esprit-ls' });
+    expect(latest.status).toBe(422);
+    const pinned = await estimate('engineer', { snapshots, arrayId: a.id, arrayRevision: 1, method: 'esprit-ls' });
+    expect(pinned.status, JSON.stringify(pinned.body)).toBe(201);
+    expect((await EstimateRun.findByPk(pinned.body.id))!.arrayRevisionId).toBe(r1.id);
+    const got = await json(await estimateById.GET(req('GET', `/api/v1/estimates/${pinned.body.id}`, { headers: await browserHeaders('engineer') }), params({ id: String(pinned.body.id) })));
+    expect(got.inputs.array).toMatchObject({ arrayId: a.id, revision: 1, elements: 8 });
+    // The same bearings as the inline array of the same geometry.
+    const inline = await estimate('engineer', { snapshots, array: { elements: 8, spacingWavelengths: 0.5 }, method: 'esprit-ls' });
+    expect(pinned.body.bearingsDeg).toEqual(inline.body.bearingsDeg);
+    const missing = await estimate('engineer', { snapshots, arrayId: a.id, arrayRevision: 5, method: 'esprit-ls' });
+    expect(missing.status).toBe(404);
+    expect(missing.body.error.message).toContain('has no revision 5 (its latest is 2)');
+    const orphan = await estimate('engineer', { snapshots, array: { elements: 8, spacingWavelengths: 0.5 }, arrayRevision: 1, method: 'esprit-ls' });
+    expect(orphan.status).toBe(422);
+    expect(orphan.body.error.fields.arrayRevision[0]).toMatch(/give arrayId too/);
+  });
+
   it('a re-run repeats the exact inputs and reports identical bearings', async () => {
     const res = await estimate('engineer', { snapshots: inlineOf(methodsFixture.scenarios[1]), array: { elements: 12, spacingWavelengths: 0.5 }, methods: ['esprit-ls', 'music', 'root-music'], forwardBackward: true, sourceCountRule: 'aic' });
     expect(res.status).toBe(201);

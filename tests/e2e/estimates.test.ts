@@ -63,6 +63,30 @@ describe('datasets and estimates in the browser', () => {
     }
   });
 
+  it('a saved array revision can be chosen: the demo line offers r3, r2 (disabled element) and r1, and the run keeps the one picked', async () => {
+    const { context, page } = await open();
+    try {
+      await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
+      await page.goto('/estimates');
+      await page.getByLabel('Dataset').selectOption({ label: 'Port Alder harbour line — Marsh Wren and Coldharbour (400 × 16, CSV)' });
+      const arraySelect = page.getByLabel('Array', { exact: true });
+      const options = await arraySelect.locator('option').allTextContents();
+      expect(options.map((o) => o.replace(/ —.*$/, ''))).toEqual(['Port Alder hydrophone line r3', 'Port Alder hydrophone line r2', 'Port Alder hydrophone line r1']);
+      expect(options[1]).toContain('has disabled elements');
+      // The default is the newest revision without disabled elements.
+      await expect(arraySelect.inputValue()).resolves.toMatch(/:3$/);
+      const r1 = options[2];
+      await arraySelect.selectOption({ label: r1 });
+      await page.getByRole('button', { name: 'Estimate bearings' }).click();
+      await page.waitForURL(/\/estimates\/\d+$/);
+      await page.getByRole('table', { name: 'Bearings by method' }).waitFor({ timeout: 60_000 });
+      await expect(page.locator('#main').textContent()).resolves.toContain('Port Alder hydrophone line r1');
+      await shot(page, 'estimates-07-pinned-revision');
+    } finally {
+      await context.close();
+    }
+  });
+
   it('a viewer reads runs but has no upload or run form', async () => {
     const { context, page } = await open();
     try {

@@ -16,7 +16,7 @@ export default async function EstimatesPage({ searchParams }: { searchParams: Pr
   const { user, allowed, message } = await requirePagePermission('datasets.read');
   if (!allowed) return <Refusal message={message} />;
   const canRun = can(user.role, 'estimates.run');
-  const [datasets, arrays, runs] = await Promise.all([listDatasets({ caller: user }), can(user.role, 'arrays.read') ? listArrayChoices({ caller: user }) : [], listEstimateRuns({ caller: user })]);
+  const [datasets, arrays, runs] = await Promise.all([listDatasets({ caller: user }), can(user.role, 'arrays.read') ? listArrayChoices({ caller: user, allRevisions: true }) : [], listEstimateRuns({ caller: user })]);
   const requested = Number(typeof sp.dataset === 'string' ? sp.dataset : NaN);
   return (
     <>
