@@ -18,21 +18,14 @@ import os from 'node:os';
 import path from 'node:path';
 import { once } from 'node:events';
 import { parseSnapshotFile, sha256File } from '../lib/datasets';
+import { SeededRandom } from '../lib/doa/simulate';
 
 const MB = 1e6;
 
 async function writeCsv(file: string, targetBytes: number, elements: number): Promise<{ rows: number; bytes: number }> {
   const out = createWriteStream(file);
-  let seed = 12345;
-  const rand = () => {
-    // xorshift32 → uniform in [−1, 1)
-    seed ^= seed << 13;
-    seed >>>= 0;
-    seed ^= seed >>> 17;
-    seed ^= seed << 5;
-    seed >>>= 0;
-    return seed / 2 ** 31 - 1;
-  };
+  const random = new SeededRandom(12345);
+  const rand = () => 2 * random.next() - 1; // uniform in (−1, 1)
   out.write(Array.from({ length: elements }, (_, m) => `element${m}`).join(',') + '\n');
   let bytes = 0;
   let rows = 0;

@@ -15,6 +15,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { Readable } from 'node:stream';
 import Module from 'node:module';
+import { SeededRandom } from '../lib/doa/simulate';
 
 // `server-only` throws outside Next's server build; here the route runs in plain Node.
 const resolver = Module as unknown as { _resolveFilename: (request: string, ...rest: unknown[]) => string };
@@ -30,15 +31,10 @@ process.env.STEERWISE_DB = path.join(dir, 'bench.sqlite');
 process.env.NEXTAUTH_SECRET = 'bench';
 process.env.STEERWISE_MAX_UPLOAD_BYTES = String(1024 * 1024 * 1024);
 
+/** Uniform on (−1, 1) from the engine's seeded generator. */
 function rng(seed: number) {
-  return () => {
-    seed ^= seed << 13;
-    seed >>>= 0;
-    seed ^= seed >>> 17;
-    seed ^= seed << 5;
-    seed >>>= 0;
-    return seed / 2 ** 31 - 1;
-  };
+  const random = new SeededRandom(seed);
+  return () => 2 * random.next() - 1;
 }
 
 async function main() {

@@ -13,6 +13,7 @@
  */
 import { estimateBearings, type ComplexMatrix } from '@/lib/doa';
 import { DOA_METHODS, type DoaMethod } from '@/lib/doa/methods';
+import type { RunOptions } from '@/lib/jobs/estimate-run';
 
 /** Largest bearing difference (degrees) still called "reproduced". */
 export const REPRODUCE_TOLERANCE_DEG = 1e-9;
@@ -22,15 +23,8 @@ export interface StoredMethodResult {
   bearingsDeg: number[];
 }
 
-export interface RerunOptions {
-  methods: DoaMethod[];
-  sourceCount?: number;
-  sourceCountRule?: 'mdl' | 'aic';
-  forwardBackward?: boolean;
-  smoothingSubarray?: number;
-  singleSnapshot?: boolean;
-  singleSnapshotSubarray?: number;
-}
+/** A stored run's covariance and source-count options (as lib/jobs runs them) plus its methods. */
+export type RerunOptions = Omit<RunOptions, 'includeSpectrum'> & { methods: DoaMethod[] };
 
 export interface MethodComparison {
   method: DoaMethod;

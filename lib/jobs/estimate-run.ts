@@ -35,6 +35,7 @@ import {
   type ComplexMatrix,
   type DoaMethod,
   type EstimateBearingsResult,
+  type PairResolvability,
 } from '../doa';
 
 export interface RunOptions {
@@ -56,15 +57,8 @@ export interface Uncertainty {
   basis: string;
 }
 
-export interface PairFlag {
-  i: number;
-  j: number;
-  separationDeg: number;
-  separationU: number;
-  rayleighGapU: number;
-  belowResolvableGap: boolean;
-  verdict: 'resolvable' | 'needs-high-resolution' | 'unresolvable';
-}
+/** The part of the engine's pair verdict a run stores. */
+export type PairFlag = Pick<PairResolvability, 'i' | 'j' | 'separationDeg' | 'separationU' | 'rayleighGapU' | 'belowResolvableGap' | 'verdict'>;
 
 export interface MethodResult {
   method: DoaMethod;
