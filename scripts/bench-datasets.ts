@@ -18,7 +18,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { once } from 'node:events';
 import { parseSnapshotFile, sha256File } from '../lib/datasets';
-import { SeededRandom } from '../lib/doa/simulate';
+import { SeededRandom } from '../lib/doa/sim/simulate';
 
 const MB = 1e6;
 

@@ -15,7 +15,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { Readable } from 'node:stream';
 import Module from 'node:module';
-import { SeededRandom } from '../lib/doa/simulate';
+import { SeededRandom } from '../lib/doa/sim/simulate';
 
 // `server-only` throws outside Next's server build; here the route runs in plain Node.
 const resolver = Module as unknown as { _resolveFilename: (request: string, ...rest: unknown[]) => string };
@@ -39,10 +39,10 @@ function rng(seed: number) {
 
 async function main() {
   const { getDb } = await import('../lib/db');
-  const { migrateUp } = await import('../lib/migrate');
+  const { migrateUp } = await import('../lib/db/migrate');
   const { seedDemo } = await import('../lib/demo/seed');
   const { ApiToken, User } = await import('../models');
-  const { sha256Hex } = await import('../lib/secrets');
+  const { sha256Hex } = await import('../lib/auth/secrets');
   const db = await getDb();
   await migrateUp(db);
   await seedDemo(db);

@@ -19,13 +19,13 @@
 import { spawnSync } from 'node:child_process';
 import path from 'node:path';
 import { sampleCovariance } from '../lib/doa/covariance';
-import { hermitianEigen } from '../lib/doa/hermitian-eigen';
-import { espritLsElectricalAngles, signalSubspace } from '../lib/doa/esprit';
+import { hermitianEigen } from '../lib/doa/linalg/hermitian-eigen';
+import { espritLsElectricalAngles, signalSubspace } from '../lib/doa/methods/esprit';
 import { bearingsFromElectricalAngles } from '../lib/doa/angles';
-import { musicSpectrumValues } from '../lib/doa/music';
-import { DEFAULT_GRID, gridAngles } from '../lib/doa/spectrum';
-import { simulateSnapshots } from '../lib/doa/simulate';
-import { ComplexMatrix } from '../lib/doa/complex';
+import { musicSpectrumValues } from '../lib/doa/methods/music';
+import { DEFAULT_GRID, gridAngles } from '../lib/doa/methods/spectrum';
+import { simulateSnapshots } from '../lib/doa/sim/simulate';
+import { ComplexMatrix } from '../lib/doa/linalg/complex';
 
 const json = process.argv.includes('--json');
 const skipNumpy = process.argv.includes('--no-numpy');

@@ -1,7 +1,7 @@
 /* Applies pending migrations to the database at STEERWISE_DB (default data/steerwise.sqlite). */
-import { applyPragmas, createSequelize } from '@/lib/db-core';
+import { applyPragmas, createSequelize } from '@/lib/db/open';
 import { dbPath } from '@/lib/env';
-import { migrateUp } from '@/lib/migrate';
+import { migrateUp } from '@/lib/db/migrate';
 
 async function main() {
   const file = dbPath();

@@ -1,5 +1,5 @@
 /* Seeds the invented demo scenario into STEERWISE_DB. Idempotent. Run after scripts/migrate.ts. */
-import { applyPragmas, createSequelize } from '@/lib/db-core';
+import { applyPragmas, createSequelize } from '@/lib/db/open';
 import { dbPath } from '@/lib/env';
 import { DEMO_PASSWORD, seedDemo } from '@/lib/demo/seed';
 

@@ -4,10 +4,10 @@
  * Only the token's SHA-256 is stored. Errors go to stderr with exit code 1.
  */
 import { parseArgs } from 'node:util';
-import { applyPragmas, createSequelize } from '@/lib/db-core';
+import { applyPragmas, createSequelize } from '@/lib/db/open';
 import { dbPath } from '@/lib/env';
 import { AuditEvent, ApiToken, User, initModels } from '@/models';
-import { randomSecret, sha256Hex } from '@/lib/secrets';
+import { randomSecret, sha256Hex } from '@/lib/auth/secrets';
 
 async function main() {
   const { values } = parseArgs({ options: { email: { type: 'string' }, name: { type: 'string' } } });

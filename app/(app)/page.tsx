@@ -4,7 +4,7 @@ import { Card } from '@/components/ui/card';
 import { Badge, roleTone } from '@/components/ui/badge';
 import { requireUser } from '@/lib/auth';
 import { getTeam, listMembers } from '@/lib/data/team';
-import { can } from '@/lib/permissions';
+import { can } from '@/lib/auth/permissions';
 
 export const metadata = { title: 'Overview' };
 

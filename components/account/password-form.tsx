@@ -2,7 +2,7 @@
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage } from '@/components/ui/field';
-import { apiSend, ClientApiError } from '@/lib/fetcher';
+import { apiSend, ClientApiError } from '@/lib/client/fetcher';
 
 export function PasswordForm() {
   const [fields, setFields] = useState<Record<string, string[]>>({});

@@ -3,7 +3,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage } from '@/components/ui/field';
-import { apiSend, ClientApiError } from '@/lib/fetcher';
+import { apiSend, ClientApiError } from '@/lib/client/fetcher';
 
 export function ProfileForm({ name, email }: { name: string; email: string }) {
   const router = useRouter();

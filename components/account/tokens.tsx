@@ -3,9 +3,9 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { Badge } from '@/components/ui/badge';
 import { Field, FormMessage } from '@/components/ui/field';
-import { apiSend, ClientApiError } from '@/lib/fetcher';
-import { useApi } from '@/lib/hooks/use-api';
-import type { TokenDto } from '@/lib/dto';
+import { apiSend, ClientApiError } from '@/lib/client/fetcher';
+import { useApi } from '@/lib/client/use-api';
+import type { TokenDto } from '@/lib/data/dto';
 
 export function Tokens({ initial }: { initial: TokenDto[] }) {
   const { data, mutate } = useApi<{ items: TokenDto[] }>('/api/account/tokens', { items: initial });

@@ -1,7 +1,7 @@
 'use client';
 import type { ColumnDef } from '@tanstack/react-table';
 import { DataTable } from '@/components/ui/data-table';
-import type { AuditDto } from '@/lib/dto';
+import type { AuditDto } from '@/lib/data/dto';
 
 const columns: ColumnDef<AuditDto, unknown>[] = [
   { accessorKey: 'createdAt', header: 'When (UTC)', cell: ({ row }) => <span className="whitespace-nowrap text-ink-600 tabular">{row.original.createdAt.replace('T', ' ').slice(0, 19)}</span> },

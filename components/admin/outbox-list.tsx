@@ -1,7 +1,7 @@
 'use client';
 import { useState } from 'react';
-import type { OutboxDto } from '@/lib/dto';
-import { cn } from '@/lib/cn';
+import type { OutboxDto } from '@/lib/data/dto';
+import { cn } from '@/lib/client/cn';
 import { inputClass } from '@/components/ui/field';
 
 /** Captured messages on the left, the selected one on the right; links in the text are clickable. */

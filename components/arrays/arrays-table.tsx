@@ -2,7 +2,7 @@
 import Link from 'next/link';
 import type { ColumnDef } from '@tanstack/react-table';
 import { DataTable } from '@/components/ui/data-table';
-import { useApi } from '@/lib/hooks/use-api';
+import { useApi } from '@/lib/client/use-api';
 import type { ArrayDto } from '@/lib/data/arrays';
 import { formatFrequency, formatSpacingInput, formatWhen } from './format';
 

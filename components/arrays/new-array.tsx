@@ -2,7 +2,7 @@
 import { useState } from 'react';
 import { useRouter } from 'next/navigation';
 import { Designer } from '@/components/designer/designer';
-import { apiSend } from '@/lib/fetcher';
+import { apiSend } from '@/lib/client/fetcher';
 import type { ArrayDto } from '@/lib/data/arrays';
 import type { ArrayInput } from '@/lib/validations/array';
 import { saveErrors } from './save-errors';

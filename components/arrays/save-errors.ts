@@ -1,5 +1,5 @@
 'use client';
-import { ClientApiError } from '@/lib/fetcher';
+import { ClientApiError } from '@/lib/client/fetcher';
 
 /**
  * Turns a failed save into the designer's `serverErrors`: the API's 422

@@ -2,7 +2,7 @@
 import { useState } from 'react';
 import { useRouter } from 'next/navigation';
 import { Button } from '@/components/ui/button';
-import { apiSend } from '@/lib/fetcher';
+import { apiSend } from '@/lib/client/fetcher';
 
 export function DeleteDatasetButton({ id, name }: { id: number; name: string }) {
   const router = useRouter();

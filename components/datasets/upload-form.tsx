@@ -4,7 +4,7 @@ import { useRouter } from 'next/navigation';
 import { getCsrfToken } from 'next-auth/react';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage, inputClass } from '@/components/ui/field';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export type ArrayOption = { id: number; name: string; revision: number; elements: number; spacingWavelengths: number; disabledElements: number[] };
 

@@ -27,7 +27,7 @@ import type Konva from 'konva';
 import type { DesignerAction, DesignerDraft } from '@/lib/designer/state';
 import { MIN_DRAG_SPACING_WAVELENGTHS, MAX_DRAG_SPACING_WAVELENGTHS } from '@/lib/designer/state';
 import { MAX_ELEMENTS, MIN_ELEMENTS } from '@/lib/validations/array';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export interface ArrayCanvasProps {
   draft: DesignerDraft;

@@ -12,7 +12,7 @@ import type { DesignFigures, PatternData } from '@/lib/designer/analysis';
 import { fileSlug, patternCsv } from '@/lib/designer/export';
 import { ExportMenu } from './export-menu';
 import { CHART_FONT, CHART_INK } from './chart-style';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export interface BeamPatternChartProps {
   draft: DesignerDraft;

@@ -13,7 +13,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { arrayInputSchema, MAX_ELEMENTS, MIN_ELEMENTS, type ArrayInput, type ArrayInputRaw, type ResolvedGeometry } from '@/lib/validations/array';
 import { normalizeDraft, type DesignerAction, type DesignerDraft } from '@/lib/designer/state';
 import { MediumPanel, NumberField } from './medium-panel';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export interface DesignerFormProps {
   draft: DesignerDraft;

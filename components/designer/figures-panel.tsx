@@ -6,7 +6,7 @@
  * and its raw number is kept in data-value for tests.
  */
 import type { DesignFigures } from '@/lib/designer/analysis';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export interface FiguresPanelProps {
   figures: DesignFigures;

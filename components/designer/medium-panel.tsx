@@ -8,7 +8,7 @@
 import { useFormContext, useWatch } from 'react-hook-form';
 import type { ArrayInputRaw, MediumInput } from '@/lib/validations/array';
 import type { ResolvedGeometry } from '@/lib/validations/array';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 import { FieldError } from '@/components/ui/field';
 
 export interface MediumPanelProps {

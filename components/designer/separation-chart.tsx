@@ -14,7 +14,7 @@ import { columnsCsv, fileSlug } from '@/lib/designer/export';
 import { spreadLabels } from '@/lib/designer/label-layout';
 import { ExportMenu } from './export-menu';
 import { CHART_FONT, CHART_INK } from './chart-style';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export interface SeparationChartProps {
   draft: DesignerDraft;

@@ -5,7 +5,7 @@ import { Button } from '@/components/ui/button';
 import { FormMessage, inputClass } from '@/components/ui/field';
 import { apiSendWithHeaders } from './send';
 import { METHOD_LABELS } from './labels';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export type ArrayOption = { id: number; name: string; revision: number; elements: number; spacingWavelengths: number; disabledElements: number[] };
 export type DatasetOption = { id: number; name: string; elements: number; snapshots: number; format: string };

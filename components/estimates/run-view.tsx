@@ -2,7 +2,7 @@
 import useSWR from 'swr';
 import { useState } from 'react';
 import { useRouter } from 'next/navigation';
-import { fetcher } from '@/lib/fetcher';
+import { fetcher } from '@/lib/client/fetcher';
 import { Card, CardHeader } from '@/components/ui/card';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
@@ -12,7 +12,7 @@ import { SpectrumChart } from './spectrum-chart';
 import { METHOD_LABELS } from './labels';
 import { apiSendWithHeaders } from './send';
 import { WARNING_ADVICE } from './advice';
-import { downloadText } from '@/lib/download';
+import { downloadText } from '@/lib/client/download';
 
 type MethodResult = {
   method: string;

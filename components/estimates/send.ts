@@ -1,6 +1,6 @@
 'use client';
 import { getCsrfToken } from 'next-auth/react';
-import { ClientApiError } from '@/lib/fetcher';
+import { ClientApiError } from '@/lib/client/fetcher';
 
 /** A JSON write with extra headers (e.g. Prefer: respond-async) and the CSRF header. */
 export async function apiSendWithHeaders<T>(method: 'POST' | 'DELETE', url: string, body: unknown, headers: Record<string, string> = {}): Promise<T> {

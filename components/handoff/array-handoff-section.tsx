@@ -1,7 +1,7 @@
 import { Op } from 'sequelize';
 import { ArrayDesign, ArrayRevision, Dataset, EstimateRun } from '@/models';
 import type { Caller } from '@/lib/auth';
-import { can } from '@/lib/permissions';
+import { can } from '@/lib/auth/permissions';
 import { listReviews } from '@/lib/data/reviews';
 import { mayExportDatasets } from '@/lib/handoff/export';
 import { storedResults } from '@/lib/handoff/runs';

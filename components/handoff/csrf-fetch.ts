@@ -1,6 +1,6 @@
 'use client';
 import { getCsrfToken } from 'next-auth/react';
-import { ClientApiError } from '@/lib/fetcher';
+import { ClientApiError } from '@/lib/client/fetcher';
 
 /** A cookie-authenticated write with the CSRF header (JSON or multipart); throws ClientApiError with the server's message. */
 export async function sendWithCsrf<T>(url: string, init: { method: 'POST'; json?: unknown; form?: FormData }): Promise<T> {

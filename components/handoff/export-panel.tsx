@@ -3,7 +3,7 @@ import { useMemo, useState } from 'react';
 import { buttonClass, Button } from '@/components/ui/button';
 import { Card, CardHeader } from '@/components/ui/card';
 import { Field, FormMessage, inputClass } from '@/components/ui/field';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 import { sendWithCsrf } from './csrf-fetch';
 
 export type RunChoice = { id: number; label: string; datasetName: string | null };

@@ -4,7 +4,7 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Card, CardHeader } from '@/components/ui/card';
 import { FormMessage, inputClass } from '@/components/ui/field';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 import type { ReviewThreadDto } from '@/lib/data/reviews';
 import { sendWithCsrf } from '@/components/handoff/csrf-fetch';
 

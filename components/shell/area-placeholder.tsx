@@ -2,7 +2,7 @@ import { EmptyState } from '@/components/ui/empty-state';
 import { PageHeader } from '@/components/ui/page-header';
 import { Refusal } from '@/components/ui/refusal';
 import { requirePagePermission } from '@/lib/auth';
-import { can, refusalMessage, type Permission } from '@/lib/permissions';
+import { can, refusalMessage, type Permission } from '@/lib/auth/permissions';
 
 /** An area that a later feature fills: says what will live here and what the signed-in role will be able to do. */
 export async function AreaPlaceholder({

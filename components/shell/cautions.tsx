@@ -1,5 +1,5 @@
 /**
- * The standing cautions (REFERENCES §11): estimates are advisory, export
+ * The standing cautions (docs/references.md §11): estimates are advisory, export
  * controls, active sonar and marine life. Short by design; shown on every
  * signed-in page.
  */

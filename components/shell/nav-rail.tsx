@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { usePathname } from 'next/navigation';
 import { useState } from 'react';
 import { signOut } from 'next-auth/react';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export type NavItem = { href: string; label: string; hint: string; adminOnly?: boolean };
 

@@ -3,8 +3,8 @@ import { useState } from 'react';
 import { useRouter } from 'next/navigation';
 import { Field, FormMessage, inputClass } from '@/components/ui/field';
 import { Button } from '@/components/ui/button';
-import { apiSend, ClientApiError } from '@/lib/fetcher';
-import { cn } from '@/lib/cn';
+import { apiSend, ClientApiError } from '@/lib/client/fetcher';
+import { cn } from '@/lib/client/cn';
 import { METHOD_LABELS, VARIABLE_LABELS } from './labels';
 
 export type ArrayChoice = { id: number; name: string; revision: number; elements: number; spacingWavelengths: number; disabledElements: number[] };

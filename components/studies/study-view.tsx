@@ -7,11 +7,11 @@ import { Button } from '@/components/ui/button';
 import { DataTable } from '@/components/ui/data-table';
 import { FormMessage } from '@/components/ui/field';
 import useSWR from 'swr';
-import { apiSend, ClientApiError, fetcher } from '@/lib/fetcher';
+import { apiSend, ClientApiError, fetcher } from '@/lib/client/fetcher';
 import type { StudyDto } from '@/lib/data/studies';
 import { METHOD_LABELS, VARIABLE_LABELS } from './labels';
 import { ResolutionChart, RmseChart } from './study-charts';
-import { downloadText } from '@/lib/download';
+import { downloadText } from '@/lib/client/download';
 
 type Row = {
   value: number;

@@ -4,9 +4,9 @@ import { useState } from 'react';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage, inputClass } from '@/components/ui/field';
-import { apiSend, ClientApiError } from '@/lib/fetcher';
-import type { InvitationDto } from '@/lib/dto';
-import { cn } from '@/lib/cn';
+import { apiSend, ClientApiError } from '@/lib/client/fetcher';
+import type { InvitationDto } from '@/lib/data/dto';
+import { cn } from '@/lib/client/cn';
 
 const tone = { pending: 'teal', accepted: 'ink', expired: 'amber', revoked: 'coral' } as const;
 

@@ -6,8 +6,8 @@ import { DataTable } from '@/components/ui/data-table';
 import { Badge, roleTone } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { FormMessage } from '@/components/ui/field';
-import { apiSend } from '@/lib/fetcher';
-import type { MemberDto } from '@/lib/dto';
+import { apiSend } from '@/lib/client/fetcher';
+import type { MemberDto } from '@/lib/data/dto';
 
 const roleOptions = ['admin', 'engineer', 'reviewer', 'viewer'] as const;
 

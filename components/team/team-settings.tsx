@@ -1,8 +1,8 @@
 'use client';
 import { useState } from 'react';
-import { apiSend } from '@/lib/fetcher';
+import { apiSend } from '@/lib/client/fetcher';
 import { FormMessage } from '@/components/ui/field';
-import type { TeamDto } from '@/lib/dto';
+import type { TeamDto } from '@/lib/data/dto';
 
 export function TeamSettingsForm({ team }: { team: TeamDto }) {
   const [value, setValue] = useState(team.settings.allowViewerDatasetExport);

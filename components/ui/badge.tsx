@@ -1,4 +1,4 @@
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 const tones = {
   teal: 'bg-glass-50 text-glass-800 ring-glass-200',

@@ -1,4 +1,4 @@
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 type Variant = 'primary' | 'secondary' | 'danger' | 'ghost';
 

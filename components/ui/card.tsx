@@ -1,4 +1,4 @@
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export function Card({ className, children, ...rest }: React.HTMLAttributes<HTMLElement>) {
   return (

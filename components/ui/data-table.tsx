@@ -10,7 +10,7 @@ import {
   type SortingState,
 } from '@tanstack/react-table';
 import { inputClass } from './field';
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 /** A sortable, filterable table (TanStack Table). Headers are buttons so sorting works from the keyboard. */
 export function DataTable<T>({

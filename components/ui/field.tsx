@@ -1,4 +1,4 @@
-import { cn } from '@/lib/cn';
+import { cn } from '@/lib/client/cn';
 
 export const inputClass =
   'block w-full rounded-md border border-ink-200 bg-white px-3 py-2 text-sm text-ink-900 shadow-xs placeholder:text-ink-300 focus:border-glass-500 focus:outline-2 focus:outline-glass-500/30 aria-[invalid=true]:border-coral-500 disabled:cursor-not-allowed disabled:bg-ink-50';

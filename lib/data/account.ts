@@ -1,12 +1,12 @@
 import 'server-only';
 import { ApiToken, User } from '@/models';
-import { ApiError } from '../api';
-import { recordAudit } from '../audit';
+import { ApiError } from '../http';
+import { recordAudit } from './record-audit';
 import type { Caller } from '../auth';
 import { getDb } from '../db';
-import { toMemberDto, toTokenDto, type MemberDto, type TokenDto } from '../dto';
-import { hashPassword, verifyPassword } from '../passwords';
-import { randomSecret, sha256Hex } from '../secrets';
+import { toMemberDto, toTokenDto, type MemberDto, type TokenDto } from './dto';
+import { hashPassword, verifyPassword } from '../auth/passwords';
+import { randomSecret, sha256Hex } from '../auth/secrets';
 import type { PasswordChangeInput, ProfileInput, TokenCreateInput } from '../validations/account';
 
 async function loadSelf(caller: Caller): Promise<User> {

@@ -1,12 +1,12 @@
 import 'server-only';
 import { Op, Transaction, UniqueConstraintError, col, where, type IncludeOptions } from 'sequelize';
 import { ArrayDesign, ArrayRevision, User } from '@/models';
-import { arrayMetrics, type ArrayMetrics } from '@/lib/doa/array-figures';
+import { arrayMetrics, type ArrayMetrics } from '@/lib/doa/design/array-figures';
 import { resolveArrayGeometry, type ArrayInput, type GeometryWarning } from '@/lib/validations/array';
 import { mergeArrayInput, requireObjectBody, revisionColumns, validateArrayInput } from '@/lib/validations/array-save';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
-import { recordAudit } from '../audit';
+import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 
 /**
@@ -18,14 +18,14 @@ import { getDb } from '../db';
  * and the propagation speed actually used). Saving never changes an old
  * revision: `updateArray` adds revision n + 1 in one transaction.
  *
- * `metrics` are CONVENTIONS §5's figures for the uniform array at broadside
+ * `metrics` are docs/conventions.md §5's figures for the uniform array at broadside
  * (lib/doa `arrayMetrics`), whatever the taper or disabled elements.
  */
 
 export type PersonDto = { id: number; name: string } | null;
 export type RevisionSummaryDto = { revision: number; author: PersonDto; createdAt: string; elements: number; spacingWavelengths: number };
 
-/** The array as GET /api/v1/arrays/{id} answers (CONVENTIONS §7) plus extra fields. */
+/** The array as GET /api/v1/arrays/{id} answers (docs/conventions.md §7) plus extra fields. */
 export type ArrayDto = {
   id: number;
   name: string;

@@ -2,7 +2,7 @@ import 'server-only';
 import { AuditEvent, User } from '@/models';
 import { assertPermission, type Caller } from '../auth';
 import { getDb } from '../db';
-import { toAuditDto, type AuditDto } from '../dto';
+import { toAuditDto, type AuditDto } from './dto';
 
 export async function listAuditEvents({ caller, limit = 500 }: { caller: Caller; limit?: number }): Promise<AuditDto[]> {
   assertPermission(caller, 'audit.read');

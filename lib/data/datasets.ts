@@ -3,9 +3,9 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { ArrayDesign, ArrayRevision, Dataset, User } from '@/models';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
-import { recordAudit } from '../audit';
+import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { DatasetError, detectFormat, parseSnapshotFile, type ParsedSnapshots, type ParseOptions, type SnapshotFormat } from '../datasets';
 import { summarise, type DatasetSummary } from '../storage/summary';
@@ -56,7 +56,7 @@ function toDto(d: Dataset, uploader: User | null, withSummary: boolean): Dataset
   };
 }
 
-/** The created answer of POST /api/v1/datasets (CONVENTIONS §7). */
+/** The created answer of POST /api/v1/datasets (docs/conventions.md §7). */
 export function createdBody(d: DatasetDto) {
   return { id: d.id, name: d.name, format: d.format, elements: d.elements, snapshots: d.snapshots, sha256: d.sha256 };
 }

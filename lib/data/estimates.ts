@@ -1,9 +1,9 @@
 import 'server-only';
 import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, User } from '@/models';
 import packageJson from '@/package.json';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
-import { recordAudit } from '../audit';
+import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { DatasetError, sha256File } from '../datasets';
 import { bounds, defaultSingleSnapshotSubarray, DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
@@ -97,7 +97,7 @@ function disabledElements(revision: ArrayRevision): number[] {
 
 /**
  * The effective element count L for the options, with the same rules the
- * engine applies (CONVENTIONS §2), so that a bad size is refused with 422
+ * engine applies (docs/conventions.md §2), so that a bad size is refused with 422
  * before anything is stored.
  */
 function checkSizes(m: number, options: RunOptions, snapshots: number): void {

@@ -10,13 +10,13 @@ import 'server-only';
  */
 import { Op } from 'sequelize';
 import { ArrayDesign, AuditEvent, AuthLink, Handoff, Team, User } from '@/models';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
-import { recordAudit } from '../audit';
+import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { appUrl, authSecret } from '../env';
 import { sendMail } from '../mail/send';
-import { randomSecret, sha256Hex } from '../secrets';
+import { randomSecret, sha256Hex } from '../auth/secrets';
 import { buildArrayBundle } from '../handoff/export';
 import { createSignedToken, verifySignedToken, SignedLinkError } from '../handoff/signed-link';
 import type { HandoffSendInput } from '../handoff/validation';

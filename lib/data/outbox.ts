@@ -1,9 +1,9 @@
 import 'server-only';
 import { OutboxMessage } from '@/models';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { getDb } from '../db';
-import { toOutboxDto, type OutboxDto } from '../dto';
+import { toOutboxDto, type OutboxDto } from './dto';
 
 /**
  * The local sink's captured mail. It is one mailbox for the whole

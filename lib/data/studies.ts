@@ -1,9 +1,9 @@
 import 'server-only';
 import { Study, User } from '@/models';
 import packageJson from '@/package.json';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
-import { recordAudit } from '../audit';
+import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
 import { StudyAbortedError, StudyBudgetError, StudyInputError, runStudy, validateStudySpec, type StudyResult, type StudySpec } from '../studies/monte-carlo';

@@ -1,10 +1,10 @@
 import 'server-only';
 import { Team, User } from '@/models';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
-import { recordAudit } from '../audit';
+import { recordAudit } from './record-audit';
 import { getDb } from '../db';
-import { toMemberDto, toTeamDto, type MemberDto, type TeamDto } from '../dto';
+import { toMemberDto, toTeamDto, type MemberDto, type TeamDto } from './dto';
 import type { TeamSettingsInput } from '../validations/team';
 import type { Role } from '@/models/user';
 

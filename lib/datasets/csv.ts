@@ -1,5 +1,5 @@
 /**
- * CSV / text snapshot reader (CONVENTIONS §6).
+ * CSV / text snapshot reader (docs/conventions.md §6).
  *
  * One snapshot per line, one element per comma-separated field. Fields are
  * read by number-scanner.ts (real, a+bi, a-bj, bi, (a+bj), bare unit = 1).

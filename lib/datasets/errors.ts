@@ -1,7 +1,7 @@
 /**
  * The one error type of the snapshot-file readers.
  *
- * `status` follows CONVENTIONS §7:
+ * `status` follows docs/conventions.md §7:
  * - 413: the file is larger than the configured limit;
  * - 415: the format, or an encoding inside a known format (an NPY dtype, a WAV
  *   sample format, an HDF5 datatype), is one these readers do not take;
@@ -13,7 +13,7 @@
  *
  * `code` is stable (tests and the web layer match on it); `message` is for people
  * and names what is wrong and where. Rows and columns in `location` are 1-based
- * and count physical file lines (CONVENTIONS §6).
+ * and count physical file lines (docs/conventions.md §6).
  */
 export type DatasetErrorStatus = 413 | 415 | 422 | 500;
 

@@ -1,5 +1,5 @@
 /**
- * HDF5 snapshot reader (CONVENTIONS §6) on h5wasm (the HDF5 C library compiled
+ * HDF5 snapshot reader (docs/conventions.md §6) on h5wasm (the HDF5 C library compiled
  * to WebAssembly; its Node build reads the host file system directly).
  *
  * Dataset choice: the named `datasetPath`; without one, the only dataset of

@@ -1,5 +1,5 @@
 /**
- * Snapshot-file readers (CONVENTIONS §6) behind one entry point.
+ * Snapshot-file readers (docs/conventions.md §6) behind one entry point.
  *
  * `parseSnapshotFile` reads a stored upload and returns N snapshots of M
  * elements in row-major split re/im layout, one snapshot per row exactly as
@@ -13,7 +13,7 @@
  * No React, Next or database imports: Node built-ins and the parsing
  * packages only.
  */
-import type { ComplexMatrix } from '../doa/complex';
+import type { ComplexMatrix } from '../doa/linalg/complex';
 import { parseCsvFile } from './csv';
 import { DatasetError, invalid, quoteText } from './errors';
 import { parseHdf5File } from './hdf5';
@@ -87,7 +87,7 @@ export async function parseSnapshotFile(options: ParseOptions): Promise<ParsedSn
 
 /**
  * The engine's layout of the same data: an M × N ComplexMatrix (elements ×
- * snapshots, row-major split re/im, CONVENTIONS §2). Copies; the input is not changed.
+ * snapshots, row-major split re/im, docs/conventions.md §2). Copies; the input is not changed.
  */
 export function toComplexMatrix(parsed: Pick<ParsedSnapshots, 'elements' | 'snapshots' | 're' | 'im'>): ComplexMatrix {
   const M = parsed.elements;

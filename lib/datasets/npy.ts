@@ -1,5 +1,5 @@
 /**
- * NPY snapshot reader (CONVENTIONS §6), written from the published NPY format
+ * NPY snapshot reader (docs/conventions.md §6), written from the published NPY format
  * description (numpy.lib.format): magic '\x93NUMPY', major and minor version
  * bytes, a little-endian header length (uint16 for version 1, uint32 for 2 and
  * 3), then a Python dict literal with 'descr', 'fortran_order' and 'shape'.

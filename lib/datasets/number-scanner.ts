@@ -1,5 +1,5 @@
 /**
- * Scanner for one CSV field holding a real or complex number (CONVENTIONS §6).
+ * Scanner for one CSV field holding a real or complex number (docs/conventions.md §6).
  *
  * Accepted spellings (spaces and tabs around the field, and just inside
  * parentheses, are ignored):

@@ -1,6 +1,6 @@
 /**
  * Narrowband snapshots from multichannel samples by a short-time Fourier
- * transform at one frequency (CONVENTIONS §6).
+ * transform at one frequency (docs/conventions.md §6).
  *
  * With L the FFT length, fs the sample rate and f the analysis frequency:
  *   bin k = round(f·L/fs)   (Math.round: halves round up);

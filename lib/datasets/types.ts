@@ -3,7 +3,7 @@
  *
  * Layout of a parsed file: `re` and `im` are Float64Arrays of length N·M in
  * row-major order with one snapshot per row, exactly as the files store them
- * (CONVENTIONS §6): entry (n, m) — snapshot n, element m, both 0-based — is at
+ * (docs/conventions.md §6): entry (n, m) — snapshot n, element m, both 0-based — is at
  * index n·M + m. `toComplexMatrix` turns this into the engine's M × N layout.
  */
 export type SnapshotFormat = 'csv' | 'npy' | 'hdf5' | 'wav';

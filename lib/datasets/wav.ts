@@ -1,5 +1,5 @@
 /**
- * WAV snapshot reader (CONVENTIONS §6): multichannel PCM 16/24/32-bit or
+ * WAV snapshot reader (docs/conventions.md §6): multichannel PCM 16/24/32-bit or
  * 32-bit float, plain or WAVE_FORMAT_EXTENSIBLE header, RIFF (little-endian)
  * or RIFX (big-endian). Channel c is element c. Snapshots come from the
  * narrowband STFT in stft.ts.

@@ -16,7 +16,7 @@
  * - quay-wall multipath: two coherent arrivals that need spatial smoothing
  *   (the estimator warns `coherent-sources-suspected` without it) (CSV).
  */
-import { soundSpeedMackenzie } from '@/lib/doa/medium';
+import { soundSpeedMackenzie } from '@/lib/doa/design/medium';
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Transaction } from 'sequelize';

@@ -1,11 +1,11 @@
 import type { Sequelize } from 'sequelize';
 import { AuditEvent, AuthLink, Team, User, initModels } from '@/models';
 import type { Role } from '@/models/user';
-import { hashPassword } from '../passwords';
+import { hashPassword } from '../auth/passwords';
 import { seedDemoArrays } from './arrays';
 import { seedRecordings } from './recordings';
 import { seedDemoStudy } from './studies';
-import { randomSecret, sha256Hex } from '../secrets';
+import { randomSecret, sha256Hex } from '../auth/secrets';
 
 /**
  * Demo data. Every place, person and vessel here is invented: Kestrel Sound

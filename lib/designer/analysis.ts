@@ -2,10 +2,10 @@
  * What the designer shows, computed from a draft by the engine in lib/doa.
  * No React: the components call these and render the numbers as they come.
  *
- * Angles in degrees from broadside (CONVENTIONS §1), spacing in wavelengths,
+ * Angles in degrees from broadside (docs/conventions.md §1), spacing in wavelengths,
  * u = sin θ, levels in dB relative to the main-lobe peak.
  */
-import { beamPattern, thetaGridDeg, type ElementOptions, type TaperSpec } from '@/lib/doa/beam-pattern';
+import { beamPattern, thetaGridDeg, type ElementOptions, type TaperSpec } from '@/lib/doa/design/beam-pattern';
 import {
   apertureWavelengths,
   arrayMetrics,
@@ -16,7 +16,7 @@ import {
   peakSidelobe,
   rayleighGap,
   type ArrayMetrics,
-} from '@/lib/doa/array-figures';
+} from '@/lib/doa/design/array-figures';
 import { pairResolvability, separationVersusAperture, statisticalResolutionLimit, type PairResolvability, type SeparationChart } from '@/lib/doa/bounds';
 import { MAX_ELEMENTS, resolveArrayGeometry, type ResolvedGeometry } from '@/lib/validations/array';
 import type { DesignerDraft } from './state';
@@ -58,9 +58,9 @@ export interface DesignFigures {
   /** The steering angle itself lies beyond the grating-lobe-free scan. */
   steerExceedsGratingFree: boolean;
   rayleighGapU: number;
-  /** asin(min(1, 1/(M·d))), the broadside value of CONVENTIONS §5. */
+  /** asin(min(1, 1/(M·d))), the broadside value of docs/conventions.md §5. */
   rayleighGapDegAtBroadside: number;
-  /** The v1 API metrics (uniform, broadside, all enabled), CONVENTIONS §5. */
+  /** The v1 API metrics (uniform, broadside, all enabled), docs/conventions.md §5. */
   metrics: ArrayMetrics;
   /** Why the beam figures are missing, when the engine refused them. */
   beamError?: string;
@@ -243,7 +243,7 @@ function snrIncreaseNeeded(draft: DesignerDraft, d: number, centerDeg: number, p
 
 /**
  * Every planned source pair with the engine's verdict (lib/doa/bounds.ts,
- * pairResolvability: the Rayleigh gap test of CONVENTIONS §5 and Smith's
+ * pairResolvability: the Rayleigh gap test of docs/conventions.md §5 and Smith's
  * statistical limit), evaluated for the pair alone with its own SNRs
  * (a source without an SNR uses the draft's), plus plain-language advice.
  * Uses the full uniform array: disabled elements and taper are not modelled here.

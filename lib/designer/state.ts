@@ -2,7 +2,7 @@
  * Pure state of the array designer: a complete array input plus a reducer.
  *
  * The array stays uniform: every geometry action changes the element count or
- * the one spacing d. Element m sits at x_m = m·d (CONVENTIONS §1); element 0 is
+ * the one spacing d. Element m sits at x_m = m·d (docs/conventions.md §1); element 0 is
  * the fixed reference at x = 0, so dragging element m to x sets d = x / m.
  * Per-element state (enabled, gain, phase) travels with its element when one is
  * inserted or removed before it.
@@ -23,7 +23,7 @@ import {
   type SpacingUnit,
   type TaperInput,
 } from '@/lib/validations/array';
-import { propagationSpeed } from '@/lib/doa/medium';
+import { propagationSpeed } from '@/lib/doa/design/medium';
 
 /** An array input with every designer field present. */
 export type DesignerDraft = ArrayInput & {

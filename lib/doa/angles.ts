@@ -1,5 +1,5 @@
 /**
- * Angle conventions (CONVENTIONS §1).
+ * Angle conventions (docs/conventions.md §1).
  *
  * Element m (m = 0 … M−1) sits at x_m = m·d, d in wavelengths. A bearing θ is
  * in degrees from broadside, in [−90, 90], positive toward larger m. Time
@@ -7,7 +7,7 @@
  * electrical angle is μ = 2π·d·sin θ (radians). Every electrical angle maps
  * back as θ = asin(clip(μ / (2π·d), −1, 1)); a clip is reported.
  */
-import { ComplexVector } from './complex';
+import { ComplexVector } from './linalg/complex';
 import { DoaInputError } from './errors';
 
 export const RAD_PER_DEG = Math.PI / 180;

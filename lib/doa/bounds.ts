@@ -1,7 +1,7 @@
 /**
  * Cramér–Rao bounds and resolvability for a uniform linear array.
  *
- * Conventions (CONVENTIONS §1, §5): element m = 0 … M−1 at m·d, d in wavelengths,
+ * Conventions (docs/conventions.md §1, §5): element m = 0 … M−1 at m·d, d in wavelengths,
  * steering a_m(θ) = exp(+j·2π·d·m·sin θ), bearings in degrees from broadside.
  * The bounds are taken with respect to θ in radians; reported standard deviations
  * are converted to degrees and full covariances stay in rad² (K × K, row-major
@@ -18,16 +18,16 @@
  * O(M·K² + K³) and no M × M matrix is formed.
  *
  * Resolvability of a pair (i, j):
- *  - the Rayleigh gap test of CONVENTIONS §5: |sin θi − sin θj| < 1/(M·d);
+ *  - the Rayleigh gap test of docs/conventions.md §5: |sin θi − sin θj| < 1/(M·d);
  *  - a statistical resolution figure by the criterion of Smith (2005), IEEE Trans. SP
  *    53(5):1597–1609: two sources are resolvable when their separation δ = θj − θi
  *    is at least its own standard deviation, δ ≥ √CRB(δ) with
  *    CRB(δ) = C_ii + C_jj − 2·C_ij; the resolution limit is the δ solving δ = √CRB(δ).
- *    The criterion comes from the reference list (REFERENCES §8); the check values
+ *    The criterion comes from the reference list (docs/references.md §8); the check values
  *    in the tests were computed from it, not quoted from the paper.
  */
 import { DoaInputError, DoaNumericalError } from './errors';
-import { zeros, solve, inverse, multiply, type ComplexMatrix } from './complex';
+import { zeros, solve, inverse, multiply, type ComplexMatrix } from './linalg/complex';
 import {
   requireElementCount,
   requireSpacing,
@@ -37,8 +37,8 @@ import {
   requireBearing,
   requireFinite,
   DEG,
-} from './figures-checks';
-import { rayleighGap } from './array-figures';
+} from './design/figures-checks';
+import { rayleighGap } from './design/array-figures';
 
 export type BoundKind = 'stochastic' | 'deterministic';
 
@@ -269,7 +269,7 @@ function crbFromChecked(c: Checked, kind: BoundKind): CrbResult {
   return { stdDeg, covarianceRad2: cov, sources: k };
 }
 
-/** Stochastic CRB (Stoica & Nehorai 1990) for K uncorrelated sources (CONVENTIONS §5). */
+/** Stochastic CRB (Stoica & Nehorai 1990) for K uncorrelated sources (docs/conventions.md §5). */
 export function stochasticCrb(input: BoundsInput): CrbResult {
   return crbFromChecked(checkInput(input), 'stochastic');
 }
@@ -385,7 +385,7 @@ export interface PairResolvability {
   separationU: number;
   /** 1/(M·d). */
   rayleighGapU: number;
-  /** CONVENTIONS §5: separationU < 1/(M·d). */
+  /** docs/conventions.md §5: separationU < 1/(M·d). */
   belowResolvableGap: boolean;
   /** √(C_ii + C_jj − 2C_ij) of the full K-source bound at the given bearings, degrees. */
   separationStdDeg: number;
@@ -482,7 +482,7 @@ export interface SeparationChart {
  * Smith's statistical resolution limit against element count, for two equal
  * uncorrelated sources centred on the look direction.
  * Note: `arrayMetrics().rayleighGapDeg` is the one-sided broadside value
- * asin(1/(M·d)) of CONVENTIONS §5; the chart centres the pair on the look
+ * asin(1/(M·d)) of docs/conventions.md §5; the chart centres the pair on the look
  * direction so both curves and planned pairs share one definition of separation.
  */
 export function separationVersusAperture(input: SeparationChartInput): SeparationChart {
@@ -555,9 +555,9 @@ export interface BoundsAnswer {
 }
 
 /**
- * The answer of POST /api/v1/bounds (CONVENTIONS §7): the stochastic CRB std per
+ * The answer of POST /api/v1/bounds (docs/conventions.md §7): the stochastic CRB std per
  * source in degrees, the Rayleigh gap 1/(M·d) and, for each pair i < j (0-based),
- * |sin θi − sin θj| and the CONVENTIONS §5 gap test.
+ * |sin θi − sin θj| and the docs/conventions.md §5 gap test.
  */
 export function bounds(request: BoundsRequest): BoundsAnswer {
   if (request === null || typeof request !== 'object') throw new DoaInputError('bad-option', 'the request must be an object');

@@ -1,5 +1,5 @@
 /**
- * Sample covariance and the covariance arrangements of CONVENTIONS §2.
+ * Sample covariance and the covariance arrangements of docs/conventions.md §2.
  *
  * Layouts: a snapshot matrix X is M × N (elements × snapshots) as a
  * ComplexMatrix (split re/im, row-major); file-layout "rows" are N × M (one
@@ -15,7 +15,7 @@
  * four complex products per eight loads. The lower triangle is the conjugate,
  * so R is Hermitian by construction, which is exactly (R + Rᴴ)/2.
  */
-import { ComplexMatrix, assertSquare, zeros } from './complex';
+import { ComplexMatrix, assertSquare, zeros } from './linalg/complex';
 import { DoaInputError } from './errors';
 
 export interface CovarianceAccumulatorOptions {
@@ -252,7 +252,7 @@ export function defaultSingleSnapshotSubarray(elements: number): number {
 }
 
 /**
- * Single-snapshot arrangement (CONVENTIONS §2): for each snapshot x, the
+ * Single-snapshot arrangement (docs/conventions.md §2): for each snapshot x, the
  * Hankel matrix H[i,k] = x[i+k] (L × (M−L+1)), H·Hᴴ/(M−L+1), averaged over
  * snapshots. Entry (i, j) of H·Hᴴ/(M−L+1) is the mean over s of x[i+s]·conj(x[j+s]),
  * which is the smoothed x·xᴴ, so this computes spatialSmoothing(sampleCovariance(x), L)

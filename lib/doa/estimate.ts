@@ -4,9 +4,9 @@
  * Input: snapshots as an M × N ComplexMatrix (`snapshots`, one snapshot per
  * column) or in file layout N × M (`rows`, one snapshot per row); split re/im,
  * row-major. The spacing d is in wavelengths; bearings are degrees from
- * broadside (CONVENTIONS §1).
+ * broadside (docs/conventions.md §1).
  *
- * Pipeline (CONVENTIONS §2–4): sample covariance R = X·Xᴴ/N (Hermitian) or
+ * Pipeline (docs/conventions.md §2–4): sample covariance R = X·Xᴴ/N (Hermitian) or
  * the single-snapshot arrangement (L = ⌊M/2⌋+1 unless given; N counts as 1
  * for the source-count rule) → forward spatial smoothing (subarray L) →
  * forward–backward averaging → Hermitian EVD (descending) → source count
@@ -19,7 +19,7 @@
  * Every option is checked on entry; bad input throws DoaInputError with a
  * message naming the option and the value.
  */
-import { ComplexMatrix } from './complex';
+import { ComplexMatrix } from './linalg/complex';
 import {
   CovarianceAccumulator,
   defaultSingleSnapshotSubarray,
@@ -28,13 +28,13 @@ import {
 } from './covariance';
 import { DoaInputError } from './errors';
 import { assertSpacing } from './angles';
-import { hermitianEigen } from './hermitian-eigen';
-import { conditionNumber, MVDR_CONDITION_LIMIT } from './beamformers';
-import { DOA_METHODS, DoaMethod, ESPRIT_METHODS, METHOD_RUNNERS, isDoaMethod, recommendedSmoothingSubarray } from './methods';
-import { SpectrumKind } from './method-types';
-import { musicSpectrumValues } from './music';
-import { SourceCountRule, sourceCountCriteria } from './source-count';
-import { AngleGrid, DEFAULT_GRID, gridAngles, toDecibels, validateGrid } from './spectrum';
+import { hermitianEigen } from './linalg/hermitian-eigen';
+import { conditionNumber, MVDR_CONDITION_LIMIT } from './methods/beamformers';
+import { DOA_METHODS, DoaMethod, ESPRIT_METHODS, METHOD_RUNNERS, isDoaMethod, recommendedSmoothingSubarray } from './methods/registry';
+import { SpectrumKind } from './methods/types';
+import { musicSpectrumValues } from './methods/music';
+import { SourceCountRule, sourceCountCriteria } from './methods/source-count';
+import { AngleGrid, DEFAULT_GRID, gridAngles, toDecibels, validateGrid } from './methods/spectrum';
 import { DoaWarning } from './warnings';
 
 export interface EstimateBearingsOptions {

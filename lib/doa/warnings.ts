@@ -3,7 +3,7 @@
  * (the web layer passes them through unchanged); messages are for people.
  */
 export type DoaWarningCode =
-  /** An electrical angle fell outside ±2π·d and was clipped to ±90° (CONVENTIONS §1). */
+  /** An electrical angle fell outside ±2π·d and was clipped to ±90° (docs/conventions.md §1). */
   | 'angle-clipped'
   /** The source count leaves two or fewer noise dimensions in the effective array. */
   | 'source-count-near-limit'

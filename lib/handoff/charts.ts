@@ -3,7 +3,7 @@
  * separation-versus-aperture chart, drawn as plain SVG text from the numbers
  * lib/designer/analysis.ts computes with lib/doa (no DOM, no React).
  *
- * Angles in degrees from broadside (CONVENTIONS §1); pattern levels in dB
+ * Angles in degrees from broadside (docs/conventions.md §1); pattern levels in dB
  * relative to the main-lobe peak; separations in degrees centred on the look
  * direction (as the designer's chart).
  */

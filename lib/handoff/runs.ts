@@ -12,7 +12,7 @@
  * bearings (degrees from broadside, ascending) are compared element by element.
  */
 import { estimateBearings, type ComplexMatrix } from '@/lib/doa';
-import { DOA_METHODS, type DoaMethod } from '@/lib/doa/methods';
+import { DOA_METHODS, type DoaMethod } from '@/lib/doa/methods/registry';
 import type { RunOptions } from '@/lib/jobs/estimate-run';
 
 /** Largest bearing difference (degrees) still called "reproduced". */

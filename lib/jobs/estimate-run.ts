@@ -4,7 +4,7 @@
  * resolvability of every estimated pair. Plain TypeScript on lib/doa.
  *
  * Layout: `rows` is N × M, one snapshot per row (the file layout), split re/im,
- * row-major (CONVENTIONS §2, lib/doa/complex.ts). Bearings in degrees from
+ * row-major (docs/conventions.md §2, lib/doa/complex.ts). Bearings in degrees from
  * broadside; spacing d in wavelengths.
  *
  * Uncertainty at the estimated parameters (the choice, documented):
@@ -20,7 +20,7 @@
  *   evaluated for the full M-element array with the N snapshots of the data
  *   (lib/doa stochasticCrb). For coherent sources that bound is only indicative.
  * - 95% interval = estimate ± 1.96σ (Gaussian approximation; the CRB bounds
- *   unbiased estimators and is reached only asymptotically, REFERENCES §11).
+ *   unbiased estimators and is reached only asymptotically, docs/references.md §11).
  */
 import {
   estimateBearings,

@@ -5,7 +5,7 @@ import { randomUUID } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import busboy from 'busboy';
-import { ApiError } from '../api';
+import { ApiError } from '../http';
 import { dataDir } from '../env';
 import { Sha256PassThrough } from '../datasets';
 

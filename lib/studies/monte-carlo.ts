@@ -4,7 +4,7 @@
  * lib/doa (no React, Next or database imports), so it runs the same in the
  * server's job queue, in the demo seed and in node tests.
  *
- * Conventions (CONVENTIONS §1–5): a ULA with M elements at spacing d
+ * Conventions (docs/conventions.md §1–5): a ULA with M elements at spacing d
  * (wavelengths), bearings in degrees from broadside, noise power σ² = 1 per
  * element, so a source power given in dB is its per-element SNR.
  *
@@ -20,9 +20,9 @@
  *    not detection; see the MDL/AIC figures of a dataset for that).
  *  - Covariance: sample covariance → forward spatial smoothing (subarray L,
  *    'auto' = ⌈2M/3⌉ clamped to 2 … M−1, the engine's recommended size) →
- *    forward–backward averaging, exactly the engine's order (CONVENTIONS §2).
+ *    forward–backward averaging, exactly the engine's order (docs/conventions.md §2).
  *  - Spectral methods (music, bartlett, mvdr) pick peaks on the default
- *    0.01° grid (CONVENTIONS §4), so their errors are quantised at 0.005°.
+ *    0.01° grid (docs/conventions.md §4), so their errors are quantised at 0.005°.
  *
  * Random numbers: trial t of every sweep point uses the same seed
  * (seed, t) → 32-bit mix, so the points share their random draws ("common
@@ -44,7 +44,7 @@
  *    own source than the midpoint to the next one.)
  *  - outlierRate: the share of trials in which the method returned fewer than
  *    K bearings, or some paired estimate is off by more than half the Rayleigh
- *    gap 1/(M·d) in u = sin θ (CONVENTIONS §5) — the estimate is then outside
+ *    gap 1/(M·d) in u = sin θ (docs/conventions.md §5) — the estimate is then outside
  *    the main lobe of its source: common practice for the threshold region.
  *  - crbStdDeg: the stochastic CRB std per source (lib/doa stochasticCrb,
  *    Stoica & Nehorai 1990) for the full M-element array and N snapshots.
@@ -52,7 +52,7 @@
  *
  * Slope: a least-squares line through (log x, log RMSE) on the upper half of
  * the sweep values (at least two points) among the points with an outlier
- * rate ≤ 1 %, where x is the linear SNR, N or M. Expected (REFERENCES §9):
+ * rate ≤ 1 %, where x is the linear SNR, N or M. Expected (docs/references.md §9):
  * −0.5 against SNR at high SNR, −0.5 against N, about −1.5 against M.
  *
  * Budget: the work is estimated in floating-point operations (a rough count,

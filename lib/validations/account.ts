@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { passwordSchema } from '../passwords';
+import { passwordSchema } from '../auth/passwords';
 
 export const emailSchema = z
   .string({ error: 'Enter an e-mail address.' })

@@ -4,7 +4,7 @@
  * columns a revision row stores. Pure (no database, no server-only), so the
  * demo seed uses the same path as the API.
  */
-import { ApiError, type FieldErrors } from '@/lib/api';
+import { ApiError, type FieldErrors } from '@/lib/http';
 import { MAX_ELEMENTS, arrayInputSchema, resolveArrayGeometry, type ArrayInput, type ResolvedGeometry } from './array';
 
 /** Largest resolved spacing the server accepts, in wavelengths (keeps the figures cheap and the canvas drawable). */

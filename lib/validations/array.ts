@@ -1,6 +1,6 @@
 /**
  * Array input: one zod schema for the designer form and the v1 arrays route
- * (CONVENTIONS §7: `{name, elements, spacing:{value, unit}, frequencyHz?,
+ * (docs/conventions.md §7: `{name, elements, spacing:{value, unit}, frequencyHz?,
  * propagationSpeedMps?}`), extended with the designer's optional fields.
  *
  * Every message names the field it is about (dotted path), because the API
@@ -10,10 +10,10 @@
  * propagationSpeedMps, or a medium the speed is computed from.
  *
  * `resolveArrayGeometry` turns a valid input into the spacing in wavelengths
- * the engine works in (CONVENTIONS §1), using lib/doa/medium.ts for the speed.
+ * the engine works in (docs/conventions.md §1), using lib/doa/medium.ts for the speed.
  */
 import { z } from 'zod';
-import { propagationSpeed, type Medium } from '@/lib/doa/medium';
+import { propagationSpeed, type Medium } from '@/lib/doa/design/medium';
 
 /** Element-count limits of the designer and the arrays API. */
 export const MIN_ELEMENTS = 2;

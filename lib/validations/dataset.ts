@@ -1,5 +1,5 @@
 /**
- * Dataset upload fields (CONVENTIONS §7: multipart `file` plus optional
+ * Dataset upload fields (docs/conventions.md §7: multipart `file` plus optional
  * `name`, `arrayId`, `datasetPath` (HDF5), `frequencyHz`, `fftLength`, `hop`,
  * `window` (WAV)). Form fields arrive as text, so numbers are coerced; every
  * message names its field. The answer schemas are here too, for the OpenAPI

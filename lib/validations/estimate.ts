@@ -1,5 +1,5 @@
 /**
- * POST /api/v1/estimates and POST /api/v1/bounds bodies (CONVENTIONS §7), one
+ * POST /api/v1/estimates and POST /api/v1/bounds bodies (docs/conventions.md §7), one
  * zod schema each, shared by the route handlers, the estimate form and the
  * OpenAPI document. Messages name their field.
  *
@@ -8,7 +8,7 @@
  * that sends `method` gets exactly the §7 answer.
  */
 import { z } from 'zod';
-import { DOA_METHODS } from '@/lib/doa/methods';
+import { DOA_METHODS } from '@/lib/doa/methods/registry';
 
 export const MAX_INLINE_ELEMENTS = 512;
 

@@ -5,7 +5,7 @@
  * every point, SNR offsets, the compute budget).
  */
 import { z } from 'zod';
-import { DOA_METHODS } from '@/lib/doa/methods';
+import { DOA_METHODS } from '@/lib/doa/methods/registry';
 import { STUDY_LIMITS, SWEEP_VARIABLES } from '@/lib/studies/monte-carlo';
 
 const int = (field: string, min: number, max: number) =>

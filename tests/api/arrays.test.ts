@@ -1,13 +1,13 @@
 /**
- * The v1 arrays API (CONVENTIONS §7) against a real temporary database:
+ * The v1 arrays API (docs/conventions.md §7) against a real temporary database:
  * create, read and patch with metrics; immutable revisions; the role matrix;
  * 422s naming the field; bearer tokens; CSRF refusals that write nothing.
  */
 import { describe, expect, it } from 'vitest';
 import { ApiToken, ArrayDesign, ArrayRevision, AuditEvent } from '@/models';
-import { arrayMetrics } from '@/lib/doa/array-figures';
-import { propagationSpeed } from '@/lib/doa/medium';
-import { randomSecret, sha256Hex } from '@/lib/secrets';
+import { arrayMetrics } from '@/lib/doa/design/array-figures';
+import { propagationSpeed } from '@/lib/doa/design/medium';
+import { randomSecret, sha256Hex } from '@/lib/auth/secrets';
 import * as arrays from '@/app/api/v1/arrays/route';
 import * as arrayById from '@/app/api/v1/arrays/[id]/route';
 import * as revisionById from '@/app/api/v1/arrays/[id]/revisions/[rev]/route';
@@ -43,9 +43,9 @@ describe('create and read, with metrics', () => {
     expect(Object.keys(created.metrics).sort()).toEqual(['apertureWavelengths', 'gratingLobeFreeScanDeg', 'halfPowerBeamwidthDeg', 'peakSidelobeDb', 'rayleighGapDeg']);
     expect(created.metrics).toEqual(arrayMetrics(10, 0.5));
 
-    // REFERENCES §3 [computed from the closed-form array factor, numpy]: M = 10, d = λ/2 at broadside:
-    // HPBW 10.2092°, Rayleigh 11.537°, peak sidelobe −12.966 dB; aperture (M−1)·d = 4.5 λ (CONVENTIONS §5);
-    // d ≤ 0.5 scans to 90° without a grating lobe (CONVENTIONS §5).
+    // docs/references.md §3 [computed from the closed-form array factor, numpy]: M = 10, d = λ/2 at broadside:
+    // HPBW 10.2092°, Rayleigh 11.537°, peak sidelobe −12.966 dB; aperture (M−1)·d = 4.5 λ (docs/conventions.md §5);
+    // d ≤ 0.5 scans to 90° without a grating lobe (docs/conventions.md §5).
     close(created.metrics.halfPowerBeamwidthDeg, 10.2092, 5e-5);
     close(created.metrics.rayleighGapDeg, 11.537, 5e-4);
     close(created.metrics.peakSidelobeDb, -12.966, 5e-4);
@@ -57,7 +57,7 @@ describe('create and read, with metrics', () => {
     expect(await json(read)).toEqual(created);
   });
 
-  it('M = 16 at λ/2 gives the published HPBW 6.3587°, Rayleigh 7.181° and sidelobe −13.147 dB (REFERENCES §3)', async () => {
+  it('M = 16 at λ/2 gives the published HPBW 6.3587°, Rayleigh 7.181° and sidelobe −13.147 dB (docs/references.md §3)', async () => {
     const body = await json(await create({ name: 'Sixteen', elements: 16, spacing: { value: 0.5, unit: 'wavelength' } }));
     close(body.metrics.halfPowerBeamwidthDeg, 6.3587, 5e-5);
     close(body.metrics.rayleighGapDeg, 7.181, 5e-4);
@@ -65,20 +65,20 @@ describe('create and read, with metrics', () => {
   });
 
   it('spacing in millimetres at 10 GHz in radio resolves to wavelengths with c = 299 792 458 m/s', async () => {
-    // REFERENCES §1: λ at 10 GHz = 0.0299792 m, so λ/2 = 14.990 mm; 14.9896229 mm is exactly λ/2.
+    // docs/references.md §1: λ at 10 GHz = 0.0299792 m, so λ/2 = 14.990 mm; 14.9896229 mm is exactly λ/2.
     const res = await create({ name: 'X-band row', elements: 8, spacing: { value: 14.9896229, unit: 'mm' }, frequencyHz: 10e9, propagationSpeedMps: 299_792_458 });
     expect(res.status).toBe(201);
     const body = await json(res);
     expect(body.frequencyHz).toBe(10e9);
     expect(body.propagationSpeedMps).toBe(299_792_458);
     close(body.spacingWavelengths, 0.5, 1e-9);
-    // REFERENCES §3 [computed]: M = 8 at λ/2, peak sidelobe −12.797 dB, Rayleigh 14.478°.
+    // docs/references.md §3 [computed]: M = 8 at λ/2, peak sidelobe −12.797 dB, Rayleigh 14.478°.
     close(body.metrics.peakSidelobeDb, -12.797, 5e-4);
     close(body.metrics.rayleighGapDeg, 14.478, 5e-4);
   });
 
   it('a sea-water medium stands in for the speed; the revision stores the resolved speed (Mackenzie 1981 check value)', async () => {
-    // REFERENCES §2: Mackenzie (1981) at T = 25 °C, S = 35 ppt, D = 1000 m gives 1550.744 m/s (published check value).
+    // docs/references.md §2: Mackenzie (1981) at T = 25 °C, S = 35 ppt, D = 1000 m gives 1550.744 m/s (published check value).
     const medium = { kind: 'sea-water', temperatureC: 25, salinityPpt: 35, depthM: 1000, equation: 'mackenzie-1981' };
     const res = await create({ name: 'Deep line', elements: 12, spacing: { value: 0.25, unit: 'm' }, frequencyHz: 3000, medium });
     expect(res.status).toBe(201);
@@ -93,7 +93,7 @@ describe('create and read, with metrics', () => {
     expect((row!.config as { medium: unknown }).medium).toEqual(medium);
   });
 
-  it('d between 0.5 and 1 scans to asin(1/d − 1); d ≥ 1 has no grating-lobe-free scan (CONVENTIONS §5)', async () => {
+  it('d between 0.5 and 1 scans to asin(1/d − 1); d ≥ 1 has no grating-lobe-free scan (docs/conventions.md §5)', async () => {
     const b = await json(await create({ name: 'Wide', elements: 6, spacing: { value: 0.75, unit: 'wavelength' } }));
     close(b.metrics.gratingLobeFreeScanDeg, (Math.asin(1 / 0.75 - 1) * 180) / Math.PI, 1e-12);
     const c = await json(await create({ name: 'Wider', elements: 6, spacing: { value: 1.2, unit: 'wavelength' } }));
@@ -332,7 +332,7 @@ describe('demo seed', () => {
     expect((r3!.config as { elementStates: { enabled: boolean }[] }).elementStates.every((e) => e.enabled)).toBe(true);
     const row = await ArrayDesign.findOne({ where: { name: 'Gannet Point X-band receive row' } });
     const rr = await ArrayRevision.findOne({ where: { arrayId: row!.id, revision: 1 } });
-    // 15 mm at 10 GHz: λ = 29.9792458 mm (REFERENCES §1).
+    // 15 mm at 10 GHz: λ = 29.9792458 mm (docs/references.md §1).
     close(rr!.spacingWavelengths, 15 / 29.9792458, 1e-12);
     expect(rr!.frequencyHz).toBe(10e9);
     expect(rr!.propagationSpeedMps).toBe(299_792_458);

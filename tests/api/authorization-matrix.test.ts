@@ -7,8 +7,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuthLink, OutboxMessage, User, ApiToken, ArrayDesign, Study } from '@/models';
-import { hashPassword } from '@/lib/passwords';
-import { randomSecret, sha256Hex } from '@/lib/secrets';
+import { hashPassword } from '@/lib/auth/passwords';
+import { randomSecret, sha256Hex } from '@/lib/auth/secrets';
 import { startSmtpSink } from '@/lib/mail/sink';
 import { storeCapturedMail } from '@/lib/mail/outbox';
 import * as health from '@/app/api/health/route';

@@ -3,7 +3,7 @@
  * handler that forgets the check still cannot leak or change anything.
  */
 import { describe, expect, it } from 'vitest';
-import { ApiError } from '@/lib/api';
+import { ApiError } from '@/lib/http';
 import type { Caller } from '@/lib/auth';
 import { listAuditEvents } from '@/lib/data/audit';
 import { listOutbox } from '@/lib/data/outbox';

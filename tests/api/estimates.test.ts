@@ -1,7 +1,7 @@
 /**
  * Estimates through the v1 API against the real temp SQLite: bearings equal
  * the numpy reference (fixtures/api/generate.py and fixtures/doa/generate.py,
- * an independent implementation of CONVENTIONS §1–4) to ≤ 1e−6° for the
+ * an independent implementation of docs/conventions.md §1–4) to ≤ 1e−6° for the
  * ESPRIT family and root-MUSIC and to one grid step (0.01°) for spectral peaks.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -256,13 +256,13 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
 });
 
 describe('POST /api/v1/bounds', () => {
-  it('answers the §7 shape with the engine bound (REFERENCES §5 closed form checked in tests/lib/doa/bounds.test.ts)', async () => {
+  it('answers the §7 shape with the engine bound (docs/references.md §5 closed form checked in tests/lib/doa/bounds.test.ts)', async () => {
     const res = await boundsRoute.POST(req('POST', '/api/v1/bounds', { body: { array: { elements: 8, spacingWavelengths: 0.5 }, bearingsDeg: [-1, 2], sourcePowers: [1, 1], noisePower: 0.1, snapshots: 100 }, headers: await browserHeaders('viewer') }), params({}));
     const body = await json(res);
     expect(res.status).toBe(200);
     const { bounds } = await import('@/lib/doa');
     expect(body).toEqual(bounds({ array: { elements: 8, spacingWavelengths: 0.5 }, bearingsDeg: [-1, 2], sourcePowers: [1, 1], noisePower: 0.1, snapshots: 100 }));
-    expect(body.rayleighGapU).toBeCloseTo(0.25, 15); // 1/(M·d), CONVENTIONS §5
+    expect(body.rayleighGapU).toBeCloseTo(0.25, 15); // 1/(M·d), docs/conventions.md §5
     expect(body.pairs[0].belowResolvableGap).toBe(true); // |sin 2° − sin(−1°)| ≈ 0.052 < 0.25
   });
   it('refuses mismatched powers and bad bearings with 422', async () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { GET } from '@/app/api/health/route';
 
-describe('GET /api/health (CONVENTIONS §7)', () => {
+describe('GET /api/health (docs/conventions.md §7)', () => {
   it('answers {"status":"ok","db":"ok"} when the database answers', async () => {
     const res = await GET();
     expect(res.status).toBe(200);

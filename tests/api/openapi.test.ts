@@ -7,7 +7,7 @@ import { handoffSendSchema, reviewCreateSchema } from '@/lib/handoff/validation'
 import { json, params, req } from '../helpers/api';
 
 describe('openapi.json', () => {
-  it('is served without credentials and lists every v1 path of CONVENTIONS §7', async () => {
+  it('is served without credentials and lists every v1 path of docs/conventions.md §7', async () => {
     const res = await openapi.GET(req('GET', '/api/v1/openapi.json'), params({}));
     expect(res.status).toBe(200);
     const doc = await json(res);

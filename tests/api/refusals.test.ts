@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { AuditEvent, ApiToken, Team, User } from '@/models';
 import { verifyCredentials } from '@/lib/auth';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { randomSecret, sha256Hex } from '@/lib/secrets';
+import { randomSecret, sha256Hex } from '@/lib/auth/secrets';
 import * as account from '@/app/api/account/route';
 import * as tokens from '@/app/api/account/tokens/route';
 import * as team from '@/app/api/team/route';

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { verifyCredentials } from '@/lib/auth';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { signInLimits } from '@/lib/rate-limit';
+import { signInLimits } from '@/lib/auth/rate-limit';
 import { POST } from '@/app/api/auth/[...nextauth]/route';
 import { json } from '../helpers/api';
 
@@ -32,12 +32,12 @@ describe('sign-in rate limit', () => {
 
   it('the e-mail limit does not lock out other people', async () => {
     // Different e-mail, fresh address: the handler goes on to next-auth (not a 429 from us).
-    const { handleSignInLimit } = await import('@/lib/sign-in-limit');
+    const { handleSignInLimit } = await import('@/lib/auth/sign-in-limit');
     expect(await handleSignInLimit(signInRequest('reviewer@steerwise.test', '192.0.2.50'), ['callback', 'credentials'])).toBeNull();
   });
 
   it('after the per-address limit of failures, every e-mail from that address is blocked', async () => {
-    const { handleSignInLimit } = await import('@/lib/sign-in-limit');
+    const { handleSignInLimit } = await import('@/lib/auth/sign-in-limit');
     expect(signInLimits.perIp()).toBe(30); // the default
     process.env.STEERWISE_SIGNIN_LIMIT_IP = '8'; // configurable; lowered to keep the test short
     for (let i = 0; i < 8; i++) await verifyCredentials({ email: `guess-${i}@steerwise.test`, password: 'x', ip: '198.51.100.7' });
@@ -51,12 +51,12 @@ describe('sign-in rate limit', () => {
     for (let i = 0; i < 4; i++) await verifyCredentials({ email: 'viewer@steerwise.test', password: 'nope', ip: '203.0.113.1' });
     expect(await verifyCredentials({ email: 'viewer@steerwise.test', password: DEMO_PASSWORD, ip: '203.0.113.1' })).not.toBeNull();
     for (let i = 0; i < 4; i++) await verifyCredentials({ email: 'viewer@steerwise.test', password: 'nope', ip: '203.0.113.1' });
-    const { handleSignInLimit } = await import('@/lib/sign-in-limit');
+    const { handleSignInLimit } = await import('@/lib/auth/sign-in-limit');
     expect(await handleSignInLimit(signInRequest('viewer@steerwise.test', '203.0.113.2'), ['callback', 'credentials'])).toBeNull();
   });
 
   it('other next-auth routes are never limited here', async () => {
-    const { handleSignInLimit } = await import('@/lib/sign-in-limit');
+    const { handleSignInLimit } = await import('@/lib/auth/sign-in-limit');
     expect(await handleSignInLimit(signInRequest('engineer@steerwise.test', '192.0.2.99'), ['signout'])).toBeNull();
   });
 });

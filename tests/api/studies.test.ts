@@ -3,7 +3,7 @@
  * create (202), poll until done, read the result; refusals (422 naming the
  * field, over-budget with how to shrink, nothing written); the role matrix.
  * The numbers are checked against the closed-form single-source stochastic
- * CRB of REFERENCES §5 (Stoica & Nehorai 1990).
+ * CRB of docs/references.md §5 (Stoica & Nehorai 1990).
  */
 import { describe, expect, it } from 'vitest';
 import { ArrayDesign, ArrayRevision, Study } from '@/models';
@@ -67,7 +67,7 @@ describe('POST /api/v1/studies → poll → result', () => {
     const points = done.body.result.points;
     expect(points.map((p: { value: number }) => p.value)).toEqual([0, 10]);
     for (const p of points) {
-      // REFERENCES §5 closed form (0 dB: 0.148911°).
+      // docs/references.md §5 closed form (0 dB: 0.148911°).
       expect(p.crbStdDeg[0]).toBeCloseTo(closedFormCrbDeg(10, 100, 10 ** (p.value / 10)), 9);
       const rm = p.methods.find((m: { method: string }) => m.method === 'root-music');
       // 100 trials: sampling error of the RMSE ≈ 7 %, so a looser bound than the unit test's 1.15.

@@ -4,14 +4,14 @@
  * drags a source arrow and saves revisions; a reviewer opens it read-only.
  * After each step the figures on the page must equal lib/doa's figures for
  * the state the page shows, and the separation chart must flag exactly the
- * pairs that CONVENTIONS §5 calls "below the resolvable gap".
+ * pairs that docs/conventions.md §5 calls "below the resolvable gap".
  * Screenshots land in test-results/designer-*.png.
  */
 import fs from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { apertureWavelengths, arrayMetrics, firstNullBeamwidthDeg, gratingLobeFreeScanDeg, halfPowerBeamwidthDeg, peakSidelobeDb, rayleighGap } from '@/lib/doa/array-figures';
+import { apertureWavelengths, arrayMetrics, firstNullBeamwidthDeg, gratingLobeFreeScanDeg, halfPowerBeamwidthDeg, peakSidelobeDb, rayleighGap } from '@/lib/doa/design/array-figures';
 import { arrayInputSchema, resolveArrayGeometry, type ArrayInput } from '@/lib/validations/array';
 import { browserForFile, shot, signIn } from './browser';
 
@@ -216,7 +216,7 @@ describe('an engineer designs an array in the browser', () => {
         const [i, j] = (await item.getAttribute('data-pair'))!.split('-').map(Number);
         const sinI = Math.sin((s.plannedSources![i].bearingDeg * Math.PI) / 180);
         const sinJ = Math.sin((s.plannedSources![j].bearingDeg * Math.PI) / 180);
-        // CONVENTIONS §5: "below the resolvable gap" when |sin θ1 − sin θ2| < 1/(M·d).
+        // docs/conventions.md §5: "below the resolvable gap" when |sin θ1 − sin θ2| < 1/(M·d).
         const below = Math.abs(sinI - sinJ) < gapU;
         expect(await item.getAttribute('data-below-gap'), `pair ${i}-${j}`).toBe(below ? 'true' : 'false');
         seen[`${i}-${j}`] = below;

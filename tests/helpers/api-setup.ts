@@ -17,7 +17,7 @@ delete process.env.SMTP_HOST;
 
 beforeAll(async () => {
   const { getDb } = await import('@/lib/db');
-  const { migrateUp } = await import('@/lib/migrate');
+  const { migrateUp } = await import('@/lib/db/migrate');
   const { seedDemo } = await import('@/lib/demo/seed');
   const db = await getDb();
   await migrateUp(db);

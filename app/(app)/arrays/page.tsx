@@ -7,7 +7,7 @@ import { PageHeader } from '@/components/ui/page-header';
 import { Refusal } from '@/components/ui/refusal';
 import { requirePagePermission } from '@/lib/auth';
 import { listArrays } from '@/lib/data/arrays';
-import { can, refusalMessage } from '@/lib/permissions';
+import { can, refusalMessage } from '@/lib/auth/permissions';
 
 export const metadata = { title: 'Arrays' };
 

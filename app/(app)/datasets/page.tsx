@@ -4,7 +4,7 @@ import { Refusal } from '@/components/ui/refusal';
 import { UploadForm } from '@/components/datasets/upload-form';
 import { DatasetsTable } from '@/components/datasets/datasets-table';
 import { requirePagePermission } from '@/lib/auth';
-import { can } from '@/lib/permissions';
+import { can } from '@/lib/auth/permissions';
 import { listArrayChoices, listDatasets } from '@/lib/data/datasets';
 import { maxUploadBytes } from '@/lib/storage/uploads';
 

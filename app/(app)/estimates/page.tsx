@@ -4,7 +4,7 @@ import { Refusal } from '@/components/ui/refusal';
 import { EstimateForm } from '@/components/estimates/estimate-form';
 import { RunsTable } from '@/components/estimates/runs-table';
 import { requirePagePermission } from '@/lib/auth';
-import { can } from '@/lib/permissions';
+import { can } from '@/lib/auth/permissions';
 import { listArrayChoices, listDatasets } from '@/lib/data/datasets';
 import { listEstimateRuns } from '@/lib/data/estimates';
 

@@ -6,7 +6,7 @@ import { ImportForm } from '@/components/handoff/import-form';
 import { ArrayHandoffSection } from '@/components/handoff/array-handoff-section';
 import { requirePagePermission } from '@/lib/auth';
 import { listHandoffs } from '@/lib/data/handoffs';
-import { can, refusalMessage } from '@/lib/permissions';
+import { can, refusalMessage } from '@/lib/auth/permissions';
 
 export const metadata = { title: 'Hand-off' };
 

@@ -5,7 +5,7 @@ import { Refusal } from '@/components/ui/refusal';
 import { buttonClass } from '@/components/ui/button';
 import { StudiesTable } from '@/components/studies/studies-table';
 import { requirePagePermission } from '@/lib/auth';
-import { can } from '@/lib/permissions';
+import { can } from '@/lib/auth/permissions';
 import { listStudies } from '@/lib/data/studies';
 
 export const metadata = { title: 'Studies' };

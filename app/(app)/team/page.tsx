@@ -7,7 +7,7 @@ import { TeamSettingsForm } from '@/components/team/team-settings';
 import { requirePagePermission } from '@/lib/auth';
 import { listInvitations } from '@/lib/data/links';
 import { getTeam, listMembers } from '@/lib/data/team';
-import { can, refusalMessage } from '@/lib/permissions';
+import { can, refusalMessage } from '@/lib/auth/permissions';
 
 export const metadata = { title: 'Team' };
 

@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { getCaller } from '@/lib/auth';
 import { getProfile, updateProfile } from '@/lib/data/account';
 import { profileSchema } from '@/lib/validations/account';

@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { listHandoffs, sendHandoff } from '@/lib/data/handoffs';
 import { handoffSendSchema } from '@/lib/handoff/validation';

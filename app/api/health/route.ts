@@ -2,7 +2,7 @@ import { getDb } from '@/lib/db';
 
 export const dynamic = 'force-dynamic';
 
-/** GET /api/health → {"status":"ok","db":"ok"} (CONVENTIONS §7); 503 with db "error" when the database does not answer. */
+/** GET /api/health → {"status":"ok","db":"ok"} (docs/conventions.md §7); 503 with db "error" when the database does not answer. */
 export async function GET() {
   try {
     const db = await getDb();

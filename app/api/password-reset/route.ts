@@ -1,6 +1,6 @@
-import { ApiError, handle, readJson } from '@/lib/api';
+import { ApiError, handle, readJson } from '@/lib/http';
 import { requestPasswordReset } from '@/lib/data/links';
-import { allowHit, clientIp } from '@/lib/rate-limit';
+import { allowHit, clientIp } from '@/lib/auth/rate-limit';
 import { resetRequestSchema } from '@/lib/validations/account';
 
 const WINDOW_MS = 15 * 60 * 1000;

@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { getTeam, updateTeam } from '@/lib/data/team';
 import { teamSettingsSchema } from '@/lib/validations/team';

@@ -1,10 +1,10 @@
 /**
  * Hostile-input corpus for the snapshot-file readers. Each case must be
- * refused with a DatasetError carrying the right HTTP status (CONVENTIONS §7:
+ * refused with a DatasetError carrying the right HTTP status (docs/conventions.md §7:
  * 413 too large, 415 unsupported format, 422 invalid content), the stable
  * code, and a message that names the place (row/column for CSV, the dtype,
  * shape, dataset path or channel count for the binary formats). Rows and
- * columns are 1-based and count physical file lines (CONVENTIONS §6).
+ * columns are 1-based and count physical file lines (docs/conventions.md §6).
  *
  * Most inputs are built here in a temporary directory; a few tiny ones
  * (one-channel, zero-length, 8-bit and 64-bit-float WAVs, HDF5 files without a

@@ -2,7 +2,7 @@
  * Unit checks of the CSV field scanner. Reference values for accepted
  * spellings are Python's complex() on the same text (the spellings table in
  * fixtures/datasets/csv-expected.json, written by generate.py); refusals are
- * this project's documented policy (CONVENTIONS §6: NaN/Inf and non-numbers
+ * this project's documented policy (docs/conventions.md §6: NaN/Inf and non-numbers
  * are errors).
  */
 import { describe, expect, it } from 'vitest';

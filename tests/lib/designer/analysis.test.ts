@@ -6,27 +6,27 @@ import { patternCsv, columnsCsv, fileSlug } from '@/lib/designer/export';
 const draft = (elements: number, extra: Record<string, unknown> = {}) =>
   normalizeDraft({ name: 'x', elements, spacing: { value: 0.5, unit: 'wavelength' }, ...extra });
 
-describe('designFigures against REFERENCES §3 (M = 10, d = λ/2, uniform, broadside; computed values)', () => {
+describe('designFigures against docs/references.md §3 (M = 10, d = λ/2, uniform, broadside; computed values)', () => {
   const f = designFigures(draft(10));
   it('half-power beamwidth 10.2092°', () => expect(f.halfPowerBeamwidthDeg!).toBeCloseTo(10.2092, 3));
   it('first-null beamwidth 2·asin(λ/(Md)) = 23.074°', () => expect(f.firstNullBeamwidthDeg!).toBeCloseTo(23.074, 3));
   it('peak sidelobe −12.966 dB (finite M)', () => expect(f.peakSidelobeDb!).toBeCloseTo(-12.966, 3));
-  it('aperture (M−1)·d = 4.5 λ and grating-lobe-free scan 90° (CONVENTIONS §5)', () => {
+  it('aperture (M−1)·d = 4.5 λ and grating-lobe-free scan 90° (docs/conventions.md §5)', () => {
     expect(f.apertureWavelengths).toBe(4.5);
     expect(f.gratingLobeFreeScanDeg).toBe(90);
     expect(f.scanExceedsGratingFree).toBe(false);
   });
-  it('steered to 30°: HPBW 11.815° (REFERENCES §3, exact)', () => {
+  it('steered to 30°: HPBW 11.815° (docs/references.md §3, exact)', () => {
     expect(designFigures(draft(10, { steerDeg: 30 })).halfPowerBeamwidthDeg!).toBeCloseTo(11.815, 3);
   });
-  it('Hamming taper, M = 10: peak sidelobe −35.81 dB (REFERENCES §4 array-taper table)', () => {
+  it('Hamming taper, M = 10: peak sidelobe −35.81 dB (docs/references.md §4 array-taper table)', () => {
     expect(designFigures(draft(10, { taper: { kind: 'hamming' } })).peakSidelobeDb!).toBeCloseTo(-35.81, 2);
   });
   it('warns when the scan sector exceeds the grating-lobe-free scan: d = 0.6 λ → asin(1/0.6 − 1) = 41.81°', () => {
     const g = designFigures(normalizeDraft({ name: 'x', elements: 8, spacing: { value: 0.6, unit: 'wavelength' }, scanSectorDeg: 45 }));
     expect(g.gratingLobeFreeScanDeg).toBeCloseTo(41.81, 2);
     expect(g.scanExceedsGratingFree).toBe(true);
-    // REFERENCES §3: d < λ/(1 + sin 45°) = 0.5858 λ for ±45°.
+    // docs/references.md §3: d < λ/(1 + sin 45°) = 0.5858 λ for ±45°.
     expect(g.maxSpacingForScanWavelengths).toBeCloseTo(0.5858, 4);
   });
   it('a disabled element changes the beam figures (fewer elements, wider beam)', () => {
@@ -52,14 +52,14 @@ describe('pattern and grating lobes', () => {
 
 describe('separation chart and planned pairs (M = 10, d = λ/2, N = 100, 0 dB)', () => {
   const s0 = draft(10, { snapshots: 100, snrDb: 0 });
-  it('the statistical curve at M = 10 is Smith’s limit 1.7214° (REFERENCES §8, computed)', () => {
+  it('the statistical curve at M = 10 is Smith’s limit 1.7214° (docs/references.md §8, computed)', () => {
     const c = separationCurves(s0);
     const i = Array.from(c.elements).indexOf(10);
     expect(c.statisticalLimitDeg[i]).toBeCloseTo(1.7214, 3);
     expect(c.rayleighGapU[i]).toBeCloseTo(0.2, 12);
   });
 
-  it('warns on both sides of the Rayleigh gap 1/(M·d) = 0.2 in u (CONVENTIONS §5)', () => {
+  it('warns on both sides of the Rayleigh gap 1/(M·d) = 0.2 in u (docs/conventions.md §5)', () => {
     const s = [0, 12, 23, 28, 29].reduce((st, b) => designerReducer(st, { type: 'addSource', bearingDeg: b }), s0);
     const pairs = pairAdvice(s);
     const find = (a: number, b: number) => pairs.find((p) => p.bearingsDeg[0] === a && p.bearingsDeg[1] === b)!;

@@ -19,7 +19,7 @@ function fieldErrors(value: unknown): Record<string, string[]> {
 const ok = { name: 'Test line', elements: 8, spacing: { value: 0.5, unit: 'wavelength' } };
 
 describe('arrayInputSchema: bad input names the field', () => {
-  it('accepts the minimal CONVENTIONS §7 body', () => {
+  it('accepts the minimal docs/conventions.md §7 body', () => {
     expect(arrayInputSchema.safeParse(ok).success).toBe(true);
   });
 
@@ -87,24 +87,24 @@ describe('arrayInputSchema: bad input names the field', () => {
   });
 });
 
-describe('resolveArrayGeometry against REFERENCES §1–2', () => {
+describe('resolveArrayGeometry against docs/references.md §1–2', () => {
   const parse = (v: unknown): ArrayInput => arrayInputSchema.parse(v);
 
-  it('radio at 3 GHz: λ = 0.0999308 m (REFERENCES §1, c exact by the SI definition)', () => {
+  it('radio at 3 GHz: λ = 0.0999308 m (docs/references.md §1, c exact by the SI definition)', () => {
     const g = resolveArrayGeometry(parse({ ...ok, spacing: { value: 49.965, unit: 'mm' }, frequencyHz: 3e9, medium: { kind: 'radio' } }));
     expect(g.speedMps).toBe(299_792_458);
     expect(g.wavelengthM!).toBeCloseTo(0.0999308, 7);
-    // REFERENCES §1 lists λ/2 = 49.965 mm at 3 GHz (rounded to 1 µm).
+    // docs/references.md §1 lists λ/2 = 49.965 mm at 3 GHz (rounded to 1 µm).
     expect(g.spacingWavelengths).toBeCloseTo(0.5, 4);
   });
 
-  it('radio at 10 GHz: λ = 0.0299792 m (REFERENCES §1)', () => {
+  it('radio at 10 GHz: λ = 0.0299792 m (docs/references.md §1)', () => {
     const g = resolveArrayGeometry(parse({ ...ok, spacing: { value: 14.99, unit: 'mm' }, frequencyHz: 1e10, propagationSpeedMps: 299_792_458 }));
     expect(g.wavelengthM!).toBeCloseTo(0.0299792, 7);
     expect(g.spacingWavelengths).toBeCloseTo(0.5, 3);
   });
 
-  it('sea water by Mackenzie (1981): T=25, S=35, D=1000 → 1550.744 m/s (published check value, REFERENCES §2)', () => {
+  it('sea water by Mackenzie (1981): T=25, S=35, D=1000 → 1550.744 m/s (published check value, docs/references.md §2)', () => {
     const g = resolveArrayGeometry(
       parse({ ...ok, spacing: { value: 0.5, unit: 'm' }, frequencyHz: 1000, medium: { kind: 'sea-water', temperatureC: 25, salinityPpt: 35, depthM: 1000, equation: 'mackenzie-1981' } }),
     );
@@ -114,21 +114,21 @@ describe('resolveArrayGeometry against REFERENCES §1–2', () => {
     expect(g.warnings).toEqual([]);
   });
 
-  it('sea water by UNESCO (1983 coefficients): S=35, T=20, P=0 → 1521.462 m/s (REFERENCES §2, computed)', () => {
+  it('sea water by UNESCO (1983 coefficients): S=35, T=20, P=0 → 1521.462 m/s (docs/references.md §2, computed)', () => {
     const g = resolveArrayGeometry(
       parse({ ...ok, frequencyHz: 1000, medium: { kind: 'sea-water', temperatureC: 20, salinityPpt: 35, depthM: 0, equation: 'unesco-1983' } }),
     );
     expect(Math.abs(g.speedMps! - 1521.462)).toBeLessThan(5e-4);
   });
 
-  it('fresh water at 20 °C → 1482.380 m/s (Marczak 1997, REFERENCES §2) and air at 20 °C → 343.215 m/s', () => {
+  it('fresh water at 20 °C → 1482.380 m/s (Marczak 1997, docs/references.md §2) and air at 20 °C → 343.215 m/s', () => {
     const fresh = resolveArrayGeometry(parse({ ...ok, frequencyHz: 1000, medium: { kind: 'fresh-water', temperatureC: 20 } }));
     expect(Math.abs(fresh.speedMps! - 1482.38)).toBeLessThan(5e-4);
     const air = resolveArrayGeometry(parse({ ...ok, frequencyHz: 1000, medium: { kind: 'air', temperatureC: 20 } }));
     expect(Math.abs(air.speedMps! - 343.215)).toBeLessThan(5e-4);
   });
 
-  it('nominal sonar: 1500 m/s at 10 kHz → λ = 0.15 m (REFERENCES §1, common practice)', () => {
+  it('nominal sonar: 1500 m/s at 10 kHz → λ = 0.15 m (docs/references.md §1, common practice)', () => {
     const g = resolveArrayGeometry(parse({ ...ok, spacing: { value: 75, unit: 'mm' }, frequencyHz: 1e4, medium: { kind: 'custom', speedMps: 1500 } }));
     expect(g.wavelengthM!).toBeCloseTo(0.15, 12);
     expect(g.spacingWavelengths).toBeCloseTo(0.5, 12);

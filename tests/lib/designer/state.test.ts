@@ -15,7 +15,7 @@ describe('normalizeDraft', () => {
     expect(s.elementStates).toHaveLength(4);
     expect(s.elementStates.every((e) => e.enabled && e.gainDb === 0 && e.phaseDeg === 0)).toBe(true);
     expect(s.medium).toEqual({ kind: 'radio' });
-    expect(s.propagationSpeedMps).toBe(299_792_458); // SI speed of light, REFERENCES §1
+    expect(s.propagationSpeedMps).toBe(299_792_458); // SI speed of light, docs/references.md §1
     expect(s.taper).toEqual({ kind: 'uniform' });
     expect(arrayInputSchema.safeParse(s).success).toBe(true);
   });
@@ -113,7 +113,7 @@ describe('designerReducer: sources, taper, steering, medium', () => {
     expect(s.steerDeg).toBe(-90);
   });
 
-  it('a new medium brings its speed (Mackenzie 1981 check value 1550.744 m/s, REFERENCES §2)', () => {
+  it('a new medium brings its speed (Mackenzie 1981 check value 1550.744 m/s, docs/references.md §2)', () => {
     const s = designerReducer(base(), {
       type: 'setMedium',
       medium: { kind: 'sea-water', temperatureC: 25, salinityPpt: 35, depthM: 1000, equation: 'mackenzie-1981' },

@@ -13,14 +13,14 @@ import {
   peakSidelobeDb,
   directivity,
   arrayMetrics,
-} from '@/lib/doa/array-figures';
-import { beamPattern } from '@/lib/doa/beam-pattern';
+} from '@/lib/doa/design/array-figures';
+import { beamPattern } from '@/lib/doa/design/beam-pattern';
 
 const half = { spacingWavelengths: 0.5 };
 
 describe('uniform array, exact figures', () => {
   it.each([
-    // REFERENCES §3 [computed]: finite-M peak sidelobes at d = λ/2.
+    // docs/references.md §3 [computed]: finite-M peak sidelobes at d = λ/2.
     [8, -12.797],
     [10, -12.966],
     [16, -13.147],
@@ -30,11 +30,11 @@ describe('uniform array, exact figures', () => {
     expect(peakSidelobeDb({ elements: m, ...half })).toBeCloseTo(db, 3);
   });
   it('approaches the continuous-aperture −13.2615 dB for large M', () => {
-    // REFERENCES §3 [computed]: first sidelobe of sin x / x at x = 4.493409 → −13.2615 dB.
+    // docs/references.md §3 [computed]: first sidelobe of sin x / x at x = 4.493409 → −13.2615 dB.
     expect(peakSidelobeDb({ elements: 2000, ...half })!).toBeCloseTo(-13.2615, 3);
   });
   it('half-power beamwidths at broadside and steered (M=10, d=λ/2)', () => {
-    // REFERENCES §3 [computed]: 10.2092°; steered 30° → 11.815°, 45° → 14.578°, 60° → 21.755°.
+    // docs/references.md §3 [computed]: 10.2092°; steered 30° → 11.815°, 45° → 14.578°, 60° → 21.755°.
     expect(halfPowerBeamwidthDeg({ elements: 10, ...half })).toBeCloseTo(10.2092, 4);
     expect(halfPowerBeamwidthDeg({ elements: 10, ...half, steerDeg: 30 })).toBeCloseTo(11.815, 3);
     expect(halfPowerBeamwidthDeg({ elements: 10, ...half, steerDeg: 45 })).toBeCloseTo(14.578, 3);
@@ -46,14 +46,14 @@ describe('uniform array, exact figures', () => {
     expect(halfPowerBeamwidthDeg({ elements: 100, ...half })).toBeCloseTo(1.0152, 4);
   });
   it('half-power edges really sit at −3.0103 dB of the pattern', () => {
-    // Definition (CONVENTIONS §5): full width at −3.0103 dB; checked by evaluating the pattern at the edges.
+    // Definition (docs/conventions.md §5): full width at −3.0103 dB; checked by evaluating the pattern at the edges.
     const w = halfPowerBeamwidth({ elements: 12, spacingWavelengths: 0.4, steerDeg: 17 });
     const p = beamPattern({ elements: 12, spacingWavelengths: 0.4, steerDeg: 17, thetaDeg: w.edgesDeg });
     expect(p.valuesDb[0]).toBeCloseTo(-10 * Math.log10(2), 9);
     expect(p.valuesDb[1]).toBeCloseTo(-10 * Math.log10(2), 9);
   });
   it('first-null beamwidth (M=10, d=λ/2)', () => {
-    // REFERENCES §3 [computed]: 2·asin(λ/(Md)) = 23.074°.
+    // docs/references.md §3 [computed]: 2·asin(λ/(Md)) = 23.074°.
     expect(firstNullBeamwidthDeg({ elements: 10, ...half })).toBeCloseTo(23.074, 3);
     // Steered closed form asin(u0 + 1/(Md)) − asin(u0 − 1/(Md)) (same null positions in u).
     const u0 = Math.sin((25 * Math.PI) / 180);
@@ -67,7 +67,7 @@ describe('uniform array, exact figures', () => {
   });
 });
 
-describe('tapers (REFERENCES §4 array-taper table, [computed])', () => {
+describe('tapers (docs/references.md §4 array-taper table, [computed])', () => {
   it.each([
     [20, 10, 0.9746, 16, 0.9464],
     [26, 10, 1.0753, 16, 1.05],
@@ -75,7 +75,7 @@ describe('tapers (REFERENCES §4 array-taper table, [computed])', () => {
     [40, 10, 1.2636, 16, 1.2543],
     [60, 10, 1.4483, 16, 1.4797],
   ])('Chebyshev %i dB: equal sidelobes at the design level and the HPBW factors', (sl, m1, k1, m2, k2) => {
-    // Dolph (1946): every sidelobe at the design level; factors k of HPBW = k·λ/(Md) from REFERENCES §4.
+    // Dolph (1946): every sidelobe at the design level; factors k of HPBW = k·λ/(Md) from docs/references.md §4.
     for (const [m, k] of [[m1, k1], [m2, k2]]) {
       const taper = { kind: 'chebyshev' as const, sidelobeDb: sl };
       expect(peakSidelobeDb({ elements: m, ...half, taper })).toBeCloseTo(-sl, 6);
@@ -92,7 +92,7 @@ describe('tapers (REFERENCES §4 array-taper table, [computed])', () => {
     for (const pk of peaks) expect(pk).toBeCloseTo(-30, 2);
   });
   it('uniform and Hamming factors and sidelobes', () => {
-    // REFERENCES §4: uniform k = 0.8897 (M=10), 0.8874 (M=16); Hamming 1.3929 / −35.81 dB (M=10), 1.3581 / −39.37 dB (M=16).
+    // docs/references.md §4: uniform k = 0.8897 (M=10), 0.8874 (M=16); Hamming 1.3929 / −35.81 dB (M=10), 1.3581 / −39.37 dB (M=16).
     expect(halfPowerBeamwidthFactor({ elements: 10 })).toBeCloseTo(0.8897, 4);
     expect(halfPowerBeamwidthFactor({ elements: 16 })).toBeCloseTo(0.8874, 4);
     expect(halfPowerBeamwidthFactor({ elements: 10, taper: 'hamming' })).toBeCloseTo(1.3929, 4);
@@ -110,13 +110,13 @@ describe('tapers (REFERENCES §4 array-taper table, [computed])', () => {
 });
 
 describe('grating lobes and Rayleigh gap', () => {
-  it('grating-lobe-free scan per CONVENTIONS §5 and the limits of REFERENCES §3', () => {
-    // CONVENTIONS §5: d ≤ 0.5 → 90; 0.5 < d < 1 → asin(1/d − 1); d ≥ 1 → 0.
+  it('grating-lobe-free scan per docs/conventions.md §5 and the limits of docs/references.md §3', () => {
+    // docs/conventions.md §5: d ≤ 0.5 → 90; 0.5 < d < 1 → asin(1/d − 1); d ≥ 1 → 0.
     expect(gratingLobeFreeScanDeg(0.25)).toBe(90);
     expect(gratingLobeFreeScanDeg(0.5)).toBe(90);
     expect(gratingLobeFreeScanDeg(1)).toBe(0);
     expect(gratingLobeFreeScanDeg(1.7)).toBe(0);
-    // REFERENCES §3 [computed] spacing limits: 30° → 0.6667λ, 45° → 0.5858λ, 60° → 0.5359λ.
+    // docs/references.md §3 [computed] spacing limits: 30° → 0.6667λ, 45° → 0.5858λ, 60° → 0.5359λ.
     expect(gratingLobeFreeScanDeg(2 / 3)).toBeCloseTo(30, 9);
     expect(gratingLobeFreeScanDeg(0.585786)).toBeCloseTo(45, 3);
     expect(gratingLobeFreeScanDeg(0.535898)).toBeCloseTo(60, 3);
@@ -132,7 +132,7 @@ describe('grating lobes and Rayleigh gap', () => {
     expect(p.valuesDb[0]).toBeCloseTo(0, 9);
   });
   it('Rayleigh gap in u and degrees', () => {
-    // CONVENTIONS §5 and REFERENCES §3 [computed]: d = λ/2, M=8 → 14.478°, M=10 → 11.537°, M=16 → 7.181°.
+    // docs/conventions.md §5 and docs/references.md §3 [computed]: d = λ/2, M=8 → 14.478°, M=10 → 11.537°, M=16 → 7.181°.
     expect(rayleighGap(10, 0.5).u).toBeCloseTo(0.2, 15);
     expect(rayleighGap(8, 0.5).degAtBroadside).toBeCloseTo(14.478, 3);
     expect(rayleighGap(10, 0.5).degAtBroadside).toBeCloseTo(11.537, 3);
@@ -141,16 +141,16 @@ describe('grating lobes and Rayleigh gap', () => {
   });
 });
 
-describe('directivity (REFERENCES §3)', () => {
+describe('directivity (docs/references.md §3)', () => {
   it('equals M at d = λ/2 and matches the computed values', () => {
-    // REFERENCES §3: D = M exactly at d = λ/2 (uniform); M=10 d=0.25 → 5.166, d=0.7 → 13.686 [computed].
+    // docs/references.md §3: D = M exactly at d = λ/2 (uniform); M=10 d=0.25 → 5.166, d=0.7 → 13.686 [computed].
     expect(directivity({ elements: 10, ...half }).linear).toBeCloseTo(10, 10);
     expect(directivity({ elements: 16, ...half }).db).toBeCloseTo(12.04, 2);
     expect(directivity({ elements: 10, spacingWavelengths: 0.25 }).linear).toBeCloseTo(5.166, 3);
     expect(directivity({ elements: 10, spacingWavelengths: 0.7 }).linear).toBeCloseTo(13.686, 3);
   });
   it('with a taper at d = λ/2 equals M·η, η = (Σw)²/(MΣw²)', () => {
-    // REFERENCES §3: taper efficiency.
+    // docs/references.md §3: taper efficiency.
     const d = directivity({ elements: 12, ...half, taper: 'hamming' }).linear;
     const w = Array.from({ length: 12 }, (_, i) => 0.54 - 0.46 * Math.cos((2 * Math.PI * i) / 11));
     const s = w.reduce((a, b) => a + b, 0);
@@ -163,7 +163,7 @@ describe('directivity (REFERENCES §3)', () => {
 });
 
 describe('v1 metrics object', () => {
-  it('has exactly the API keys with the CONVENTIONS §5 values', () => {
+  it('has exactly the API keys with the docs/conventions.md §5 values', () => {
     const m = arrayMetrics(10, 0.5);
     expect(Object.keys(m).sort()).toEqual(['apertureWavelengths', 'gratingLobeFreeScanDeg', 'halfPowerBeamwidthDeg', 'peakSidelobeDb', 'rayleighGapDeg']);
     expect(m.apertureWavelengths).toBe(4.5);

@@ -8,7 +8,7 @@ import {
   beamPattern,
   effectiveWeights,
   thetaGridDeg,
-} from '@/lib/doa/beam-pattern';
+} from '@/lib/doa/design/beam-pattern';
 import { DoaInputError } from '@/lib/doa/errors';
 
 function fixture<T>(name: string): T {
@@ -29,8 +29,8 @@ describe('Dolph–Chebyshev weights', () => {
     expect(w.length).toBe(c.weights.length);
     for (let i = 0; i < w.length; i++) expect(Math.abs(w[i] - c.weights[i])).toBeLessThan(1e-9);
   });
-  it('gives the 10-element 26 dB edge-normalised weights of REFERENCES §4', () => {
-    // REFERENCES §4 [computed with chebwin]: 1, 1.35548, 1.96793, 2.47871, 2.76948 (mirrored).
+  it('gives the 10-element 26 dB edge-normalised weights of docs/references.md §4', () => {
+    // docs/references.md §4 [computed with chebwin]: 1, 1.35548, 1.96793, 2.47871, 2.76948 (mirrored).
     const w = chebyshevWeights(10, 26);
     const expected = [1, 1.35548, 1.96793, 2.47871, 2.76948];
     for (let i = 0; i < 5; i++) {
@@ -88,7 +88,7 @@ describe('beam pattern', () => {
     }
   });
   it('uniform pattern equals the closed form |sin(Mψ/2)/(M sin(ψ/2))| on a u grid', () => {
-    // REFERENCES §3 closed form (textbook).
+    // docs/references.md §3 closed form (textbook).
     const m = 16;
     const d = 0.5;
     const u = Float64Array.from({ length: 401 }, (_, i) => -1 + i * 0.005);

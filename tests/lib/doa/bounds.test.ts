@@ -35,7 +35,7 @@ const one = (over: Partial<BoundsInput> = {}): BoundsInput => ({
   ...over,
 });
 
-describe('single-source CRB (REFERENCES §5 table, [computed]: matrix formula, closed form and Slepian–Bangs agree)', () => {
+describe('single-source CRB (docs/references.md §5 table, [computed]: matrix formula, closed form and Slepian–Bangs agree)', () => {
   it('M=10, N=100, 0 dB, θ=0: 0.141981° deterministic, 0.148911° stochastic', () => {
     expect(deterministicCrb(one()).stdDeg[0]).toBeCloseTo(0.141981, 6);
     expect(stochasticCrb(one()).stdDeg[0]).toBeCloseTo(0.148911, 6);
@@ -58,7 +58,7 @@ describe('single-source CRB (REFERENCES §5 table, [computed]: matrix formula, c
     expect(deterministicCrb(one({ bearingsDeg: [60] })).stdDeg[0]).toBeCloseTo(0.283962, 6);
   });
   it('equals the closed form 6/[N·SNR·M(M²−1)(2πd cosθ)²]·(1 + 1/(M·SNR)) for arbitrary inputs', () => {
-    // REFERENCES §5 closed form [derived].
+    // docs/references.md §5 closed form [derived].
     const m = 13, n = 37, snr = 0.7, d = 0.43, th = -22;
     const c = 2 * Math.PI * d * Math.cos((th * Math.PI) / 180);
     const det = 6 / (n * snr * m * (m * m - 1) * c * c);
@@ -68,7 +68,7 @@ describe('single-source CRB (REFERENCES §5 table, [computed]: matrix formula, c
   });
 });
 
-describe('two equal sources (REFERENCES §5, [computed]; M=10, N=100, 0 dB each)', () => {
+describe('two equal sources (docs/references.md §5, [computed]; M=10, N=100, 0 dB each)', () => {
   it.each([
     [10, [0.20656, 0.20975], [0.19675, 0.19978]],
     [5, [0.44212, 0.44381], [0.40269, 0.40422]],
@@ -103,7 +103,7 @@ describe('matrix-form fixtures (numpy dense formulas, fixtures/doa/generate_figu
   });
 });
 
-describe('published properties and scaling (REFERENCES §5, §9)', () => {
+describe('published properties and scaling (docs/references.md §5, §9)', () => {
   it('CRB_sto ≥ CRB_det (Stoica & Nehorai 1990; from memory, consistent with the computed values)', () => {
     const cases: BoundsInput[] = [
       one(),
@@ -154,7 +154,7 @@ describe('published properties and scaling (REFERENCES §5, §9)', () => {
   });
 });
 
-describe('statistical resolution, Smith (2005) criterion δ = √CRB(δ) (REFERENCES §8: criterion from memory, values [computed])', () => {
+describe('statistical resolution, Smith (2005) criterion δ = √CRB(δ) (docs/references.md §8: criterion from memory, values [computed])', () => {
   const limit = (snapshots: number, snr: number, bound: 'stochastic' | 'deterministic') =>
     statisticalResolutionLimit({ elements: 10, spacingWavelengths: 0.5, centerDeg: 0, sourcePowers: [snr, snr], noisePower: 1, snapshots, bound }).deltaDeg!;
   it('stochastic: 1.7214°, 0.9578°, 0.9684°', () => {
@@ -173,13 +173,13 @@ describe('statistical resolution, Smith (2005) criterion δ = √CRB(δ) (REFERE
     const c = r.covarianceRad2;
     expect(Math.sqrt(c[0] + c[3] - 2 * c[1]) * (180 / Math.PI)).toBeCloseTo(delta, 8);
   });
-  it('deterministic limit scales as (N·SNR)^(−1/4) (REFERENCES §8: 1.6997/0.9565 ≈ 10^(1/4))', () => {
+  it('deterministic limit scales as (N·SNR)^(−1/4) (docs/references.md §8: 1.6997/0.9565 ≈ 10^(1/4))', () => {
     expect(limit(100, 1, 'deterministic') / limit(1000, 1, 'deterministic')).toBeCloseTo(Math.pow(10, 0.25), 2);
   });
 });
 
 describe('pair resolvability', () => {
-  it('flags pairs below the Rayleigh gap per CONVENTIONS §5 and gives a verdict', () => {
+  it('flags pairs below the Rayleigh gap per docs/conventions.md §5 and gives a verdict', () => {
     const pairs = pairResolvability(one({ bearingsDeg: [0, 5, 30], sourcePowers: [1, 1, 1] }));
     expect(pairs.map((p) => [p.i, p.j])).toEqual([[0, 1], [0, 2], [1, 2]]);
     // (0°, 5°): Δu = sin 5° = 0.0872 < 1/(10·0.5) = 0.2, but 5° exceeds the Smith limit ≈ 1.72°.
@@ -199,7 +199,7 @@ describe('pair resolvability', () => {
     expect(above.verdict).toBe('needs-high-resolution');
   });
   it('gap test is exactly |sin θ1 − sin θ2| < 1/(M·d)', () => {
-    // CONVENTIONS §5; just above and just below the gap at M=10, d=0.5 (gap 0.2 in u).
+    // docs/conventions.md §5; just above and just below the gap at M=10, d=0.5 (gap 0.2 in u).
     const above = Math.asin(0.2 + 1e-9) * (180 / Math.PI);
     const below = Math.asin(0.2 - 1e-9) * (180 / Math.PI);
     expect(pairResolvability(one({ bearingsDeg: [0, above], sourcePowers: [1, 1] }))[0].belowResolvableGap).toBe(false);
@@ -214,7 +214,7 @@ describe('separation-versus-aperture chart', () => {
     expect(c.rayleighGapU[1]).toBeCloseTo(0.2, 15);
     // Centred on broadside: 2·asin(Δu/2).
     expect(c.rayleighGapDeg[1]).toBeCloseTo(2 * Math.asin(0.1) * (180 / Math.PI), 12);
-    // REFERENCES §8 [computed]: M=10, N=100, 0 dB → 1.7214°.
+    // docs/references.md §8 [computed]: M=10, N=100, 0 dB → 1.7214°.
     expect(c.statisticalLimitDeg[1]).toBeCloseTo(1.7214, 4);
     expect(c.statisticalLimitU[1]).toBeCloseTo(2 * Math.sin((1.72136 * Math.PI) / 360), 6);
     // Both curves fall as the array grows; the statistical one faster than 1/M (≈ M^(−5/4) for the det limit, §8–9).
@@ -245,7 +245,7 @@ describe('v1 bounds answer', () => {
   it('has exactly the API keys and values', () => {
     const a = bounds({ array: { elements: 10, spacingWavelengths: 0.5 }, bearingsDeg: [0, 5], sourcePowers: [1, 1], noisePower: 1, snapshots: 100 });
     expect(Object.keys(a).sort()).toEqual(['crbStdDeg', 'pairs', 'rayleighGapU']);
-    // REFERENCES §5 [computed]: (0°, 5°) stochastic 0.44212°, 0.44381°.
+    // docs/references.md §5 [computed]: (0°, 5°) stochastic 0.44212°, 0.44381°.
     expect(a.crbStdDeg[0]).toBeCloseTo(0.44212, 5);
     expect(a.crbStdDeg[1]).toBeCloseTo(0.44381, 5);
     expect(a.rayleighGapU).toBeCloseTo(0.2, 15);

@@ -1,8 +1,8 @@
-// Covariance chain of CONVENTIONS §2 against the numpy fixtures of
+// Covariance chain of docs/conventions.md §2 against the numpy fixtures of
 // fixtures/doa/generate.py and against the defining formulas.
 import { describe, expect, it } from 'vitest';
 import fixtures from '@/fixtures/doa/methods.json';
-import { ComplexMatrix, clone, conjugateTranspose, multiply, scale, zeros } from '@/lib/doa/complex';
+import { ComplexMatrix, clone, conjugateTranspose, multiply, scale, zeros } from '@/lib/doa/linalg/complex';
 import {
   CovarianceAccumulator,
   forwardBackward,
@@ -11,7 +11,7 @@ import {
   singleSnapshotCovariance,
   spatialSmoothing,
 } from '@/lib/doa/covariance';
-import { simulateSnapshots } from '@/lib/doa/simulate';
+import { simulateSnapshots } from '@/lib/doa/sim/simulate';
 import { DoaInputError } from '@/lib/doa/errors';
 import { matrixFromJson, maxAbsDiff, JsonMatrix } from './helpers';
 
@@ -99,7 +99,7 @@ describe('smoothing, forward–backward, single-snapshot arrangement', () => {
   const x = simulateSnapshots({ elements: 9, spacingWavelengths: 0.5, bearingsDeg: [-30, 12], noisePower: 0.1, snapshots: 3, seed: 11 });
   const r = sampleCovariance(x);
 
-  it('spatial smoothing is the mean of the M−L+1 diagonal blocks (CONVENTIONS §2)', () => {
+  it('spatial smoothing is the mean of the M−L+1 diagonal blocks (docs/conventions.md §2)', () => {
     const s = spatialSmoothing(r, 6);
     expect(s.rows).toBe(6);
     for (let i = 0; i < 6; i++) for (let k = 0; k < 6; k++) {
@@ -123,7 +123,7 @@ describe('smoothing, forward–backward, single-snapshot arrangement', () => {
     }
   });
 
-  it('single-snapshot arrangement equals the literal Hankel form H·Hᴴ/(M−L+1), averaged (CONVENTIONS §2)', () => {
+  it('single-snapshot arrangement equals the literal Hankel form H·Hᴴ/(M−L+1), averaged (docs/conventions.md §2)', () => {
     const l = 5; // default ⌊9/2⌋+1
     const literal = zeros(l, l);
     for (let t = 0; t < x.cols; t++) {

@@ -1,10 +1,10 @@
 // estimateBearings: options, warnings with stable codes, bad input; simulation and metrics.
 import { describe, expect, it } from 'vitest';
-import { clone, fromNested, zeros } from '@/lib/doa/complex';
+import { clone, fromNested, zeros } from '@/lib/doa/linalg/complex';
 import { estimateBearings } from '@/lib/doa/estimate';
 import { DoaInputError } from '@/lib/doa/errors';
-import { simulateSnapshots, SeededRandom } from '@/lib/doa/simulate';
-import { matchingDistance, pairedRmse } from '@/lib/doa/metrics';
+import { simulateSnapshots, SeededRandom } from '@/lib/doa/sim/simulate';
+import { matchingDistance, pairedRmse } from '@/lib/doa/design/metrics';
 import { sampleCovariance } from '@/lib/doa/covariance';
 
 const codes = (r: { warnings: { code: string }[] }) => r.warnings.map((w) => w.code);

@@ -1,5 +1,5 @@
 // Shared test helpers for lib/doa (not a test file itself).
-import { ComplexMatrix, ComplexVector, zeros } from '@/lib/doa/complex';
+import { ComplexMatrix, ComplexVector, zeros } from '@/lib/doa/linalg/complex';
 
 export interface JsonMatrix { rows: number; cols: number; re: number[]; im: number[] }
 export interface JsonVector { re: number[]; im: number[] }
@@ -33,7 +33,7 @@ export function setDistance(a: ComplexVector, b: ComplexVector): number {
   return Math.max(one(a, b), one(b, a));
 }
 
-/** Steering matrix A (M × K), a_m(θ) = exp(j·2π·d·m·sin θ) (CONVENTIONS §1). */
+/** Steering matrix A (M × K), a_m(θ) = exp(j·2π·d·m·sin θ) (docs/conventions.md §1). */
 export function steeringMatrix(m: number, d: number, bearingsDeg: number[]): ComplexMatrix {
   const a = zeros(m, bearingsDeg.length);
   bearingsDeg.forEach((b, k) => {
@@ -69,7 +69,7 @@ export function exactCovariance(m: number, d: number, bearingsDeg: number[], pow
   return r;
 }
 
-/** Closed-form single-source stochastic CRB std in degrees (REFERENCES §5, Stoica & Nehorai 1990). */
+/** Closed-form single-source stochastic CRB std in degrees (docs/references.md §5, Stoica & Nehorai 1990). */
 export function singleSourceStochasticCrbDeg(m: number, n: number, snr: number, d = 0.5, thetaDeg = 0): number {
   const k = 2 * Math.PI * d * Math.cos((thetaDeg * Math.PI) / 180);
   const det = 6 / (n * snr * m * (m * m - 1) * k * k);

@@ -2,13 +2,13 @@
 // fixtures/doa/generate.py (seeded), plus invariants and bad input.
 import { describe, expect, it } from 'vitest';
 import fixtures from '@/fixtures/doa/linalg.json';
-import { ComplexMatrix, conjugateTranspose, multiply, subtract, frobeniusNorm, identity, clone, fromNested } from '@/lib/doa/complex';
-import { hermitianEigen } from '@/lib/doa/hermitian-eigen';
-import { symmetricEigen } from '@/lib/doa/symmetric-eigen';
-import { svd } from '@/lib/doa/svd';
-import { leastSquares, pseudoInverse } from '@/lib/doa/pseudo-inverse';
-import { generalEigenvalues, realGeneralEigenvalues } from '@/lib/doa/general-eigen';
-import { polynomialRoots } from '@/lib/doa/polynomial-roots';
+import { ComplexMatrix, conjugateTranspose, multiply, subtract, frobeniusNorm, identity, clone, fromNested } from '@/lib/doa/linalg/complex';
+import { hermitianEigen } from '@/lib/doa/linalg/hermitian-eigen';
+import { symmetricEigen } from '@/lib/doa/linalg/symmetric-eigen';
+import { svd } from '@/lib/doa/linalg/svd';
+import { leastSquares, pseudoInverse } from '@/lib/doa/linalg/pseudo-inverse';
+import { generalEigenvalues, realGeneralEigenvalues } from '@/lib/doa/linalg/general-eigen';
+import { polynomialRoots } from '@/lib/doa/linalg/polynomial-roots';
 import { DoaInputError } from '@/lib/doa/errors';
 import { matrixFromJson, maxAbsDiff, setDistance, vectorFromJson, JsonMatrix, JsonVector } from './helpers';
 

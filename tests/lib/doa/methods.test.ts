@@ -1,20 +1,20 @@
-// Methods of CONVENTIONS §4: numpy reference fixtures (fixtures/doa/generate.py, an
+// Methods of docs/conventions.md §4: numpy reference fixtures (fixtures/doa/generate.py, an
 // independent implementation of the conventions), noise-free exactness and the
-// identities of REFERENCES §7.
+// identities of docs/references.md §7.
 import { describe, expect, it } from 'vitest';
 import fixtures from '@/fixtures/doa/methods.json';
-import { clone } from '@/lib/doa/complex';
+import { clone } from '@/lib/doa/linalg/complex';
 import { estimateBearings } from '@/lib/doa/estimate';
-import { DOA_METHODS, DoaMethod, METHOD_RUNNERS } from '@/lib/doa/methods';
-import { hermitianEigen } from '@/lib/doa/hermitian-eigen';
-import { DEFAULT_GRID, gridAngles, pickPeaks } from '@/lib/doa/spectrum';
-import { musicDenominator } from '@/lib/doa/music';
-import { bartlettSpectrumValues, mvdrSpectrumValues } from '@/lib/doa/beamformers';
+import { DOA_METHODS, DoaMethod, METHOD_RUNNERS } from '@/lib/doa/methods/registry';
+import { hermitianEigen } from '@/lib/doa/linalg/hermitian-eigen';
+import { DEFAULT_GRID, gridAngles, pickPeaks } from '@/lib/doa/methods/spectrum';
+import { musicDenominator } from '@/lib/doa/methods/music';
+import { bartlettSpectrumValues, mvdrSpectrumValues } from '@/lib/doa/methods/beamformers';
 import { electricalAngleToBearing, bearingsFromElectricalAngles } from '@/lib/doa/angles';
-import { leftPiRealMatrix, unitaryEspritElectricalAngles } from '@/lib/doa/unitary-esprit';
-import { espritLsElectricalAngles, signalSubspace } from '@/lib/doa/esprit';
-import { conjugateTranspose, identity, multiply, subtract, frobeniusNorm } from '@/lib/doa/complex';
-import { simulateSnapshots } from '@/lib/doa/simulate';
+import { leftPiRealMatrix, unitaryEspritElectricalAngles } from '@/lib/doa/methods/unitary-esprit';
+import { espritLsElectricalAngles, signalSubspace } from '@/lib/doa/methods/esprit';
+import { conjugateTranspose, identity, multiply, subtract, frobeniusNorm } from '@/lib/doa/linalg/complex';
+import { simulateSnapshots } from '@/lib/doa/sim/simulate';
 import { sampleCovariance } from '@/lib/doa/covariance';
 import { exactCovariance, matrixFromJson, maxAbsDiff, JsonMatrix } from './helpers';
 
@@ -41,7 +41,7 @@ describe('agreement with the numpy reference on seeded noisy data', () => {
           expect(r.bearingsDeg.length).toBe(s.bearingsDeg[method].length);
           // Source: fixtures/doa/methods.json (numpy 2.4 / LAPACK). Tolerance 1e-6° absolute.
           expect(maxAbsDiff(r.bearingsDeg, s.bearingsDeg[method])).toBeLessThanOrEqual(1e-6);
-          // Bearings ascending (CONVENTIONS §4).
+          // Bearings ascending (docs/conventions.md §4).
           expect([...r.bearingsDeg].sort((a, b) => a - b)).toEqual(r.bearingsDeg);
           // Eigenvalues: 1e-12 relative to the largest.
           expect(maxAbsDiff(r.eigenvalues, s.eigenvalues)).toBeLessThan(1e-12 * s.eigenvalues[0]);
@@ -66,32 +66,32 @@ describe('agreement with the numpy reference on seeded noisy data', () => {
   }
 });
 
-describe('noise-free exactness with the exact covariance (REFERENCES §7)', () => {
-  // Setup from REFERENCES §7: M=8, d=λ/2, θ = (−20°, 10.5°, 35°), P = diag(1, 2, 0.5), σ² = 0.1.
+describe('noise-free exactness with the exact covariance (docs/references.md §7)', () => {
+  // Setup from docs/references.md §7: M=8, d=λ/2, θ = (−20°, 10.5°, 35°), P = diag(1, 2, 0.5), σ² = 0.1.
   const truth = [-20, 10.5, 35];
   const r = exactCovariance(8, 0.5, truth, [1, 2, 0.5], 0.1);
   const eig = hermitianEigen(r);
   const input = { covariance: r, eigenvalues: eig.values, eigenvectors: eig.vectors, sourceCount: 3, spacingWavelengths: 0.5, grid: DEFAULT_GRID };
 
   it('eigenvalues are 16.38799, 8.11510, 3.79691 and then σ² = 0.1 five times', () => {
-    // Source: REFERENCES §7 [computed]; printed to 5 decimals. Noise eigenvalues equal σ² (analytic).
+    // Source: docs/references.md §7 [computed]; printed to 5 decimals. Noise eigenvalues equal σ² (analytic).
     [16.38799, 8.1151, 3.79691].forEach((v, i) => expect(Math.abs(eig.values[i] - v)).toBeLessThan(5e-6));
     for (let i = 3; i < 8; i++) expect(Math.abs(eig.values[i] - 0.1)).toBeLessThan(1e-14);
   });
   for (const method of ['esprit-ls', 'esprit-tls', 'esprit-unitary'] as const) {
     it(`${method} returns the true bearings within 1e-9°`, () => {
-      // Source: REFERENCES §7 (error below 1e-12° there); the issue asks 1e-9°.
+      // Source: docs/references.md §7 (error below 1e-12° there); the issue asks 1e-9°.
       expect(maxAbsDiff(METHOD_RUNNERS[method](input).bearingsDeg, truth)).toBeLessThan(1e-9);
     });
   }
   it('root-MUSIC returns the true bearings within 1e-6° (double roots: ~1e-7° expected)', () => {
-    // Source: REFERENCES §7, "error about 1e-7°, use a tolerance of about 1e-6°".
+    // Source: docs/references.md §7, "error about 1e-7°, use a tolerance of about 1e-6°".
     expect(maxAbsDiff(METHOD_RUNNERS['root-music'](input).bearingsDeg, truth)).toBeLessThan(1e-6);
   });
   it('music peaks fall exactly on the true grid points (MVDR and Bartlett are biased for several sources)', () => {
     expect(METHOD_RUNNERS.music(input).bearingsDeg).toEqual(truth);
   });
-  it('the MUSIC denominator at the true angles is at rounding level (about 1e-30, REFERENCES §7)', () => {
+  it('the MUSIC denominator at the true angles is at rounding level (about 1e-30, docs/references.md §7)', () => {
     const den = musicDenominator(eig.vectors, 3, 0.5, Float64Array.from(truth));
     for (const v of den) expect(v).toBeLessThan(1e-26);
   });
@@ -111,7 +111,7 @@ describe('noise-free exactness with the exact covariance (REFERENCES §7)', () =
   });
 });
 
-describe('single-source identities (REFERENCES §7)', () => {
+describe('single-source identities (docs/references.md §7)', () => {
   // One source p = 1, σ² = 0.1, M = 10, θ = 20°, exact covariance.
   const r = exactCovariance(10, 0.5, [20], [1], 0.1);
   const eig = hermitianEigen(r);
@@ -119,7 +119,7 @@ describe('single-source identities (REFERENCES §7)', () => {
   it('MVDR: P = p + σ²/M = 1.01 at the source and 0.0100055 at −40°', () => {
     const p = mvdrSpectrumValues(eig.values, eig.vectors, 0.5, angles).values;
     expect(p[0]).toBeCloseTo(1.01, 12); // derived: 1/(aᴴR⁻¹a) = p + σ²/M
-    expect(Math.abs(p[1] - 0.0100055)).toBeLessThan(5e-8); // REFERENCES §7 [computed], 6 significant digits
+    expect(Math.abs(p[1] - 0.0100055)).toBeLessThan(5e-8); // docs/references.md §7 [computed], 6 significant digits
   });
   it('MVDR and Bartlett peak exactly at the single source (|a0ᴴa| is largest there; derived)', () => {
     const one = { covariance: r, eigenvalues: eig.values, eigenvectors: eig.vectors, sourceCount: 1, spacingWavelengths: 0.5, grid: DEFAULT_GRID };
@@ -161,7 +161,7 @@ describe('spectrum evaluation: Horner on diagonal sums vs the direct formula', (
 });
 
 describe('angle mapping and peak rules', () => {
-  it('clips |μ/(2πd)| > 1 to ±90° and says so (CONVENTIONS §1)', () => {
+  it('clips |μ/(2πd)| > 1 to ±90° and says so (docs/conventions.md §1)', () => {
     expect(electricalAngleToBearing(Math.PI * 1.2, 0.5)).toEqual({ bearingDeg: 90, clipped: true });
     expect(electricalAngleToBearing(-Math.PI * 1.2, 0.5)).toEqual({ bearingDeg: -90, clipped: true });
     const b = electricalAngleToBearing(Math.PI * Math.sin(Math.PI / 6), 0.5);
@@ -180,7 +180,7 @@ describe('angle mapping and peak rules', () => {
     expect(out.warnings.map((w) => w.code)).toEqual(['angle-clipped']);
     expect(Math.abs(espritLsElectricalAngles(signalSubspace(eig.vectors, 1))[0] - 0.9 * Math.PI)).toBeLessThan(1e-12);
   });
-  it('peaks: strict rise then ≥, K largest, ties to the lower index, returned ascending (CONVENTIONS §4)', () => {
+  it('peaks: strict rise then ≥, K largest, ties to the lower index, returned ascending (docs/conventions.md §4)', () => {
     expect(pickPeaks([0, 3, 3, 0, 5, 1, 2, 2, 1], 3)).toEqual([1, 4, 6]);
     expect(pickPeaks([0, 2, 1, 2, 1], 1)).toEqual([1]); // tie → lower index
     expect(pickPeaks([1, 2, 3], 2)).toEqual([]); // endpoints are never peaks

@@ -1,5 +1,5 @@
 // Seeded Monte Carlo: LS-ESPRIT efficiency with and without spatial smoothing,
-// against the closed-form single-source stochastic CRB (REFERENCES §5, Stoica &
+// against the closed-form single-source stochastic CRB (docs/references.md §5, Stoica &
 // Nehorai 1990). One source at broadside, 0 dB per element, N = 100, d = λ/2,
 // M from 8 to 64, 200 trials per M.
 //  - With forward spatial smoothing at L = ⌈2M/3⌉ the error follows the CRB
@@ -11,12 +11,12 @@
 // Subarray choice: ⌈2M/3⌉ rather than round(2M/3); at M = 8 rounding down to
 // L = 5 measured 1.24 × √CRB in a 1000-trial numpy run, at the edge of 1.25.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { simulateSnapshots } from '@/lib/doa/simulate';
+import { simulateSnapshots } from '@/lib/doa/sim/simulate';
 import { sampleCovariance, spatialSmoothing } from '@/lib/doa/covariance';
-import { hermitianEigen } from '@/lib/doa/hermitian-eigen';
-import { espritLsElectricalAngles, signalSubspace } from '@/lib/doa/esprit';
+import { hermitianEigen } from '@/lib/doa/linalg/hermitian-eigen';
+import { espritLsElectricalAngles, signalSubspace } from '@/lib/doa/methods/esprit';
 import { bearingsFromElectricalAngles } from '@/lib/doa/angles';
-import { recommendedSmoothingSubarray } from '@/lib/doa/methods';
+import { recommendedSmoothingSubarray } from '@/lib/doa/methods/registry';
 import { logLogSlope, singleSourceStochasticCrbDeg } from './helpers';
 
 const ELEMENTS = [8, 12, 16, 24, 32, 48, 64];

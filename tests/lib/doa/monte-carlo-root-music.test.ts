@@ -1,14 +1,14 @@
 // Seeded Monte Carlo: root-MUSIC efficiency against the closed-form single-source
-// stochastic CRB (REFERENCES §5, Stoica & Nehorai 1990), and MDL detection rate.
+// stochastic CRB (docs/references.md §5, Stoica & Nehorai 1990), and MDL detection rate.
 // Scenario from issue 3: one source at broadside, 0 dB per element, N = 100,
 // d = λ/2, M from 8 to 64; 200 trials per M (RMSE ratio standard error ≈ 5 %).
 import { describe, expect, it } from 'vitest';
-import { simulateSnapshots } from '@/lib/doa/simulate';
+import { simulateSnapshots } from '@/lib/doa/sim/simulate';
 import { sampleCovariance } from '@/lib/doa/covariance';
-import { hermitianEigen } from '@/lib/doa/hermitian-eigen';
-import { rootMusicElectricalAngles } from '@/lib/doa/root-music';
+import { hermitianEigen } from '@/lib/doa/linalg/hermitian-eigen';
+import { rootMusicElectricalAngles } from '@/lib/doa/methods/root-music';
 import { bearingsFromElectricalAngles } from '@/lib/doa/angles';
-import { estimateSourceCount } from '@/lib/doa/source-count';
+import { estimateSourceCount } from '@/lib/doa/methods/source-count';
 import { logLogSlope, singleSourceStochasticCrbDeg } from './helpers';
 
 const ELEMENTS = [8, 12, 16, 24, 32, 48, 64];
@@ -35,7 +35,7 @@ describe('root-MUSIC Monte Carlo (single source, 0 dB, N = 100)', () => {
     for (const r of ratios) expect(r).toBeLessThan(1.15);
     expect(slope).toBeGreaterThan(-1.6);
     expect(slope).toBeLessThan(-1.4);
-    // Sanity: the CRB check value of REFERENCES §5 (M=10, N=100, 0 dB: 0.148911°).
+    // Sanity: the CRB check value of docs/references.md §5 (M=10, N=100, 0 dB: 0.148911°).
     expect(singleSourceStochasticCrbDeg(10, 100, 1)).toBeCloseTo(0.148911, 6);
   });
 });

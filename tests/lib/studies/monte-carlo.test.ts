@@ -1,10 +1,10 @@
 // Monte Carlo studies (lib/studies/monte-carlo.ts) against published bounds.
 // Sources:
-//  - closed-form single-source stochastic CRB for a ULA (REFERENCES §5, after
+//  - closed-form single-source stochastic CRB for a ULA (docs/references.md §5, after
 //    Stoica & Nehorai 1990): CRB_sto = 6 / [N·SNR·M(M²−1)·(2π·d·cosθ)²] · (1 + 1/(M·SNR)) rad²,
 //    check value M=10, N=100, 0 dB, d=λ/2, θ=0: 0.148911°;
-//  - error scaling std ∝ M^(−3/2) at fixed d (REFERENCES §9);
-//  - the matrix-form stochastic CRB of lib/doa/bounds.ts (itself tested against REFERENCES §5).
+//  - error scaling std ∝ M^(−3/2) at fixed d (docs/references.md §9);
+//  - the matrix-form stochastic CRB of lib/doa/bounds.ts (itself tested against docs/references.md §5).
 import { describe, expect, it } from 'vitest';
 import { stochasticCrb } from '@/lib/doa/bounds';
 import {
@@ -17,7 +17,7 @@ import {
   type StudySpec,
 } from '@/lib/studies/monte-carlo';
 
-/** REFERENCES §5 closed form, degrees. */
+/** docs/references.md §5 closed form, degrees. */
 function closedFormStochasticCrbDeg(m: number, n: number, snrLinear: number, d = 0.5, thetaDeg = 0): number {
   const g = 2 * Math.PI * d * Math.cos((thetaDeg * Math.PI) / 180);
   const det = 6 / (n * snrLinear * m * (m * m - 1) * g * g);
@@ -36,10 +36,10 @@ const base: StudySpec = {
   seed: 2024,
 };
 
-describe('single source, M = 10, N = 100, SNR sweep 0–10 dB (REFERENCES §5)', () => {
+describe('single source, M = 10, N = 100, SNR sweep 0–10 dB (docs/references.md §5)', () => {
   it('root-MUSIC RMSE stays within 1.15 × √CRB and the CRB column is the closed form', async () => {
     const result = await runStudy(base);
-    // The closed-form check value of REFERENCES §5 (M=10, N=100, 0 dB): 0.148911°.
+    // The closed-form check value of docs/references.md §5 (M=10, N=100, 0 dB): 0.148911°.
     expect(closedFormStochasticCrbDeg(10, 100, 1)).toBeCloseTo(0.148911, 6);
     const ratios = result.points.map((p) => p.methods[0].rmseDeg / p.crbStdDeg[0]);
     console.info('root-MUSIC RMSE/√CRB at 0, 5, 10 dB:', ratios.map((r) => r.toFixed(3)).join(' '));
@@ -52,7 +52,7 @@ describe('single source, M = 10, N = 100, SNR sweep 0–10 dB (REFERENCES §5)',
       expect(p.methods[0].outlierRate).toBe(0);
       expect(p.methods[0].resolutionProbability).toBeNull();
     }
-    // The SNR slope of √CRB_sto lies between −0.5 (high SNR) and −1 (low SNR) (REFERENCES §9).
+    // The SNR slope of √CRB_sto lies between −0.5 (high SNR) and −1 (low SNR) (docs/references.md §9).
     const crbSlope = result.slopes.find((s) => s.method === 'crb')!.slope!;
     expect(crbSlope).toBeLessThan(-0.5);
     expect(crbSlope).toBeGreaterThan(-0.6);
@@ -72,7 +72,7 @@ describe('CRB column', () => {
   });
 });
 
-describe('element-count sweep (REFERENCES §9: std ∝ M^−1.5)', () => {
+describe('element-count sweep (docs/references.md §9: std ∝ M^−1.5)', () => {
   it('root-MUSIC RMSE has a log–log slope near −1.5 against M', async () => {
     const spec: StudySpec = { ...base, sweep: { variable: 'elements', values: [8, 12, 16, 24, 32] }, trials: 200 };
     const result = await runStudy(spec);

@@ -5,10 +5,10 @@ import { ArrayHandoffSection } from '@/components/handoff/array-handoff-section'
 import { formatWhen } from '@/components/arrays/format';
 import { PageHeader } from '@/components/ui/page-header';
 import { Refusal } from '@/components/ui/refusal';
-import { ApiError } from '@/lib/api';
+import { ApiError } from '@/lib/http';
 import { requirePagePermission } from '@/lib/auth';
 import { getArray, type ArrayDetailDto } from '@/lib/data/arrays';
-import { can, refusalMessage } from '@/lib/permissions';
+import { can, refusalMessage } from '@/lib/auth/permissions';
 
 export const metadata = { title: 'Array' };
 

@@ -9,9 +9,9 @@ import { ChannelPowerChart, CovarianceHeatmap, EigenvalueChart } from '@/compone
 import { PreviewTable } from '@/components/datasets/preview-table';
 import { DeleteDatasetButton } from '@/components/datasets/delete-button';
 import { formatSize } from '@/components/datasets/format';
-import { ApiError } from '@/lib/api';
+import { ApiError } from '@/lib/http';
 import { requirePagePermission } from '@/lib/auth';
-import { can } from '@/lib/permissions';
+import { can } from '@/lib/auth/permissions';
 import { getDataset } from '@/lib/data/datasets';
 
 export const dynamic = 'force-dynamic';

@@ -3,9 +3,9 @@ import { notFound } from 'next/navigation';
 import { PageHeader } from '@/components/ui/page-header';
 import { Refusal } from '@/components/ui/refusal';
 import { StudyView } from '@/components/studies/study-view';
-import { ApiError } from '@/lib/api';
+import { ApiError } from '@/lib/http';
 import { requirePagePermission } from '@/lib/auth';
-import { can } from '@/lib/permissions';
+import { can } from '@/lib/auth/permissions';
 import { getStudy } from '@/lib/data/studies';
 
 export const dynamic = 'force-dynamic';

@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { getCaller } from '@/lib/auth';
 import { createToken, listTokens } from '@/lib/data/account';
 import { tokenCreateSchema } from '@/lib/validations/account';

@@ -1,6 +1,6 @@
 import NextAuth from 'next-auth';
 import { authOptions } from '@/lib/auth';
-import { handleSignInLimit } from '@/lib/sign-in-limit';
+import { handleSignInLimit } from '@/lib/auth/sign-in-limit';
 
 const nextAuthHandler = NextAuth(authOptions);
 

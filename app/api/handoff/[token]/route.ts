@@ -1,4 +1,4 @@
-import { ApiError, toErrorResponse } from '@/lib/api';
+import { ApiError, toErrorResponse } from '@/lib/http';
 import { downloadHandoff } from '@/lib/data/handoffs';
 
 type Ctx = { params: Promise<{ token: string }> };

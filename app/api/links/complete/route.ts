@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { completeLink } from '@/lib/data/links';
 import { linkCompleteSchema } from '@/lib/validations/account';
 

@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { createInvitation, listInvitations } from '@/lib/data/links';
 import { invitationSchema } from '@/lib/validations/team';

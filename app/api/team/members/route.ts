@@ -1,4 +1,4 @@
-import { handle } from '@/lib/api';
+import { handle } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { listMembers } from '@/lib/data/team';
 

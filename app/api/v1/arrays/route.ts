@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { createArray, listArrays } from '@/lib/data/arrays';
 

@@ -1,4 +1,4 @@
-import { handle } from '@/lib/api';
+import { handle } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { importBundle, receiveBundle } from '@/lib/handoff/import';
 

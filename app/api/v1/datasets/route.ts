@@ -1,4 +1,4 @@
-import { ApiError, handle } from '@/lib/api';
+import { ApiError, handle } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { createDataset, createdBody, datasetErrorToApi, listDatasets } from '@/lib/data/datasets';
 import { DatasetError } from '@/lib/datasets';
@@ -13,7 +13,7 @@ export const GET = handle(async (req) => {
 });
 
 /**
- * POST /api/v1/datasets (CONVENTIONS §7): multipart `file` plus optional
+ * POST /api/v1/datasets (docs/conventions.md §7): multipart `file` plus optional
  * fields. The body is streamed to a temp file while hashed, parsed, then
  * moved into place with its row in one transaction; any failure leaves
  * neither a row nor a file.

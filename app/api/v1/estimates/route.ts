@@ -1,4 +1,4 @@
-import { handle, parseBody, readJson } from '@/lib/api';
+import { handle, parseBody, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { listEstimateRuns, submitEstimate, v1Answer } from '@/lib/data/estimates';
 import { estimateRequestSchema } from '@/lib/validations/estimate';
@@ -17,7 +17,7 @@ function wantsAsync(req: Request): boolean {
 }
 
 /**
- * POST /api/v1/estimates (CONVENTIONS §7). By default the request waits for
+ * POST /api/v1/estimates (docs/conventions.md §7). By default the request waits for
  * the run and answers 201 with the §7 body. With `Prefer: respond-async` it
  * answers 202 with the queued run at once; poll GET /api/v1/estimates/{id}.
  */

@@ -1,7 +1,7 @@
-import { handle } from '@/lib/api';
-import { openApiDocument } from '@/lib/openapi';
+import { handle } from '@/lib/http';
+import { openApiDocument } from '@/lib/http/openapi';
 
 export const dynamic = 'force-dynamic';
 
-/** The OpenAPI 3.1 description of the v1 API; no authentication (CONVENTIONS §7). */
+/** The OpenAPI 3.1 description of the v1 API; no authentication (docs/conventions.md §7). */
 export const GET = handle(async () => Response.json(openApiDocument()));

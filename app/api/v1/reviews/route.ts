@@ -1,4 +1,4 @@
-import { handle, readJson } from '@/lib/api';
+import { handle, readJson } from '@/lib/http';
 import { getCaller, requireApiPermission } from '@/lib/auth';
 import { createReview, listReviews } from '@/lib/data/reviews';
 import { reviewCreateSchema, reviewQuerySchema } from '@/lib/handoff/validation';

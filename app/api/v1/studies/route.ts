@@ -1,4 +1,4 @@
-import { handle, parseBody, readJson } from '@/lib/api';
+import { handle, parseBody, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { createStudy, listStudies } from '@/lib/data/studies';
 import { studyRequestSchema } from '@/lib/validations/study';

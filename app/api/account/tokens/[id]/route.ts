@@ -1,4 +1,4 @@
-import { handle, parseId } from '@/lib/api';
+import { handle, parseId } from '@/lib/http';
 import { getCaller } from '@/lib/auth';
 import { revokeToken } from '@/lib/data/account';
 

@@ -1,4 +1,4 @@
-import { handle, parseId, readJson } from '@/lib/api';
+import { handle, parseId, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { removeMember, updateMemberRole } from '@/lib/data/team';
 import { memberUpdateSchema } from '@/lib/validations/team';

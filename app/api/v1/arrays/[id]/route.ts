@@ -1,4 +1,4 @@
-import { handle, parseId, readJson } from '@/lib/api';
+import { handle, parseId, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { getArray, updateArray } from '@/lib/data/arrays';
 

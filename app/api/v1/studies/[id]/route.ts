@@ -1,4 +1,4 @@
-import { handle, parseId } from '@/lib/api';
+import { handle, parseId } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { deleteStudy, getStudy } from '@/lib/data/studies';
 
