@@ -27,7 +27,11 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: 'unit', include: ['tests/**/*.test.ts'], exclude: ['tests/api/**', 'tests/e2e/**', '**/node_modules/**'] },
+        test: {
+          name: 'unit',
+          include: ['tests/**/*.test.ts'],
+          exclude: ['tests/api/**', 'tests/e2e/**', '**/node_modules/**'],
+        },
       },
       {
         extends: true,

@@ -14,7 +14,22 @@ import { Review } from './review';
 import { Handoff } from './handoff';
 import { Study } from './study';
 
-export { Team, User, ApiToken, AuthLink, AuditEvent, OutboxMessage, RateLimit, ArrayDesign, ArrayRevision, Dataset, EstimateRun, Review, Handoff, Study };
+export {
+  Team,
+  User,
+  ApiToken,
+  AuthLink,
+  AuditEvent,
+  OutboxMessage,
+  RateLimit,
+  ArrayDesign,
+  ArrayRevision,
+  Dataset,
+  EstimateRun,
+  Review,
+  Handoff,
+  Study,
+};
 export type { StudyStatus } from './study';
 export type { RunStatus } from './estimate-run';
 export { runStatuses } from './estimate-run';

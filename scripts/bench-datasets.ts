@@ -78,7 +78,12 @@ async function main(): Promise<void> {
     const timer = setInterval(sample, 20);
     const cpu0 = process.cpuUsage();
     const t0 = process.hrtime.bigint();
-    const parsed = await parseSnapshotFile({ path: file, maxBytes: Math.max(size + 1, 200 * 1024 * 1024), maxValues: 2 ** 28, onProgress: sample });
+    const parsed = await parseSnapshotFile({
+      path: file,
+      maxBytes: Math.max(size + 1, 200 * 1024 * 1024),
+      maxValues: 2 ** 28,
+      onProgress: sample,
+    });
     const seconds = Number(process.hrtime.bigint() - t0) / 1e9;
     const cpu = process.cpuUsage(cpu0);
     const cpuSeconds = (cpu.user + cpu.system) / 1e6;
@@ -91,13 +96,23 @@ async function main(): Promise<void> {
 
     const outputMb = (parsed.re.byteLength + parsed.im.byteLength) / MB;
     const mib = (n: number) => `${(n / 1024 / 1024).toFixed(0)} MiB`;
-    console.log(`parsed ${parsed.snapshots} × ${parsed.elements} in ${seconds.toFixed(2)} s: ${(size / MB / seconds).toFixed(1)} MB/s`);
-    console.log(`CPU time ${cpuSeconds.toFixed(2)} s: ${(size / MB / cpuSeconds).toFixed(1)} MB per CPU-second (less sensitive to a busy machine; includes GC threads)`);
+    console.log(
+      `parsed ${parsed.snapshots} × ${parsed.elements} in ${seconds.toFixed(2)} s: ${(size / MB / seconds).toFixed(1)} MB/s`,
+    );
+    console.log(
+      `CPU time ${cpuSeconds.toFixed(2)} s: ${(size / MB / cpuSeconds).toFixed(1)} MB per CPU-second (less sensitive to a busy machine; includes GC threads)`,
+    );
     console.log(`output arrays (re + im): ${outputMb.toFixed(1)} MB`);
-    console.log(`memory before parse: rss ${mib(base.rss)}, heap ${mib(base.heapUsed)}, arrayBuffers ${mib(base.arrayBuffers)}`);
-    console.log(`peak during parse:   rss ${mib(peak.rss)}, heap ${mib(peak.heapUsed)}, arrayBuffers ${mib(peak.arrayBuffers)}`);
+    console.log(
+      `memory before parse: rss ${mib(base.rss)}, heap ${mib(base.heapUsed)}, arrayBuffers ${mib(base.arrayBuffers)}`,
+    );
+    console.log(
+      `peak during parse:   rss ${mib(peak.rss)}, heap ${mib(peak.heapUsed)}, arrayBuffers ${mib(peak.arrayBuffers)}`,
+    );
     console.log(`process maxRSS (getrusage, whole run): ${mib(process.resourceUsage().maxRSS * 1024)}`);
-    console.log(`sha256 ${digest.slice(0, 16)}… in ${hashSeconds.toFixed(2)} s: ${(size / MB / hashSeconds).toFixed(0)} MB/s`);
+    console.log(
+      `sha256 ${digest.slice(0, 16)}… in ${hashSeconds.toFixed(2)} s: ${(size / MB / hashSeconds).toFixed(0)} MB/s`,
+    );
   } finally {
     await fsp.rm(dir, { recursive: true, force: true });
   }

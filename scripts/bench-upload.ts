@@ -20,7 +20,8 @@ import { SeededRandom } from '../lib/doa/sim/simulate';
 // `server-only` throws outside Next's server build; here the route runs in plain Node.
 const resolver = Module as unknown as { _resolveFilename: (request: string, ...rest: unknown[]) => string };
 const original = resolver._resolveFilename;
-resolver._resolveFilename = (request, ...rest) => original(request === 'server-only' ? path.resolve('node_modules/server-only/empty.js') : request, ...rest);
+resolver._resolveFilename = (request, ...rest) =>
+  original(request === 'server-only' ? path.resolve('node_modules/server-only/empty.js') : request, ...rest);
 
 const MB = 1e6;
 const targetMb = Number(process.argv[2] ?? 100);
@@ -47,7 +48,12 @@ async function main() {
   await migrateUp(db);
   await seedDemo(db);
   const engineer = (await User.findOne({ where: { email: 'engineer@steerwise.test' } }))!;
-  await ApiToken.create({ userId: engineer.id, name: 'bench', tokenHash: sha256Hex('bench-token'), prefix: 'bench' } as never);
+  await ApiToken.create({
+    userId: engineer.id,
+    name: 'bench',
+    tokenHash: sha256Hex('bench-token'),
+    prefix: 'bench',
+  } as never);
 
   const csv = path.join(dir, 'big.csv');
   const out = fs.createWriteStream(csv);
@@ -73,7 +79,9 @@ async function main() {
 
   const { POST } = await import('../app/api/v1/datasets/route');
   const boundary = 'benchboundary';
-  const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="big.csv"\r\nContent-Type: text/csv\r\n\r\n`);
+  const head = Buffer.from(
+    `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="big.csv"\r\nContent-Type: text/csv\r\n\r\n`,
+  );
   const tail = Buffer.from(`\r\n--${boundary}--\r\n`);
   async function* body() {
     yield head;
@@ -93,7 +101,12 @@ async function main() {
   const t0 = performance.now();
   const cpu0 = process.cpuUsage();
   const res = await POST(
-    new Request('http://localhost/api/v1/datasets', { method: 'POST', body: stream, duplex: 'half', headers: { authorization: 'Bearer bench-token', 'content-type': `multipart/form-data; boundary=${boundary}` } } as RequestInit),
+    new Request('http://localhost/api/v1/datasets', {
+      method: 'POST',
+      body: stream,
+      duplex: 'half',
+      headers: { authorization: 'Bearer bench-token', 'content-type': `multipart/form-data; boundary=${boundary}` },
+    } as RequestInit),
     { params: Promise.resolve({}) },
   );
   const seconds = (performance.now() - t0) / 1000;
@@ -101,29 +114,58 @@ async function main() {
   clearInterval(timer);
   const answer = await res.json();
   console.log(`upload route: ${res.status} ${JSON.stringify(answer).slice(0, 160)}`);
-  console.log(`file ${(size / MB).toFixed(1)} MB, ${elements} elements: ${seconds.toFixed(2)} s wall (${(size / MB / seconds).toFixed(1)} MB/s), CPU ${((cpu.user + cpu.system) / 1e6).toFixed(2)} s (${(size / MB / ((cpu.user + cpu.system) / 1e6)).toFixed(1)} MB/s of CPU)`);
-  console.log(`memory: RSS before ${(base.rss / MB).toFixed(0)} MB, peak ${(peakRss / MB).toFixed(0)} MB; ArrayBuffers peak ${(peakBuffers / MB).toFixed(0)} MB; maxRSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+  console.log(
+    `file ${(size / MB).toFixed(1)} MB, ${elements} elements: ${seconds.toFixed(2)} s wall (${(size / MB / seconds).toFixed(1)} MB/s), CPU ${((cpu.user + cpu.system) / 1e6).toFixed(2)} s (${(size / MB / ((cpu.user + cpu.system) / 1e6)).toFixed(1)} MB/s of CPU)`,
+  );
+  console.log(
+    `memory: RSS before ${(base.rss / MB).toFixed(0)} MB, peak ${(peakRss / MB).toFixed(0)} MB; ArrayBuffers peak ${(peakBuffers / MB).toFixed(0)} MB; maxRSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`,
+  );
 
   // Time per method of a run on the demo harbour line (16 × 400): how long each step holds the event loop.
   const { runMethod, usedCovariance } = await import('../lib/jobs/estimate-run');
   const { simulateSnapshots, DOA_METHODS } = await import('../lib/doa');
-  const x = simulateSnapshots({ elements: 16, spacingWavelengths: 0.5, bearingsDeg: [-23, 31.5], powers: [1, 2.5], noisePower: 0.5, snapshots: 400, seed: 4101 });
+  const x = simulateSnapshots({
+    elements: 16,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [-23, 31.5],
+    powers: [1, 2.5],
+    noisePower: 0.5,
+    snapshots: 400,
+    seed: 4101,
+  });
   const rows = { rows: 400, cols: 16, re: new Float64Array(400 * 16), im: new Float64Array(400 * 16) };
-  for (let n = 0; n < 400; n++) for (let m = 0; m < 16; m++) {
-    rows.re[n * 16 + m] = x.re[m * 400 + n];
-    rows.im[n * 16 + m] = x.im[m * 400 + n];
-  }
+  for (let n = 0; n < 400; n++)
+    for (let m = 0; m < 16; m++) {
+      rows.re[n * 16 + m] = x.re[m * 400 + n];
+      rows.im[n * 16 + m] = x.im[m * 400 + n];
+    }
   const cov = usedCovariance(rows, {});
   for (const method of DOA_METHODS) {
-    runMethod({ rows, elements: 16, spacingWavelengths: 0.5, method, options: { includeSpectrum: true }, covariance: cov }); // warm-up
+    runMethod({
+      rows,
+      elements: 16,
+      spacingWavelengths: 0.5,
+      method,
+      options: { includeSpectrum: true },
+      covariance: cov,
+    }); // warm-up
     const times: number[] = [];
     for (let i = 0; i < 5; i++) {
       const t = performance.now();
-      runMethod({ rows, elements: 16, spacingWavelengths: 0.5, method, options: { includeSpectrum: true }, covariance: cov });
+      runMethod({
+        rows,
+        elements: 16,
+        spacingWavelengths: 0.5,
+        method,
+        options: { includeSpectrum: true },
+        covariance: cov,
+      });
       times.push(performance.now() - t);
     }
     times.sort((a, b) => a - b);
-    console.log(`run step ${method.padEnd(15)} median ${times[2].toFixed(1)} ms (min ${times[0].toFixed(1)}, max ${times[4].toFixed(1)}), 16 elements × 400 snapshots, with spectrum`);
+    console.log(
+      `run step ${method.padEnd(15)} median ${times[2].toFixed(1)} ms (min ${times[0].toFixed(1)}, max ${times[4].toFixed(1)}), 16 elements × 400 snapshots, with spectrum`,
+    );
   }
   const { closeDb } = await import('../lib/db');
   await closeDb();

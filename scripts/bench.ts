@@ -52,15 +52,37 @@ function pipeline(x: ComplexMatrix): number[] {
   return bearingsFromElectricalAngles(espritLsElectricalAngles(signalSubspace(eig.vectors, 2)), 0.5).bearingsDeg;
 }
 
-interface Case { name: string; run: () => unknown; reps: number }
+interface Case {
+  name: string;
+  run: () => unknown;
+  reps: number;
+}
 
 const cases: Case[] = [];
-for (const [m, n] of [[16, 1000], [64, 10000], [128, 20000]] as const) {
-  const x = simulateSnapshots({ elements: m, spacingWavelengths: 0.5, bearingsDeg: [-20, 15], noisePower: 1, snapshots: n, seed: 1 });
+for (const [m, n] of [
+  [16, 1000],
+  [64, 10000],
+  [128, 20000],
+] as const) {
+  const x = simulateSnapshots({
+    elements: m,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [-20, 15],
+    noisePower: 1,
+    snapshots: n,
+    seed: 1,
+  });
   cases.push({ name: `pipeline-${m}x${n}`, run: () => pipeline(x), reps: m * n <= 100000 ? 30 : 9 });
 }
 {
-  const x = simulateSnapshots({ elements: 64, spacingWavelengths: 0.5, bearingsDeg: [-20, 15], noisePower: 1, snapshots: 1000, seed: 2 });
+  const x = simulateSnapshots({
+    elements: 64,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [-20, 15],
+    noisePower: 1,
+    snapshots: 1000,
+    seed: 2,
+  });
   const r = sampleCovariance(x);
   cases.push({
     name: 'music-64-18001',
@@ -96,7 +118,9 @@ if (!skipNumpy) {
         console.log(JSON.stringify(row));
         console.log(JSON.stringify({ case: row.case, ratio }));
       } else {
-        console.log(`${row.case.padEnd(20)} numpy ${row.numpyMedianMs.toFixed(2).padStart(10)} ms   ratio ${ratio.toFixed(2)}×`);
+        console.log(
+          `${row.case.padEnd(20)} numpy ${row.numpyMedianMs.toFixed(2).padStart(10)} ms   ratio ${ratio.toFixed(2)}×`,
+        );
       }
     }
   }

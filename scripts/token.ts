@@ -22,9 +22,18 @@ async function main() {
     const secret = randomSecret('sw_', 32);
     const name = values.name?.trim() || `operator token ${new Date().toISOString().slice(0, 10)}`;
     await sequelize.transaction(async (transaction) => {
-      const token = await ApiToken.create({ userId: user.id, name, tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9) }, { transaction });
+      const token = await ApiToken.create(
+        { userId: user.id, name, tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9) },
+        { transaction },
+      );
       await AuditEvent.create(
-        { teamId: user.teamId as number, userId: null, action: 'token.created', target: name, detail: { tokenId: token.id, prefix: token.prefix, forUserId: user.id, via: 'operator command' } },
+        {
+          teamId: user.teamId as number,
+          userId: null,
+          action: 'token.created',
+          target: name,
+          detail: { tokenId: token.id, prefix: token.prefix, forUserId: user.id, via: 'operator command' },
+        },
         { transaction },
       );
     });

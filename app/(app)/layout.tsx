@@ -11,7 +11,10 @@ export default async function AppLayout({ children }: { children: React.ReactNod
   const team = await Team.findByPk(user.teamId);
   return (
     <div className="lg:flex lg:bg-[linear-gradient(to_right,#0a121b_16rem,transparent_16rem)]">
-      <a href="#main" className="absolute top-2 left-2 z-50 -translate-y-20 rounded-md bg-white px-3 py-2 text-sm font-medium text-ink-900 shadow-card transition-transform focus:translate-y-0">
+      <a
+        href="#main"
+        className="absolute top-2 left-2 z-50 -translate-y-20 rounded-md bg-white px-3 py-2 text-sm font-medium text-ink-900 shadow-card transition-transform focus:translate-y-0"
+      >
         Skip to content
       </a>
       <NavRail user={{ name: user.name, email: user.email, role: user.role, teamName: team?.name ?? '' }} />

@@ -17,7 +17,10 @@ export function PasswordForm() {
       return;
     }
     try {
-      await apiSend('POST', '/api/account/password', { currentPassword: data.get('current-password'), newPassword: data.get('new-password') });
+      await apiSend('POST', '/api/account/password', {
+        currentPassword: data.get('current-password'),
+        newPassword: data.get('new-password'),
+      });
       setMessage({ tone: 'ok', text: 'Password changed.' });
       form.reset();
     } catch (err) {
@@ -27,9 +30,31 @@ export function PasswordForm() {
   }
   return (
     <form onSubmit={onSubmit} className="space-y-4 px-5 py-4" noValidate>
-      <Field id="current-password" label="Current password" type="password" autoComplete="current-password" required error={fields.currentPassword?.[0]} />
-      <Field id="new-password" label="New password" type="password" autoComplete="new-password" required hint="At least 10 characters." error={fields.newPassword?.[0]} />
-      <Field id="confirm-password" label="New password again" type="password" autoComplete="new-password" required error={fields.confirm?.[0]} />
+      <Field
+        id="current-password"
+        label="Current password"
+        type="password"
+        autoComplete="current-password"
+        required
+        error={fields.currentPassword?.[0]}
+      />
+      <Field
+        id="new-password"
+        label="New password"
+        type="password"
+        autoComplete="new-password"
+        required
+        hint="At least 10 characters."
+        error={fields.newPassword?.[0]}
+      />
+      <Field
+        id="confirm-password"
+        label="New password again"
+        type="password"
+        autoComplete="new-password"
+        required
+        error={fields.confirm?.[0]}
+      />
       {message ? <FormMessage tone={message.tone}>{message.text}</FormMessage> : null}
       <Button type="submit">Change password</Button>
     </form>

@@ -24,7 +24,14 @@ export function ProfileForm({ name, email }: { name: string; email: string }) {
   }
   return (
     <form onSubmit={onSubmit} className="space-y-4 px-5 py-4" noValidate>
-      <Field id="profile-email" label="E-mail" value={email} readOnly disabled hint="Your sign-in address. Ask an admin to change it." />
+      <Field
+        id="profile-email"
+        label="E-mail"
+        value={email}
+        readOnly
+        disabled
+        hint="Your sign-in address. Ask an admin to change it."
+      />
       <Field id="profile-name" label="Name" defaultValue={name} required autoComplete="name" error={fields.name?.[0]} />
       {message ? <FormMessage tone={message.tone}>{message.text}</FormMessage> : null}
       <Button type="submit">Save profile</Button>

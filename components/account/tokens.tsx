@@ -44,18 +44,28 @@ export function Tokens({ initial }: { initial: TokenDto[] }) {
   return (
     <div className="space-y-4 px-5 py-4">
       <form onSubmit={onSubmit} className="flex flex-wrap items-end gap-3" noValidate>
-        <Field id="token-name" label="Token name" placeholder="e.g. survey laptop" className="min-w-56 flex-1" error={fields.name?.[0]} />
+        <Field
+          id="token-name"
+          label="Token name"
+          placeholder="e.g. survey laptop"
+          className="min-w-56 flex-1"
+          error={fields.name?.[0]}
+        />
         <Button type="submit">Create token</Button>
       </form>
       {message ? <FormMessage tone="error">{message}</FormMessage> : null}
       {created ? (
         <div role="status" className="rounded-md border border-glass-200 bg-glass-50 px-4 py-3 text-sm">
           <p className="font-medium text-glass-800">Copy this token now. It will not be shown again.</p>
-          <code data-testid="new-token" className="mt-2 block overflow-x-auto rounded bg-white px-2 py-1.5 font-mono text-xs select-all">
+          <code
+            data-testid="new-token"
+            className="mt-2 block overflow-x-auto rounded bg-white px-2 py-1.5 font-mono text-xs select-all"
+          >
             {created}
           </code>
           <p className="mt-2 text-xs text-ink-600">
-            Send it as <code className="font-mono">Authorization: Bearer &lt;token&gt;</code>. It acts with your role in your team.
+            Send it as <code className="font-mono">Authorization: Bearer &lt;token&gt;</code>. It acts with your role in
+            your team.
           </p>
         </div>
       ) : null}
@@ -65,7 +75,9 @@ export function Tokens({ initial }: { initial: TokenDto[] }) {
         <table className="w-full text-left text-sm" aria-label="API tokens">
           <thead className="text-2xs tracking-wide text-ink-500 uppercase">
             <tr>
-              <th scope="col" className="py-1.5">Name</th>
+              <th scope="col" className="py-1.5">
+                Name
+              </th>
               <th scope="col">Starts with</th>
               <th scope="col">Created</th>
               <th scope="col">Last used</th>
@@ -80,7 +92,9 @@ export function Tokens({ initial }: { initial: TokenDto[] }) {
                 <td className="py-2 font-medium">{t.name}</td>
                 <td className="font-mono text-xs">{t.prefix}…</td>
                 <td className="text-ink-500 tabular">{t.createdAt.slice(0, 10)}</td>
-                <td className="text-ink-500 tabular">{t.lastUsedAt ? t.lastUsedAt.slice(0, 16).replace('T', ' ') : 'never'}</td>
+                <td className="text-ink-500 tabular">
+                  {t.lastUsedAt ? t.lastUsedAt.slice(0, 16).replace('T', ' ') : 'never'}
+                </td>
                 <td className="text-right">
                   {t.revokedAt ? (
                     <Badge tone="coral">revoked</Badge>

@@ -17,7 +17,14 @@ export function OutboxList({ messages }: { messages: OutboxDto[] }) {
           <label htmlFor="outbox-filter" className="sr-only">
             Filter messages
           </label>
-          <input id="outbox-filter" type="search" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="Filter by recipient or subject" className={cn(inputClass, 'py-1.5')} />
+          <input
+            id="outbox-filter"
+            type="search"
+            value={filter}
+            onChange={(e) => setFilter(e.target.value)}
+            placeholder="Filter by recipient or subject"
+            className={cn(inputClass, 'py-1.5')}
+          />
         </div>
         <ul aria-label="Captured messages" className="max-h-[32rem] overflow-y-auto">
           {shown.map((m) => (
@@ -26,11 +33,16 @@ export function OutboxList({ messages }: { messages: OutboxDto[] }) {
                 type="button"
                 onClick={() => setSelected(m.id)}
                 aria-pressed={m.id === selected}
-                className={cn('block w-full border-l-2 px-4 py-2.5 text-left', m.id === selected ? 'border-glass-500 bg-glass-50/60' : 'border-transparent hover:bg-ink-50')}
+                className={cn(
+                  'block w-full border-l-2 px-4 py-2.5 text-left',
+                  m.id === selected ? 'border-glass-500 bg-glass-50/60' : 'border-transparent hover:bg-ink-50',
+                )}
               >
                 <span className="block truncate text-sm font-medium">{m.subject}</span>
                 <span className="block truncate font-mono text-2xs text-ink-500">{m.to}</span>
-                <span className="block text-2xs text-ink-400 tabular">{m.receivedAt.replace('T', ' ').slice(0, 19)} UTC</span>
+                <span className="block text-2xs text-ink-400 tabular">
+                  {m.receivedAt.replace('T', ' ').slice(0, 19)} UTC
+                </span>
               </button>
             </li>
           ))}
@@ -47,7 +59,10 @@ export function OutboxList({ messages }: { messages: OutboxDto[] }) {
               <dt className="text-ink-500">To</dt>
               <dd className="font-mono">{current.to}</dd>
             </dl>
-            <div className="mt-4 rounded-md bg-ink-50 p-4 font-mono text-xs leading-relaxed break-words whitespace-pre-wrap" data-testid="outbox-body">
+            <div
+              className="mt-4 rounded-md bg-ink-50 p-4 font-mono text-xs leading-relaxed break-words whitespace-pre-wrap"
+              data-testid="outbox-body"
+            >
               {linkify(current.text)}
             </div>
           </>

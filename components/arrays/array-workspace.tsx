@@ -17,9 +17,20 @@ import { saveErrors } from './save-errors';
  * which adds a revision, and the list refreshes from GET /api/v1/arrays/{id}.
  * An older revision (`?rev=N`) always opens read-only.
  */
-export function ArrayWorkspace({ initial, canEdit, readOnlyReason }: { initial: ArrayDetailDto; canEdit: boolean; readOnlyReason?: string }) {
+export function ArrayWorkspace({
+  initial,
+  canEdit,
+  readOnlyReason,
+}: {
+  initial: ArrayDetailDto;
+  canEdit: boolean;
+  readOnlyReason?: string;
+}) {
   const key = `/api/v1/arrays/${initial.id}`;
-  const { data, mutate } = useApi<ArrayDetailDto>(key, initial.revision === initial.latestRevision ? initial : undefined);
+  const { data, mutate } = useApi<ArrayDetailDto>(
+    key,
+    initial.revision === initial.latestRevision ? initial : undefined,
+  );
   const viewingOld = initial.revision < initial.latestRevision;
   // While an old revision is shown, `data` (the latest) only feeds the revision list.
   const latest = data ?? initial;
@@ -49,18 +60,34 @@ export function ArrayWorkspace({ initial, canEdit, readOnlyReason }: { initial: 
         </span>
       </p>
       {viewingOld ? (
-        <p role="note" data-testid="old-revision-note" className="rounded-md border border-amber-200 bg-amber-50 px-4 py-2.5 text-sm text-ink-800">
-          You are looking at revision {initial.revision} of {latest.latestRevision}, saved by {initial.author?.name ?? 'a former member'} on {formatWhen(initial.revisionCreatedAt)}. Old revisions never change, so this view is read-only.{' '}
+        <p
+          role="note"
+          data-testid="old-revision-note"
+          className="rounded-md border border-amber-200 bg-amber-50 px-4 py-2.5 text-sm text-ink-800"
+        >
+          You are looking at revision {initial.revision} of {latest.latestRevision}, saved by{' '}
+          {initial.author?.name ?? 'a former member'} on {formatWhen(initial.revisionCreatedAt)}. Old revisions never
+          change, so this view is read-only.{' '}
           <Link href={`/arrays/${initial.id}`} className="font-medium text-glass-700 underline underline-offset-2">
             Open the latest revision (r{latest.latestRevision})
           </Link>
         </p>
       ) : !canEdit && readOnlyReason ? (
-        <p role="note" data-testid="read-only-note" className="rounded-md border border-amber-200 bg-amber-50 px-4 py-2.5 text-sm text-ink-800">
+        <p
+          role="note"
+          data-testid="read-only-note"
+          className="rounded-md border border-amber-200 bg-amber-50 px-4 py-2.5 text-sm text-ink-800"
+        >
           {readOnlyReason} This array opens read-only for you; an engineer or admin can save new revisions.
         </p>
       ) : null}
-      <Designer key={`${initial.id}-r${initial.revision}`} initial={initial.config} readOnly={!editable} onSave={editable ? save : undefined} serverErrors={serverErrors} />
+      <Designer
+        key={`${initial.id}-r${initial.revision}`}
+        initial={initial.config}
+        readOnly={!editable}
+        onSave={editable ? save : undefined}
+        serverErrors={serverErrors}
+      />
       <Revisions detail={latest} shown={viewingOld ? initial.revision : latest.revision} />
     </div>
   );
@@ -73,12 +100,26 @@ function Revisions({ detail, shown }: { detail: ArrayDetailDto; shown: number })
         <h2 id="revisions-title" className="text-base font-semibold">
           Revisions
         </h2>
-        <p className="mt-0.5 text-sm text-ink-500">Every save is a new revision; estimates point to the exact one they used. Older revisions open read-only.</p>
+        <p className="mt-0.5 text-sm text-ink-500">
+          Every save is a new revision; estimates point to the exact one they used. Older revisions open read-only.
+        </p>
       </header>
       <ol className="divide-y divide-ink-100" data-testid="revision-list">
         {detail.revisions.map((r) => (
-          <li key={r.revision} data-testid={`revision-${r.revision}`} className={cn('flex flex-wrap items-baseline gap-x-4 gap-y-1 px-5 py-2.5 text-sm', r.revision === shown && 'bg-glass-50/60')}>
-            <Link href={r.revision === detail.latestRevision ? `/arrays/${detail.id}` : `/arrays/${detail.id}?rev=${r.revision}`} className="font-mono font-medium text-glass-700 underline-offset-2 hover:underline">
+          <li
+            key={r.revision}
+            data-testid={`revision-${r.revision}`}
+            className={cn(
+              'flex flex-wrap items-baseline gap-x-4 gap-y-1 px-5 py-2.5 text-sm',
+              r.revision === shown && 'bg-glass-50/60',
+            )}
+          >
+            <Link
+              href={
+                r.revision === detail.latestRevision ? `/arrays/${detail.id}` : `/arrays/${detail.id}?rev=${r.revision}`
+              }
+              className="font-mono font-medium text-glass-700 underline-offset-2 hover:underline"
+            >
               r{r.revision}
             </Link>
             {r.revision === detail.latestRevision ? <Badge tone="teal">latest</Badge> : null}

@@ -11,26 +11,56 @@ const columns: ColumnDef<ArrayDto, unknown>[] = [
     accessorKey: 'name',
     header: 'Name',
     cell: ({ row }) => (
-      <Link href={`/arrays/${row.original.id}`} className="font-medium text-glass-700 underline-offset-2 hover:underline" data-testid={`array-link-${row.original.id}`}>
+      <Link
+        href={`/arrays/${row.original.id}`}
+        className="font-medium text-glass-700 underline-offset-2 hover:underline"
+        data-testid={`array-link-${row.original.id}`}
+      >
         {row.original.name}
       </Link>
     ),
   },
-  { accessorKey: 'elements', header: 'Elements', cell: ({ row }) => <span className="tabular">{row.original.elements}</span> },
+  {
+    accessorKey: 'elements',
+    header: 'Elements',
+    cell: ({ row }) => <span className="tabular">{row.original.elements}</span>,
+  },
   {
     accessorKey: 'spacingWavelengths',
     header: 'Spacing',
     cell: ({ row }) => (
       <span className="whitespace-nowrap tabular">
         {row.original.spacingWavelengths.toFixed(4)} λ
-        {row.original.config.spacing.unit !== 'wavelength' ? <span className="text-ink-500"> ({formatSpacingInput(row.original.config.spacing)})</span> : null}
+        {row.original.config.spacing.unit !== 'wavelength' ? (
+          <span className="text-ink-500"> ({formatSpacingInput(row.original.config.spacing)})</span>
+        ) : null}
       </span>
     ),
   },
-  { id: 'frequency', accessorFn: (r) => r.frequencyHz ?? -1, header: 'Frequency', cell: ({ row }) => <span className="whitespace-nowrap tabular">{formatFrequency(row.original.frequencyHz)}</span> },
-  { accessorKey: 'revision', header: 'Latest revision', cell: ({ row }) => <span className="tabular">r{row.original.revision}</span> },
-  { id: 'author', accessorFn: (r) => r.author?.name ?? '', header: 'Saved by', cell: ({ row }) => row.original.author?.name ?? <span className="text-ink-400">former member</span> },
-  { accessorKey: 'revisionCreatedAt', header: 'Saved', cell: ({ row }) => <span className="whitespace-nowrap text-ink-600 tabular">{formatWhen(row.original.revisionCreatedAt)}</span> },
+  {
+    id: 'frequency',
+    accessorFn: (r) => r.frequencyHz ?? -1,
+    header: 'Frequency',
+    cell: ({ row }) => <span className="whitespace-nowrap tabular">{formatFrequency(row.original.frequencyHz)}</span>,
+  },
+  {
+    accessorKey: 'revision',
+    header: 'Latest revision',
+    cell: ({ row }) => <span className="tabular">r{row.original.revision}</span>,
+  },
+  {
+    id: 'author',
+    accessorFn: (r) => r.author?.name ?? '',
+    header: 'Saved by',
+    cell: ({ row }) => row.original.author?.name ?? <span className="text-ink-400">former member</span>,
+  },
+  {
+    accessorKey: 'revisionCreatedAt',
+    header: 'Saved',
+    cell: ({ row }) => (
+      <span className="whitespace-nowrap text-ink-600 tabular">{formatWhen(row.original.revisionCreatedAt)}</span>
+    ),
+  },
 ];
 
 /** The team's arrays: rendered from the server's list, kept fresh with SWR on GET /api/v1/arrays. */

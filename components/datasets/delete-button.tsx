@@ -10,12 +10,21 @@ export function DeleteDatasetButton({ id, name }: { id: number; name: string }) 
   const [error, setError] = useState<string | null>(null);
   return (
     <span className="flex items-center gap-2">
-      {error ? <span role="alert" className="text-xs text-coral-700">{error}</span> : null}
+      {error ? (
+        <span role="alert" className="text-xs text-coral-700">
+          {error}
+        </span>
+      ) : null}
       <Button
         variant="danger"
         disabled={busy}
         onClick={async () => {
-          if (!window.confirm(`Delete dataset "${name}" and its stored file? Runs keep its checksum but cannot be re-run.`)) return;
+          if (
+            !window.confirm(
+              `Delete dataset "${name}" and its stored file? Runs keep its checksum but cannot be re-run.`,
+            )
+          )
+            return;
           setBusy(true);
           try {
             await apiSend('DELETE', `/api/v1/datasets/${id}`);

@@ -19,7 +19,9 @@ export function PreviewTable({ re, im }: { re: number[][]; im: number[][] }) {
       id: `e${c + 1}`,
       header: `Element ${c + 1}`,
       accessorFn: (r) => Math.hypot(r.values[c].re, r.values[c].im),
-      cell: ({ row }) => <span className="font-mono text-xs tabular">{fmt(row.original.values[c].re, row.original.values[c].im)}</span>,
+      cell: ({ row }) => (
+        <span className="font-mono text-xs tabular">{fmt(row.original.values[c].re, row.original.values[c].im)}</span>
+      ),
     })),
   ];
   return <DataTable data={rows} columns={columns} label="Snapshot preview" filterPlaceholder="Filter…" />;

@@ -6,7 +6,14 @@ import { Button } from '@/components/ui/button';
 import { Field, FormMessage, inputClass } from '@/components/ui/field';
 import { cn } from '@/lib/client/cn';
 
-export type ArrayOption = { id: number; name: string; revision: number; elements: number; spacingWavelengths: number; disabledElements: number[] };
+export type ArrayOption = {
+  id: number;
+  name: string;
+  revision: number;
+  elements: number;
+  spacingWavelengths: number;
+  disabledElements: number[];
+};
 
 type Refusal = { message: string; fields?: Record<string, string[]> };
 
@@ -36,7 +43,9 @@ export function UploadForm({ arrays, maxBytes }: { arrays: ArrayOption[]; maxByt
       return;
     }
     if (file.size > maxBytes) {
-      setError({ message: `The file is ${(file.size / 1048576).toFixed(1)} MiB; the upload limit is ${(maxBytes / 1048576).toFixed(0)} MiB.` });
+      setError({
+        message: `The file is ${(file.size / 1048576).toFixed(1)} MiB; the upload limit is ${(maxBytes / 1048576).toFixed(0)} MiB.`,
+      });
       return;
     }
     for (const [k, v] of [...form.entries()]) if (v === '') form.delete(k);
@@ -94,10 +103,14 @@ export function UploadForm({ arrays, maxBytes }: { arrays: ArrayOption[]; maxByt
           onChange={(e) => setFileName(e.target.files?.[0]?.name ?? '')}
           aria-invalid={error?.fields?.file ? true : undefined}
           aria-describedby="file-hint"
-          className={cn(inputClass, 'mt-1 file:mr-3 file:rounded file:border-0 file:bg-glass-50 file:px-2 file:py-1 file:text-glass-800')}
+          className={cn(
+            inputClass,
+            'mt-1 file:mr-3 file:rounded file:border-0 file:bg-glass-50 file:px-2 file:py-1 file:text-glass-800',
+          )}
         />
         <p id="file-hint" className="mt-1 text-xs text-ink-500">
-          CSV or text (complex a+bj), NPY, HDF5 or multichannel WAV; one snapshot per row, one element per column. Up to {(maxBytes / 1048576).toFixed(0)} MiB.
+          CSV or text (complex a+bj), NPY, HDF5 or multichannel WAV; one snapshot per row, one element per column. Up to{' '}
+          {(maxBytes / 1048576).toFixed(0)} MiB.
         </p>
       </div>
       <div className="grid gap-4 sm:grid-cols-2">
@@ -106,7 +119,14 @@ export function UploadForm({ arrays, maxBytes }: { arrays: ArrayOption[]; maxByt
           <label htmlFor="arrayId" className="block text-sm font-medium text-ink-800">
             Array (optional)
           </label>
-          <select id="arrayId" name="arrayId" className={cn(inputClass, 'mt-1')} defaultValue="" aria-invalid={error?.fields?.arrayId ? true : undefined} aria-describedby={error?.fields?.arrayId ? 'arrayId-error' : undefined}>
+          <select
+            id="arrayId"
+            name="arrayId"
+            className={cn(inputClass, 'mt-1')}
+            defaultValue=""
+            aria-invalid={error?.fields?.arrayId ? true : undefined}
+            aria-describedby={error?.fields?.arrayId ? 'arrayId-error' : undefined}
+          >
             <option value="">No array yet</option>
             {arrays.map((a) => (
               <option key={a.id} value={a.id}>
@@ -121,7 +141,13 @@ export function UploadForm({ arrays, maxBytes }: { arrays: ArrayOption[]; maxByt
           ) : null}
         </div>
       </div>
-      {isHdf5 ? <Field id="datasetPath" label="HDF5 dataset path" placeholder="/snapshots (optional when the file has one 2-D dataset)" /> : null}
+      {isHdf5 ? (
+        <Field
+          id="datasetPath"
+          label="HDF5 dataset path"
+          placeholder="/snapshots (optional when the file has one 2-D dataset)"
+        />
+      ) : null}
       {isWav ? (
         <fieldset className="grid gap-4 rounded-md border border-ink-100 p-3 sm:grid-cols-4">
           <legend className="px-1 text-xs font-medium text-ink-600">WAV: short-time Fourier transform</legend>
@@ -146,8 +172,18 @@ export function UploadForm({ arrays, maxBytes }: { arrays: ArrayOption[]; maxByt
             <span>{phase === 'checking' ? 'Checking and storing the file…' : `Uploading ${fileName}`}</span>
             <span className="tabular">{Math.round(progress * 100)}%</span>
           </div>
-          <div role="progressbar" aria-label="Upload progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(progress * 100)} className="mt-1 h-2 overflow-hidden rounded bg-ink-100">
-            <div className={cn('h-full bg-glass-500 transition-[width]', phase === 'checking' && 'animate-pulse')} style={{ width: `${progress * 100}%` }} />
+          <div
+            role="progressbar"
+            aria-label="Upload progress"
+            aria-valuemin={0}
+            aria-valuemax={100}
+            aria-valuenow={Math.round(progress * 100)}
+            className="mt-1 h-2 overflow-hidden rounded bg-ink-100"
+          >
+            <div
+              className={cn('h-full bg-glass-500 transition-[width]', phase === 'checking' && 'animate-pulse')}
+              style={{ width: `${progress * 100}%` }}
+            />
           </div>
         </div>
       ) : null}

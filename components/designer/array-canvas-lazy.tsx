@@ -7,7 +7,10 @@ import type { ArrayCanvasProps } from './array-canvas';
 export const ArrayCanvas = dynamic<ArrayCanvasProps>(() => import('./array-canvas'), {
   ssr: false,
   loading: () => (
-    <div className="flex h-[340px] items-center justify-center rounded-card border border-ink-100 bg-white text-sm text-ink-500" data-testid="array-canvas-loading">
+    <div
+      className="flex h-[340px] items-center justify-center rounded-card border border-ink-100 bg-white text-sm text-ink-500"
+      data-testid="array-canvas-loading"
+    >
       Loading the array canvas…
     </div>
   ),

@@ -94,7 +94,13 @@ function fitView(width: number, height: number, aperture: number, spacing: numbe
   return { scale, x0: (width - span * scale) / 2, axisY: Math.round(height * 0.74) };
 }
 
-export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, readOnly = false, height = 340 }: ArrayCanvasProps) {
+export default function ArrayCanvas({
+  draft,
+  spacingWavelengths: d,
+  dispatch,
+  readOnly = false,
+  height = 340,
+}: ArrayCanvasProps) {
   const containerRef = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState(720);
   const [autoFit, setAutoFit] = useState(true);
@@ -136,10 +142,23 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
     [draft.plannedSources, centerX, arrowRadius, view.axisY],
   );
   const addHandle = !readOnly && m < MAX_ELEMENTS ? { x: toScreenX(m * d), y: view.axisY } : null;
-  const removeHandle = !readOnly && active !== null && active < m && m > MIN_ELEMENTS ? { index: active, x: toScreenX(active * d), y: view.axisY - 28 } : null;
+  const removeHandle =
+    !readOnly && active !== null && active < m && m > MIN_ELEMENTS
+      ? { index: active, x: toScreenX(active * d), y: view.axisY - 28 }
+      : null;
 
   useEffect(() => {
-    window.__steerwiseCanvas = { width, height, scale: view.scale, x0: view.x0, axisY: view.axisY, elements, sources, addHandle, removeHandle };
+    window.__steerwiseCanvas = {
+      width,
+      height,
+      scale: view.scale,
+      x0: view.x0,
+      axisY: view.axisY,
+      elements,
+      sources,
+      addHandle,
+      removeHandle,
+    };
   });
   useEffect(() => () => void delete window.__steerwiseCanvas, []);
 
@@ -192,12 +211,18 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
       case 'ArrowRight':
       case 'ArrowUp':
         e.preventDefault();
-        dispatch({ type: 'setSpacingWavelengths', spacingWavelengths: Math.min(MAX_DRAG_SPACING_WAVELENGTHS, Math.round((d + big) * 1e4) / 1e4) });
+        dispatch({
+          type: 'setSpacingWavelengths',
+          spacingWavelengths: Math.min(MAX_DRAG_SPACING_WAVELENGTHS, Math.round((d + big) * 1e4) / 1e4),
+        });
         break;
       case 'ArrowLeft':
       case 'ArrowDown':
         e.preventDefault();
-        dispatch({ type: 'setSpacingWavelengths', spacingWavelengths: Math.max(MIN_DRAG_SPACING_WAVELENGTHS, Math.round((d - big) * 1e4) / 1e4) });
+        dispatch({
+          type: 'setSpacingWavelengths',
+          spacingWavelengths: Math.max(MIN_DRAG_SPACING_WAVELENGTHS, Math.round((d - big) * 1e4) / 1e4),
+        });
         break;
       case 'Enter':
       case ' ':
@@ -233,37 +258,94 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
     }
   };
 
-  const overlayBox = (x: number, y: number, size: number) => ({ left: x - size / 2, top: y - size / 2, width: size, height: size });
+  const overlayBox = (x: number, y: number, size: number) => ({
+    left: x - size / 2,
+    top: y - size / 2,
+    width: size,
+    height: size,
+  });
 
   return (
     <div className="space-y-2">
       <div className="flex flex-wrap items-center gap-2 text-sm" role="toolbar" aria-label="Canvas view">
-        <button type="button" className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50" onClick={() => zoomAt(1.25, width / 2)} aria-label="Zoom in" data-testid="zoom-in">
+        <button
+          type="button"
+          className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50"
+          onClick={() => zoomAt(1.25, width / 2)}
+          aria-label="Zoom in"
+          data-testid="zoom-in"
+        >
           +
         </button>
-        <button type="button" className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50" onClick={() => zoomAt(0.8, width / 2)} aria-label="Zoom out" data-testid="zoom-out">
+        <button
+          type="button"
+          className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50"
+          onClick={() => zoomAt(0.8, width / 2)}
+          aria-label="Zoom out"
+          data-testid="zoom-out"
+        >
           −
         </button>
-        <button type="button" className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50" onClick={() => { setAutoFit(true); setManualView(null); }} data-testid="zoom-fit">
+        <button
+          type="button"
+          className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50"
+          onClick={() => {
+            setAutoFit(true);
+            setManualView(null);
+          }}
+          data-testid="zoom-fit"
+        >
           Fit
         </button>
-        <span className="text-xs text-ink-500 tabular">{autoFit ? 'fitted' : `${(view.scale / fitted.scale).toFixed(2)}×`} · ruler step {step} λ</span>
+        <span className="text-xs text-ink-500 tabular">
+          {autoFit ? 'fitted' : `${(view.scale / fitted.scale).toFixed(2)}×`} · ruler step {step} λ
+        </span>
         {!readOnly ? (
           <>
             <span className="mx-1 h-4 w-px bg-ink-200" aria-hidden />
-            <button type="button" className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50 disabled:opacity-40" disabled={m >= MAX_ELEMENTS} onClick={() => dispatch({ type: 'addElement' })} data-testid="add-element">
+            <button
+              type="button"
+              className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50 disabled:opacity-40"
+              disabled={m >= MAX_ELEMENTS}
+              onClick={() => dispatch({ type: 'addElement' })}
+              data-testid="add-element"
+            >
               Add element
             </button>
-            <button type="button" className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50 disabled:opacity-40" disabled={m <= MIN_ELEMENTS} onClick={() => dispatch({ type: 'removeElement', index: m - 1 })} data-testid="remove-last-element">
+            <button
+              type="button"
+              className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50 disabled:opacity-40"
+              disabled={m <= MIN_ELEMENTS}
+              onClick={() => dispatch({ type: 'removeElement', index: m - 1 })}
+              data-testid="remove-last-element"
+            >
               Remove last
             </button>
-            <button type="button" className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50 disabled:opacity-40" disabled={draft.plannedSources.length >= 32} onClick={() => dispatch({ type: 'addSource', bearingDeg: draft.plannedSources.length ? Math.max(-85, Math.min(85, draft.plannedSources[draft.plannedSources.length - 1].bearingDeg + 15)) : 20 })} data-testid="add-source">
+            <button
+              type="button"
+              className="rounded-md px-2 py-1 ring-1 ring-ink-200 hover:bg-ink-50 disabled:opacity-40"
+              disabled={draft.plannedSources.length >= 32}
+              onClick={() =>
+                dispatch({
+                  type: 'addSource',
+                  bearingDeg: draft.plannedSources.length
+                    ? Math.max(-85, Math.min(85, draft.plannedSources[draft.plannedSources.length - 1].bearingDeg + 15))
+                    : 20,
+                })
+              }
+              data-testid="add-source"
+            >
               Add source arrow
             </button>
           </>
         ) : null}
       </div>
-      <div ref={containerRef} className="relative w-full overflow-hidden rounded-card border border-ink-100 bg-white" style={{ height }} data-testid="array-canvas">
+      <div
+        ref={containerRef}
+        className="relative w-full overflow-hidden rounded-card border border-ink-100 bg-white"
+        style={{ height }}
+        data-testid="array-canvas"
+      >
         <Stage width={width} height={height} onWheel={onWheel}>
           <Layer>
             <Rect
@@ -282,18 +364,57 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
             />
             {/* the axis and its click band */}
             <Line points={[0, view.axisY, width, view.axisY]} stroke={COLORS.axis} strokeWidth={1} listening={false} />
-            <Rect x={0} y={view.axisY - 9} width={width} height={18} fill="rgba(0,0,0,0)" onClick={onAxisClick} onTap={onAxisClick as never} />
+            <Rect
+              x={0}
+              y={view.axisY - 9}
+              width={width}
+              height={18}
+              fill="rgba(0,0,0,0)"
+              onClick={onAxisClick}
+              onTap={onAxisClick as never}
+            />
             {/* wavelength ruler */}
-            <Line points={[toScreenX(0), rulerY, toScreenX(rulerEnd), rulerY]} stroke={COLORS.ruler} strokeWidth={1} listening={false} />
+            <Line
+              points={[toScreenX(0), rulerY, toScreenX(rulerEnd), rulerY]}
+              stroke={COLORS.ruler}
+              strokeWidth={1}
+              listening={false}
+            />
             {ticks.map((t) => (
               <Group key={t} listening={false}>
-                <Line points={[toScreenX(t), rulerY - 4, toScreenX(t), rulerY + 4]} stroke={COLORS.ruler} strokeWidth={1} />
-                <Text x={toScreenX(t) - 20} y={rulerY + 7} width={40} align="center" text={`${fmtTick(t)}λ`} fontSize={10} fill={COLORS.rulerText} />
+                <Line
+                  points={[toScreenX(t), rulerY - 4, toScreenX(t), rulerY + 4]}
+                  stroke={COLORS.ruler}
+                  strokeWidth={1}
+                />
+                <Text
+                  x={toScreenX(t) - 20}
+                  y={rulerY + 7}
+                  width={40}
+                  align="center"
+                  text={`${fmtTick(t)}λ`}
+                  fontSize={10}
+                  fill={COLORS.rulerText}
+                />
               </Group>
             ))}
             {/* broadside reference */}
-            <Line points={[centerX, view.axisY - 10, centerX, view.axisY - arrowRadius - 6]} stroke="#e3e9ee" dash={[4, 4]} listening={false} />
-            <Text x={centerX - 40} y={view.axisY - arrowRadius - 22} width={80} align="center" text="broadside 0°" fontSize={10} fill={COLORS.ruler} listening={false} />
+            <Line
+              points={[centerX, view.axisY - 10, centerX, view.axisY - arrowRadius - 6]}
+              stroke="#e3e9ee"
+              dash={[4, 4]}
+              listening={false}
+            />
+            <Text
+              x={centerX - 40}
+              y={view.axisY - arrowRadius - 22}
+              width={80}
+              align="center"
+              text="broadside 0°"
+              fontSize={10}
+              fill={COLORS.ruler}
+              listening={false}
+            />
             {/* planned sources */}
             {sources.map((s) => {
               const tipR = 22;
@@ -301,7 +422,16 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
               const tipY = view.axisY - tipR * Math.cos(s.bearingDeg * DEG);
               return (
                 <Group key={`src-${s.index}`}>
-                  <Arrow points={[s.x, s.y, tipX, tipY]} stroke={COLORS.source} fill={COLORS.source} strokeWidth={2} pointerLength={9} pointerWidth={8} dash={[7, 4]} listening={false} />
+                  <Arrow
+                    points={[s.x, s.y, tipX, tipY]}
+                    stroke={COLORS.source}
+                    fill={COLORS.source}
+                    strokeWidth={2}
+                    pointerLength={9}
+                    pointerWidth={8}
+                    dash={[7, 4]}
+                    listening={false}
+                  />
                   <Circle
                     x={s.x}
                     y={s.y}
@@ -320,7 +450,14 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
                     }}
                     onDragEnd={endDrag}
                   />
-                  <Text x={s.x + 12} y={s.y - 6 + (s.index % 3) * 12} text={`S${s.index + 1} ${s.bearingDeg.toFixed(1)}°`} fontSize={11} fill={COLORS.source} listening={false} />
+                  <Text
+                    x={s.x + 12}
+                    y={s.y - 6 + (s.index % 3) * 12}
+                    text={`S${s.index + 1} ${s.bearingDeg.toFixed(1)}°`}
+                    fontSize={11}
+                    fill={COLORS.source}
+                    listening={false}
+                  />
                 </Group>
               );
             })}
@@ -344,7 +481,11 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
                 onDragStart={() => freezeView('element')}
                 onDragMove={(e) => {
                   const v = dragging?.view ?? view;
-                  dispatch({ type: 'dragElement', index: el.index, positionWavelengths: (e.target.x() - v.x0) / v.scale });
+                  dispatch({
+                    type: 'dragElement',
+                    index: el.index,
+                    positionWavelengths: (e.target.x() - v.x0) / v.scale,
+                  });
                 }}
                 onDragEnd={endDrag}
               />
@@ -352,26 +493,65 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
             {elements
               .filter((el) => !el.enabled)
               .map((el) => (
-                <Line key={`x-${el.index}`} points={[el.x - elementRadius, el.y + elementRadius, el.x + elementRadius, el.y - elementRadius]} stroke={COLORS.remove} strokeWidth={1.5} listening={false} />
+                <Line
+                  key={`x-${el.index}`}
+                  points={[el.x - elementRadius, el.y + elementRadius, el.x + elementRadius, el.y - elementRadius]}
+                  stroke={COLORS.remove}
+                  strokeWidth={1.5}
+                  listening={false}
+                />
               ))}
             {m <= 64
               ? elements.map((el) => (
-                  <Text key={`lbl-${el.index}`} x={el.x - 12} y={el.y + elementRadius + 3} width={24} align="center" text={String(el.index + 1)} fontSize={9} fill={COLORS.rulerText} listening={false} />
+                  <Text
+                    key={`lbl-${el.index}`}
+                    x={el.x - 12}
+                    y={el.y + elementRadius + 3}
+                    width={24}
+                    align="center"
+                    text={String(el.index + 1)}
+                    fontSize={9}
+                    fill={COLORS.rulerText}
+                    listening={false}
+                  />
                 ))
               : null}
             {addHandle ? (
-              <Group x={addHandle.x} y={addHandle.y} onClick={() => dispatch({ type: 'addElement' })} onTap={() => dispatch({ type: 'addElement' })}>
+              <Group
+                x={addHandle.x}
+                y={addHandle.y}
+                onClick={() => dispatch({ type: 'addElement' })}
+                onTap={() => dispatch({ type: 'addElement' })}
+              >
                 <Circle radius={9} fill="#ffffff" stroke={COLORS.handle} strokeWidth={1.5} dash={[2, 2]} />
                 <Text x={-5} y={-7} text="+" fontSize={14} fill={COLORS.handle} />
               </Group>
             ) : null}
             {removeHandle ? (
-              <Group x={removeHandle.x} y={removeHandle.y} onClick={() => { dispatch({ type: 'removeElement', index: removeHandle.index }); setActive(null); }} onTap={() => { dispatch({ type: 'removeElement', index: removeHandle.index }); setActive(null); }}>
+              <Group
+                x={removeHandle.x}
+                y={removeHandle.y}
+                onClick={() => {
+                  dispatch({ type: 'removeElement', index: removeHandle.index });
+                  setActive(null);
+                }}
+                onTap={() => {
+                  dispatch({ type: 'removeElement', index: removeHandle.index });
+                  setActive(null);
+                }}
+              >
                 <Circle radius={8} fill="#ffffff" stroke={COLORS.remove} strokeWidth={1.5} />
                 <Text x={-4} y={-6} text="×" fontSize={13} fill={COLORS.remove} />
               </Group>
             ) : null}
-            <Text x={8} y={8} text={`${m} elements · d = ${d.toFixed(4)} λ · aperture ${aperture.toFixed(3)} λ`} fontSize={11} fill={COLORS.text} listening={false} />
+            <Text
+              x={8}
+              y={8}
+              text={`${m} elements · d = ${d.toFixed(4)} λ · aperture ${aperture.toFixed(3)} λ`}
+              fontSize={11}
+              fill={COLORS.text}
+              listening={false}
+            />
           </Layer>
         </Stage>
         {/* Keyboard and test overlay: focusable controls exactly over the shapes; the mouse passes through. */}
@@ -390,7 +570,9 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
               tabIndex={readOnly ? -1 : 0}
               onFocus={() => setActive(el.index)}
               onKeyDown={onElementKey(el.index)}
-              className={cn('absolute rounded-full bg-transparent focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-amber-500')}
+              className={cn(
+                'absolute rounded-full bg-transparent focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-amber-500',
+              )}
               style={overlayBox(el.x, el.y, Math.max(12, elementRadius * 2 + 4))}
             />
           ))}
@@ -410,8 +592,23 @@ export default function ArrayCanvas({ draft, spacingWavelengths: d, dispatch, re
               style={overlayBox(s.x, s.y, 20)}
             />
           ))}
-          {addHandle ? <span data-testid="add-handle" data-x={addHandle.x.toFixed(2)} data-y={addHandle.y.toFixed(2)} className="absolute" style={overlayBox(addHandle.x, addHandle.y, 18)} /> : null}
-          {removeHandle ? <span data-testid="remove-handle" data-index={removeHandle.index} className="absolute" style={overlayBox(removeHandle.x, removeHandle.y, 16)} /> : null}
+          {addHandle ? (
+            <span
+              data-testid="add-handle"
+              data-x={addHandle.x.toFixed(2)}
+              data-y={addHandle.y.toFixed(2)}
+              className="absolute"
+              style={overlayBox(addHandle.x, addHandle.y, 18)}
+            />
+          ) : null}
+          {removeHandle ? (
+            <span
+              data-testid="remove-handle"
+              data-index={removeHandle.index}
+              className="absolute"
+              style={overlayBox(removeHandle.x, removeHandle.y, 16)}
+            />
+          ) : null}
         </div>
       </div>
       <p className="text-xs text-ink-500" id="canvas-keys">

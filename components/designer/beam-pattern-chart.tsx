@@ -41,18 +41,25 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
   const H = viewKind === 'cartesian' ? 300 : 350;
 
   const cartesian = useMemo(() => {
-    const L = 48, R = 16, T = 14, B = 36;
+    const L = 48,
+      R = 16,
+      T = 14,
+      B = 36;
     const x = (t: number) => L + ((t + 90) / 180) * (W - L - R);
     const y = (db: number) => T + (Math.max(floorDb, Math.min(0, db)) / floorDb) * (300 - T - B);
     let d = '';
-    for (let i = 0; i < pattern.thetaDeg.length; i++) d += `${i ? 'L' : 'M'}${x(pattern.thetaDeg[i]).toFixed(2)},${y(pattern.valuesDb[i]).toFixed(2)}`;
+    for (let i = 0; i < pattern.thetaDeg.length; i++)
+      d += `${i ? 'L' : 'M'}${x(pattern.thetaDeg[i]).toFixed(2)},${y(pattern.valuesDb[i]).toFixed(2)}`;
     return { x, y, d, L, R, T, B };
   }, [pattern, floorDb]);
 
   const polar = useMemo(() => {
-    const cx = W / 2, cy = 320, R = 290;
+    const cx = W / 2,
+      cy = 320,
+      R = 290;
     const r = (db: number) => (R * (Math.max(floorDb, Math.min(0, db)) - floorDb)) / -floorDb;
-    const pt = (t: number, rad: number) => [cx + rad * Math.sin((t * Math.PI) / 180), cy - rad * Math.cos((t * Math.PI) / 180)] as const;
+    const pt = (t: number, rad: number) =>
+      [cx + rad * Math.sin((t * Math.PI) / 180), cy - rad * Math.cos((t * Math.PI) / 180)] as const;
     let d = '';
     for (let i = 0; i < pattern.thetaDeg.length; i++) {
       const [px, py] = pt(pattern.thetaDeg[i], r(pattern.valuesDb[i]));
@@ -88,7 +95,10 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
               aria-pressed={viewKind === k}
               onClick={() => setViewKind(k)}
               data-testid={`pattern-view-${k}`}
-              className={cn(toggle, viewKind === k ? 'bg-ink-800 text-white ring-ink-800' : 'text-ink-600 ring-ink-200 hover:bg-ink-50')}
+              className={cn(
+                toggle,
+                viewKind === k ? 'bg-ink-800 text-white ring-ink-800' : 'text-ink-600 ring-ink-200 hover:bg-ink-50',
+              )}
             >
               {k === 'cartesian' ? 'Cartesian' : 'Polar'}
             </button>
@@ -140,7 +150,8 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
               disabled={readOnly}
               onChange={(e) => {
                 const v = Number(e.target.value);
-                if (Number.isFinite(v) && v >= 10 && v <= 120) dispatch({ type: 'setTaper', taper: { kind: 'chebyshev', sidelobeDb: v } });
+                if (Number.isFinite(v) && v >= 10 && v <= 120)
+                  dispatch({ type: 'setTaper', taper: { kind: 'chebyshev', sidelobeDb: v } });
               }}
               className="w-16 rounded-md border border-ink-200 px-2 py-1"
               aria-label="Chebyshev sidelobe level in dB below the main lobe"
@@ -150,7 +161,11 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
         ) : null}
         <label className="flex items-center gap-2">
           <span className="text-ink-600">Floor</span>
-          <select value={floorDb} onChange={(e) => setFloorDb(Number(e.target.value))} className="rounded-md border border-ink-200 bg-white px-2 py-1">
+          <select
+            value={floorDb}
+            onChange={(e) => setFloorDb(Number(e.target.value))}
+            className="rounded-md border border-ink-200 bg-white px-2 py-1"
+          >
             {[-40, -60, -80, -100].map((v) => (
               <option key={v} value={v}>
                 {v} dB
@@ -159,11 +174,23 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
           </select>
         </label>
         <div className="ml-auto">
-          <ExportMenu svgRef={svgRef} baseName={`${fileSlug(draft.name)}-beam-pattern`} csv={csv} testIdPrefix="pattern" />
+          <ExportMenu
+            svgRef={svgRef}
+            baseName={`${fileSlug(draft.name)}-beam-pattern`}
+            csv={csv}
+            testIdPrefix="pattern"
+          />
         </div>
       </div>
 
-      <svg ref={svgRef} viewBox={`0 0 ${W} ${H}`} className="w-full" role="img" aria-label={`Beam pattern, ${viewKind} view, steered to ${draft.steerDeg.toFixed(1)} degrees`} fontFamily={CHART_FONT}>
+      <svg
+        ref={svgRef}
+        viewBox={`0 0 ${W} ${H}`}
+        className="w-full"
+        role="img"
+        aria-label={`Beam pattern, ${viewKind} view, steered to ${draft.steerDeg.toFixed(1)} degrees`}
+        fontFamily={CHART_FONT}
+      >
         {viewKind === 'cartesian' ? (
           <g>
             {rings.map((db) => (
@@ -190,20 +217,65 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
             </text>
             {pattern.gratingLobesDeg.map((t) => (
               <g key={`gl-${t}`} data-testid="grating-lobe-marker">
-                <line x1={cartesian.x(t)} x2={cartesian.x(t)} y1={cartesian.T} y2={300 - cartesian.B} stroke={C.grating} strokeDasharray="2 3" strokeWidth={1.5} />
-                <text x={cartesian.x(t) + (t > 0 ? -4 : 4)} y={cartesian.T + 22} textAnchor={t > 0 ? 'end' : 'start'} fontSize={10} fill={C.grating}>
+                <line
+                  x1={cartesian.x(t)}
+                  x2={cartesian.x(t)}
+                  y1={cartesian.T}
+                  y2={300 - cartesian.B}
+                  stroke={C.grating}
+                  strokeDasharray="2 3"
+                  strokeWidth={1.5}
+                />
+                <text
+                  x={cartesian.x(t) + (t > 0 ? -4 : 4)}
+                  y={cartesian.T + 22}
+                  textAnchor={t > 0 ? 'end' : 'start'}
+                  fontSize={10}
+                  fill={C.grating}
+                >
                   grating lobe {t.toFixed(1)}°
                 </text>
               </g>
             ))}
-            <line x1={cartesian.x(draft.steerDeg)} x2={cartesian.x(draft.steerDeg)} y1={cartesian.T} y2={300 - cartesian.B} stroke={C.steer} strokeDasharray="5 4" />
-            <path d={`${cartesian.d}L${cartesian.x(90)},${cartesian.y(floorDb)}L${cartesian.x(-90)},${cartesian.y(floorDb)}Z`} fill={C.fill} stroke="none" />
+            <line
+              x1={cartesian.x(draft.steerDeg)}
+              x2={cartesian.x(draft.steerDeg)}
+              y1={cartesian.T}
+              y2={300 - cartesian.B}
+              stroke={C.steer}
+              strokeDasharray="5 4"
+            />
+            <path
+              d={`${cartesian.d}L${cartesian.x(90)},${cartesian.y(floorDb)}L${cartesian.x(-90)},${cartesian.y(floorDb)}Z`}
+              fill={C.fill}
+              stroke="none"
+            />
             <path d={cartesian.d} fill="none" stroke={C.trace} strokeWidth={1.6} strokeLinejoin="round" />
-            <line x1={cartesian.L} x2={W - cartesian.R} y1={cartesian.y(HALF_POWER_DB)} y2={cartesian.y(HALF_POWER_DB)} stroke={C.halfPower} strokeDasharray="6 3" />
-            <text x={W - cartesian.R - 2} y={cartesian.y(HALF_POWER_DB) - 4} textAnchor="end" fontSize={10} fill={C.halfPower}>
+            <line
+              x1={cartesian.L}
+              x2={W - cartesian.R}
+              y1={cartesian.y(HALF_POWER_DB)}
+              y2={cartesian.y(HALF_POWER_DB)}
+              stroke={C.halfPower}
+              strokeDasharray="6 3"
+            />
+            <text
+              x={W - cartesian.R - 2}
+              y={cartesian.y(HALF_POWER_DB) - 4}
+              textAnchor="end"
+              fontSize={10}
+              fill={C.halfPower}
+            >
               −3 dB
             </text>
-            <rect x={cartesian.L} y={cartesian.T} width={W - cartesian.L - cartesian.R} height={300 - cartesian.T - cartesian.B} fill="none" stroke={C.axis} />
+            <rect
+              x={cartesian.L}
+              y={cartesian.T}
+              width={W - cartesian.L - cartesian.R}
+              height={300 - cartesian.T - cartesian.B}
+              fill="none"
+              stroke={C.axis}
+            />
           </g>
         ) : (
           <g>
@@ -211,7 +283,11 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
               const rr = polar.r(db);
               return (
                 <g key={db}>
-                  <path d={`M${polar.cx - rr},${polar.cy} A${rr},${rr} 0 0 1 ${polar.cx + rr},${polar.cy}`} fill="none" stroke={C.grid} />
+                  <path
+                    d={`M${polar.cx - rr},${polar.cy} A${rr},${rr} 0 0 1 ${polar.cx + rr},${polar.cy}`}
+                    fill="none"
+                    stroke={C.grid}
+                  />
                   <text x={polar.cx + 4} y={polar.cy - rr + 11} fontSize={9} fill={C.text}>
                     {db}
                   </text>
@@ -232,7 +308,19 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
             })}
             {pattern.gratingLobesDeg.map((t) => {
               const [px, py] = polar.pt(t, polar.R);
-              return <line key={`gl-${t}`} data-testid="grating-lobe-marker" x1={polar.cx} y1={polar.cy} x2={px} y2={py} stroke={C.grating} strokeDasharray="2 3" strokeWidth={1.5} />;
+              return (
+                <line
+                  key={`gl-${t}`}
+                  data-testid="grating-lobe-marker"
+                  x1={polar.cx}
+                  y1={polar.cy}
+                  x2={px}
+                  y2={py}
+                  stroke={C.grating}
+                  strokeDasharray="2 3"
+                  strokeWidth={1.5}
+                />
+              );
             })}
             {(() => {
               const [px, py] = polar.pt(draft.steerDeg, polar.R);
@@ -240,7 +328,14 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
             })()}
             {(() => {
               const rr = polar.r(HALF_POWER_DB);
-              return <path d={`M${polar.cx - rr},${polar.cy} A${rr},${rr} 0 0 1 ${polar.cx + rr},${polar.cy}`} fill="none" stroke={C.halfPower} strokeDasharray="6 3" />;
+              return (
+                <path
+                  d={`M${polar.cx - rr},${polar.cy} A${rr},${rr} 0 0 1 ${polar.cx + rr},${polar.cy}`}
+                  fill="none"
+                  stroke={C.halfPower}
+                  strokeDasharray="6 3"
+                />
+              );
             })()}
             <path d={`${polar.d}Z`} fill={C.fill} stroke={C.trace} strokeWidth={1.6} strokeLinejoin="round" />
             <line x1={polar.cx - polar.R} x2={polar.cx + polar.R} y1={polar.cy} y2={polar.cy} stroke={C.axis} />
@@ -258,7 +353,9 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
         {pattern.gratingLobesDeg.length ? (
           <span className="font-medium text-coral-600" data-testid="grating-lobe-note">
             {' '}
-            Grating lobe{pattern.gratingLobesDeg.length > 1 ? 's' : ''} at {pattern.gratingLobesDeg.map((t) => `${t.toFixed(1)}°`).join(', ')}: a source there is indistinguishable from one at the steering direction.
+            Grating lobe{pattern.gratingLobesDeg.length > 1 ? 's' : ''} at{' '}
+            {pattern.gratingLobesDeg.map((t) => `${t.toFixed(1)}°`).join(', ')}: a source there is indistinguishable
+            from one at the steering direction.
           </span>
         ) : (
           ' No grating lobe in view.'

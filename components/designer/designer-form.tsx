@@ -10,7 +10,14 @@
 import { useEffect, useRef, useState } from 'react';
 import { FormProvider, useForm, useFormContext, useWatch } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { arrayInputSchema, MAX_ELEMENTS, MIN_ELEMENTS, type ArrayInput, type ArrayInputRaw, type ResolvedGeometry } from '@/lib/validations/array';
+import {
+  arrayInputSchema,
+  MAX_ELEMENTS,
+  MIN_ELEMENTS,
+  type ArrayInput,
+  type ArrayInputRaw,
+  type ResolvedGeometry,
+} from '@/lib/validations/array';
 import { normalizeDraft, type DesignerAction, type DesignerDraft } from '@/lib/designer/state';
 import { MediumPanel, NumberField } from './medium-panel';
 import { cn } from '@/lib/client/cn';
@@ -29,7 +36,13 @@ export interface DesignerFormProps {
 function prepare(values: ArrayInputRaw): ArrayInputRaw {
   const out: ArrayInputRaw = { ...values };
   const n = out.elements;
-  if (typeof n === 'number' && Number.isInteger(n) && n >= MIN_ELEMENTS && n <= MAX_ELEMENTS && Array.isArray(out.elementStates)) {
+  if (
+    typeof n === 'number' &&
+    Number.isInteger(n) &&
+    n >= MIN_ELEMENTS &&
+    n <= MAX_ELEMENTS &&
+    Array.isArray(out.elementStates)
+  ) {
     const states = out.elementStates.slice(0, n);
     while (states.length < n) states.push({ enabled: true, gainDb: 0, phaseDeg: 0 });
     out.elementStates = states;
@@ -67,7 +80,8 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
   useEffect(() => {
     if (!serverErrors) return;
     for (const [field, messages] of Object.entries(serverErrors)) {
-      if (messages.length) setError((field === '_' ? 'root' : field) as never, { type: 'server', message: messages.join(' ') });
+      if (messages.length)
+        setError((field === '_' ? 'root' : field) as never, { type: 'server', message: messages.join(' ') });
     }
   }, [serverErrors, setError]);
 
@@ -100,7 +114,10 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
               </label>
               <input
                 id="f-name"
-                className={cn('mt-1 block w-full rounded-md border bg-white px-2 py-1.5 text-sm disabled:bg-ink-50 disabled:text-ink-500', nameError ? 'border-coral-500' : 'border-ink-200')}
+                className={cn(
+                  'mt-1 block w-full rounded-md border bg-white px-2 py-1.5 text-sm disabled:bg-ink-50 disabled:text-ink-500',
+                  nameError ? 'border-coral-500' : 'border-ink-200',
+                )}
                 aria-invalid={nameError ? true : undefined}
                 aria-describedby={nameError ? 'f-name-error' : undefined}
                 data-testid="field-name"
@@ -119,12 +136,21 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
                 <label htmlFor="f-spacing-unit" className="block text-xs font-medium text-ink-700">
                   Spacing unit
                 </label>
-                <select id="f-spacing-unit" data-testid="field-spacing.unit" className="mt-1 block w-full rounded-md border border-ink-200 bg-white px-2 py-1.5 text-sm" {...register('spacing.unit')}>
+                <select
+                  id="f-spacing-unit"
+                  data-testid="field-spacing.unit"
+                  className="mt-1 block w-full rounded-md border border-ink-200 bg-white px-2 py-1.5 text-sm"
+                  {...register('spacing.unit')}
+                >
                   <option value="wavelength">wavelengths (λ)</option>
                   <option value="m">metres</option>
                   <option value="mm">millimetres</option>
                 </select>
-                {spacingUnit !== 'wavelength' ? <p className="mt-1 text-2xs text-ink-500">Metres and millimetres need the analysis frequency and the medium below.</p> : null}
+                {spacingUnit !== 'wavelength' ? (
+                  <p className="mt-1 text-2xs text-ink-500">
+                    Metres and millimetres need the analysis frequency and the medium below.
+                  </p>
+                ) : null}
               </div>
               <NumberField name="steerDeg" label="Steering" unit="°" />
               <NumberField name="scanSectorDeg" label="Scan sector half-width" unit="±°" />
@@ -138,7 +164,10 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
                   value={taperKind ?? 'uniform'}
                   onChange={(e) => {
                     const kind = e.target.value;
-                    form.setValue('taper', (kind === 'chebyshev' ? { kind, sidelobeDb: 30 } : { kind }) as never, { shouldValidate: true, shouldDirty: true });
+                    form.setValue('taper', (kind === 'chebyshev' ? { kind, sidelobeDb: 30 } : { kind }) as never, {
+                      shouldValidate: true,
+                      shouldDirty: true,
+                    });
                   }}
                 >
                   <option value="uniform">Uniform</option>
@@ -147,7 +176,9 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
                   <option value="chebyshev">Dolph–Chebyshev</option>
                 </select>
               </div>
-              {taperKind === 'chebyshev' ? <NumberField name="taper.sidelobeDb" label="Sidelobe level" unit="dB down" /> : null}
+              {taperKind === 'chebyshev' ? (
+                <NumberField name="taper.sidelobeDb" label="Sidelobe level" unit="dB down" />
+              ) : null}
               <NumberField name="snrDb" label="SNR per element" unit="dB" />
               <NumberField name="snapshots" label="Snapshots" step="1" />
             </div>
@@ -203,7 +234,12 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
                 <span className="pb-2 text-xs font-medium text-ink-600">S{i + 1}</span>
                 <NumberField name={`plannedSources.${i}.bearingDeg`} label="Bearing" unit="°" />
                 <NumberField name={`plannedSources.${i}.snrDb`} label="SNR (blank: as above)" unit="dB" />
-                <button type="button" className="mb-0.5 rounded-md px-2 py-1.5 text-xs text-coral-700 ring-1 ring-coral-500/40 hover:bg-coral-50" onClick={() => dispatch({ type: 'removeSource', index: i })} aria-label={`Remove source ${i + 1}`}>
+                <button
+                  type="button"
+                  className="mb-0.5 rounded-md px-2 py-1.5 text-xs text-coral-700 ring-1 ring-coral-500/40 hover:bg-coral-50"
+                  onClick={() => dispatch({ type: 'removeSource', index: i })}
+                  aria-label={`Remove source ${i + 1}`}
+                >
                   Remove
                 </button>
               </div>
@@ -212,13 +248,20 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
 
           {onSave && !readOnly ? (
             <div className="flex items-center gap-3">
-              <button type="submit" className="rounded-md bg-glass-600 px-3 py-1.5 text-sm font-medium text-white hover:bg-glass-700 disabled:bg-ink-300" disabled={saveState === 'saving'} data-testid="save-revision">
+              <button
+                type="submit"
+                className="rounded-md bg-glass-600 px-3 py-1.5 text-sm font-medium text-white hover:bg-glass-700 disabled:bg-ink-300"
+                disabled={saveState === 'saving'}
+                data-testid="save-revision"
+              >
                 {saveState === 'saving' ? 'Saving…' : 'Save as new revision'}
               </button>
               <span role="status" className="text-xs text-ink-500">
                 {saveState === 'saved' ? 'Saved.' : saveState === 'failed' ? 'Not saved: see the messages above.' : ''}
               </span>
-              {formState.errors.root?.message ? <span className="text-xs text-coral-600">{formState.errors.root.message}</span> : null}
+              {formState.errors.root?.message ? (
+                <span className="text-xs text-coral-600">{formState.errors.root.message}</span>
+              ) : null}
             </div>
           ) : null}
         </fieldset>
@@ -235,10 +278,20 @@ function ElementRow({ index }: { index: number }) {
         <EnabledBox index={index} />
       </td>
       <td className="py-1 pr-2">
-        <NumberField name={`elementStates.${index}.gainDb`} label={`Gain of element ${index + 1}`} hideLabel testId={`field-gain-${index}`} />
+        <NumberField
+          name={`elementStates.${index}.gainDb`}
+          label={`Gain of element ${index + 1}`}
+          hideLabel
+          testId={`field-gain-${index}`}
+        />
       </td>
       <td className="py-1">
-        <NumberField name={`elementStates.${index}.phaseDeg`} label={`Phase of element ${index + 1}`} hideLabel testId={`field-phase-${index}`} />
+        <NumberField
+          name={`elementStates.${index}.phaseDeg`}
+          label={`Phase of element ${index + 1}`}
+          hideLabel
+          testId={`field-phase-${index}`}
+        />
       </td>
     </tr>
   );
@@ -246,5 +299,13 @@ function ElementRow({ index }: { index: number }) {
 
 function EnabledBox({ index }: { index: number }) {
   const { register } = useFormContext<ArrayInputRaw>();
-  return <input type="checkbox" aria-label={`Element ${index + 1} enabled`} data-testid={`field-enabled-${index}`} className="h-4 w-4 accent-glass-600" {...register(`elementStates.${index}.enabled` as const)} />;
+  return (
+    <input
+      type="checkbox"
+      aria-label={`Element ${index + 1} enabled`}
+      data-testid={`field-enabled-${index}`}
+      className="h-4 w-4 accent-glass-600"
+      {...register(`elementStates.${index}.enabled` as const)}
+    />
+  );
 }

@@ -34,9 +34,23 @@ declare global {
   }
 }
 
-function Panel({ title, children, testId, aside }: { title: string; children: React.ReactNode; testId?: string; aside?: React.ReactNode }) {
+function Panel({
+  title,
+  children,
+  testId,
+  aside,
+}: {
+  title: string;
+  children: React.ReactNode;
+  testId?: string;
+  aside?: React.ReactNode;
+}) {
   return (
-    <section className="rounded-card border border-ink-100 bg-white p-4 shadow-card" data-testid={testId} aria-label={title}>
+    <section
+      className="rounded-card border border-ink-100 bg-white p-4 shadow-card"
+      data-testid={testId}
+      aria-label={title}
+    >
       <div className="mb-3 flex items-baseline justify-between gap-2">
         <h2 className="text-base font-semibold">{title}</h2>
         {aside}
@@ -56,7 +70,8 @@ export function Designer({ initial, readOnly = false, onSave, serverErrors }: De
   const curves = useMemo(() => separationCurves(deferred), [deferred]);
   const pairs = useMemo(() => pairAdvice(deferred), [deferred]);
   const summary = enabledSummary(draft.elementStates);
-  const taperLabel = draft.taper.kind === 'chebyshev' ? `Dolph–Chebyshev ${draft.taper.sidelobeDb} dB` : `${draft.taper.kind} taper`;
+  const taperLabel =
+    draft.taper.kind === 'chebyshev' ? `Dolph–Chebyshev ${draft.taper.sidelobeDb} dB` : `${draft.taper.kind} taper`;
 
   useEffect(() => {
     window.__steerwiseDesigner = { draft, figures };
@@ -74,21 +89,51 @@ export function Designer({ initial, readOnly = false, onSave, serverErrors }: De
       <div className="grid gap-4 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="min-w-0 space-y-4">
           <Panel title={draft.name || 'Untitled array'} testId="canvas-panel">
-            <ArrayCanvas draft={draft} spacingWavelengths={figures.spacingWavelengths} dispatch={dispatch} readOnly={readOnly} />
+            <ArrayCanvas
+              draft={draft}
+              spacingWavelengths={figures.spacingWavelengths}
+              dispatch={dispatch}
+              readOnly={readOnly}
+            />
             {summary.disabled.length ? <DisabledElementsNotice summary={summary} elements={draft.elements} /> : null}
           </Panel>
           <Panel title="Beam pattern" testId="pattern-panel">
-            <BeamPatternChart draft={draft} pattern={pattern} figures={figures} dispatch={dispatch} readOnly={readOnly} />
+            <BeamPatternChart
+              draft={draft}
+              pattern={pattern}
+              figures={figures}
+              dispatch={dispatch}
+              readOnly={readOnly}
+            />
           </Panel>
-          <Panel title="Separation versus aperture" testId="separation-panel" aside={deferred !== draft ? <span className="text-2xs text-ink-400">updating…</span> : null}>
-            <SeparationChart draft={deferred} curves={curves} pairs={pairs} spacingWavelengths={figures.spacingWavelengths} lookDeg={chartLookDeg(deferred)} dispatch={dispatch} readOnly={readOnly} />
+          <Panel
+            title="Separation versus aperture"
+            testId="separation-panel"
+            aside={deferred !== draft ? <span className="text-2xs text-ink-400">updating…</span> : null}
+          >
+            <SeparationChart
+              draft={deferred}
+              curves={curves}
+              pairs={pairs}
+              spacingWavelengths={figures.spacingWavelengths}
+              lookDeg={chartLookDeg(deferred)}
+              dispatch={dispatch}
+              readOnly={readOnly}
+            />
           </Panel>
         </div>
         <div className="min-w-0 space-y-4">
           <Panel title="Figures" testId="figures">
             <FiguresPanel figures={figures} taperLabel={taperLabel} enabledCount={summary.enabledCount} />
           </Panel>
-          <DesignerForm draft={draft} geometry={figures.geometry} dispatch={dispatch} readOnly={readOnly} onSave={onSave} serverErrors={serverErrors} />
+          <DesignerForm
+            draft={draft}
+            geometry={figures.geometry}
+            dispatch={dispatch}
+            readOnly={readOnly}
+            onSave={onSave}
+            serverErrors={serverErrors}
+          />
         </div>
       </div>
     </div>

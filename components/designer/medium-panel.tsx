@@ -32,7 +32,23 @@ export function formatLength(m: number): string {
   return `${(m * 1e6).toFixed(2)} µm`;
 }
 
-export function NumberField({ name, label, unit, step = 'any', readOnly, testId, hideLabel }: { name: string; label: string; unit?: string; step?: string; readOnly?: boolean; testId?: string; hideLabel?: boolean }) {
+export function NumberField({
+  name,
+  label,
+  unit,
+  step = 'any',
+  readOnly,
+  testId,
+  hideLabel,
+}: {
+  name: string;
+  label: string;
+  unit?: string;
+  step?: string;
+  readOnly?: boolean;
+  testId?: string;
+  hideLabel?: boolean;
+}) {
   const { register, getFieldState, formState } = useFormContext<ArrayInputRaw>();
   const error = (getFieldState(name as never, formState).error as { message?: string } | undefined)?.message;
   const id = `f-${name.replace(/[^a-zA-Z0-9]+/g, '-')}`;
@@ -51,7 +67,11 @@ export function NumberField({ name, label, unit, step = 'any', readOnly, testId,
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${id}-error` : undefined}
         data-testid={testId ?? `field-${name}`}
-        className={cn('block w-full rounded-md border bg-white px-2 py-1.5 text-sm tabular disabled:bg-ink-50 disabled:text-ink-500', hideLabel ? '' : 'mt-1', error ? 'border-coral-500' : 'border-ink-200')}
+        className={cn(
+          'block w-full rounded-md border bg-white px-2 py-1.5 text-sm tabular disabled:bg-ink-50 disabled:text-ink-500',
+          hideLabel ? '' : 'mt-1',
+          error ? 'border-coral-500' : 'border-ink-200',
+        )}
         {...register(name as never, { setValueAs: num })}
       />
       <FieldError id={id} error={error} />
@@ -78,7 +98,12 @@ export function MediumPanel({ geometry, readOnly = false }: MediumPanelProps) {
             value={kind}
             disabled={readOnly}
             data-testid="medium-kind"
-            onChange={(e) => setValue('medium', mediumDefaults[e.target.value as MediumInput['kind']], { shouldValidate: true, shouldDirty: true })}
+            onChange={(e) =>
+              setValue('medium', mediumDefaults[e.target.value as MediumInput['kind']], {
+                shouldValidate: true,
+                shouldDirty: true,
+              })
+            }
             className="mt-1 block w-full rounded-md border border-ink-200 bg-white px-2 py-1.5 text-sm"
           >
             <option value="radio">Radio (speed of light)</option>
@@ -102,7 +127,12 @@ export function MediumPanel({ geometry, readOnly = false }: MediumPanelProps) {
                 id="f-medium-equation"
                 disabled={readOnly}
                 value={medium && medium.kind === 'sea-water' ? medium.equation : 'mackenzie-1981'}
-                onChange={(e) => setValue('medium.equation' as never, e.target.value as never, { shouldValidate: true, shouldDirty: true })}
+                onChange={(e) =>
+                  setValue('medium.equation' as never, e.target.value as never, {
+                    shouldValidate: true,
+                    shouldDirty: true,
+                  })
+                }
                 className="mt-1 block w-full rounded-md border border-ink-200 bg-white px-2 py-1.5 text-sm"
               >
                 <option value="mackenzie-1981">Mackenzie (1981)</option>
@@ -111,14 +141,18 @@ export function MediumPanel({ geometry, readOnly = false }: MediumPanelProps) {
             </div>
           </>
         ) : null}
-        {kind === 'fresh-water' || kind === 'air' ? <NumberField name="medium.temperatureC" label="Temperature" unit="°C" readOnly={readOnly} /> : null}
+        {kind === 'fresh-water' || kind === 'air' ? (
+          <NumberField name="medium.temperatureC" label="Temperature" unit="°C" readOnly={readOnly} />
+        ) : null}
         {kind === 'custom' ? <NumberField name="medium.speedMps" label="Speed" unit="m/s" readOnly={readOnly} /> : null}
       </div>
       <dl className="grid grid-cols-3 gap-2 rounded-md bg-paper px-3 py-2 text-sm" aria-live="polite">
         <div>
           <dt className="text-2xs text-ink-500">Speed</dt>
           <dd className="font-mono tabular" data-testid="live-speed" data-value={geometry.speedMps ?? ''}>
-            {geometry.speedMps !== undefined ? `${geometry.speedMps.toFixed(geometry.speedMps > 1e6 ? 0 : 3)} m/s` : '—'}
+            {geometry.speedMps !== undefined
+              ? `${geometry.speedMps.toFixed(geometry.speedMps > 1e6 ? 0 : 3)} m/s`
+              : '—'}
           </dd>
         </div>
         <div>
@@ -129,9 +163,17 @@ export function MediumPanel({ geometry, readOnly = false }: MediumPanelProps) {
         </div>
         <div>
           <dt className="text-2xs text-ink-500">Spacing</dt>
-          <dd className="font-mono tabular" data-testid="live-spacing-wavelengths" data-value={geometry.spacingWavelengths}>
+          <dd
+            className="font-mono tabular"
+            data-testid="live-spacing-wavelengths"
+            data-value={geometry.spacingWavelengths}
+          >
             {geometry.spacingWavelengths.toFixed(4)} λ
-            {geometry.wavelengthM !== undefined && spacingUnit === 'wavelength' ? <span className="block text-2xs text-ink-500">{formatLength(geometry.spacingWavelengths * geometry.wavelengthM)}</span> : null}
+            {geometry.wavelengthM !== undefined && spacingUnit === 'wavelength' ? (
+              <span className="block text-2xs text-ink-500">
+                {formatLength(geometry.spacingWavelengths * geometry.wavelengthM)}
+              </span>
+            ) : null}
           </dd>
         </div>
       </dl>
@@ -139,7 +181,11 @@ export function MediumPanel({ geometry, readOnly = false }: MediumPanelProps) {
       {geometry.warnings
         .filter((w) => w.code !== 'no-frequency')
         .map((w) => (
-          <p key={w.field + w.code} role="status" className="rounded-md border border-amber-300 bg-amber-50 px-2 py-1 text-xs text-amber-700">
+          <p
+            key={w.field + w.code}
+            role="status"
+            className="rounded-md border border-amber-300 bg-amber-50 px-2 py-1 text-xs text-amber-700"
+          >
             {w.message}
           </p>
         ))}

@@ -24,9 +24,24 @@ type MethodResult = {
   spectrum?: { kind: string; startDeg: number; stepDeg: number; valuesDb: (number | null)[] };
   effectiveElements: number;
   criteria: { mdl: number[]; aic: number[]; snapshotsUsed: number };
-  uncertainty: { crbStdDeg: number[]; ci95Deg: [number, number][]; sourcePowers: number[]; noisePower: number; basis: string; powersRaised: boolean } | null;
+  uncertainty: {
+    crbStdDeg: number[];
+    ci95Deg: [number, number][];
+    sourcePowers: number[];
+    noisePower: number;
+    basis: string;
+    powersRaised: boolean;
+  } | null;
   uncertaintyNote?: string;
-  pairs: { i: number; j: number; separationDeg: number; separationU: number; rayleighGapU: number; belowResolvableGap: boolean; verdict: string }[];
+  pairs: {
+    i: number;
+    j: number;
+    separationDeg: number;
+    separationU: number;
+    rayleighGapU: number;
+    belowResolvableGap: boolean;
+    verdict: string;
+  }[];
 };
 export type RunDto = {
   id: number;
@@ -37,19 +52,41 @@ export type RunDto = {
   datasetSha256: string | null;
   createdAt: string;
   createdBy: { name: string } | null;
-  inputs: { methods: string[]; options: Record<string, unknown>; array: { elements: number; spacingWavelengths: number; name?: string; revision?: number }; dataset?: { id: number; name: string; sha256: string }; rerunOf?: number };
+  inputs: {
+    methods: string[];
+    options: Record<string, unknown>;
+    array: { elements: number; spacingWavelengths: number; name?: string; revision?: number };
+    dataset?: { id: number; name: string; sha256: string };
+    rerunOf?: number;
+  };
   results: MethodResult[];
 };
 
 const argmin = (v: number[]) => v.reduce((best, x, i) => (x < v[best] ? i : best), 0);
 
 export function toCsv(run: RunDto): string {
-  const lines = ['run,method,source,bearing_deg,crb_std_deg,ci95_low_deg,ci95_high_deg,source_count,source_count_rule,dataset_sha256,software_version'];
+  const lines = [
+    'run,method,source,bearing_deg,crb_std_deg,ci95_low_deg,ci95_high_deg,source_count,source_count_rule,dataset_sha256,software_version',
+  ];
   for (const r of run.results) {
     r.bearingsDeg.forEach((b, k) => {
       const s = r.uncertainty?.crbStdDeg[k];
       const ci = r.uncertainty?.ci95Deg[k];
-      lines.push([run.id, r.method, k + 1, b, s ?? '', ci?.[0] ?? '', ci?.[1] ?? '', r.sourceCount, r.sourceCountRule, run.datasetSha256 ?? '', run.softwareVersion].join(','));
+      lines.push(
+        [
+          run.id,
+          r.method,
+          k + 1,
+          b,
+          s ?? '',
+          ci?.[0] ?? '',
+          ci?.[1] ?? '',
+          r.sourceCount,
+          r.sourceCountRule,
+          run.datasetSha256 ?? '',
+          run.softwareVersion,
+        ].join(','),
+      );
     });
   }
   return lines.join('\n') + '\n';
@@ -79,8 +116,20 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
           actions={
             run.status === 'done' ? (
               <div className="flex gap-2">
-                <Button variant="secondary" onClick={() => downloadText(`estimate-${run.id}.csv`, 'text/csv', toCsv(run))}>Export CSV</Button>
-                <Button variant="secondary" onClick={() => downloadText(`estimate-${run.id}.json`, 'application/json', JSON.stringify(run, null, 1))}>Export JSON</Button>
+                <Button
+                  variant="secondary"
+                  onClick={() => downloadText(`estimate-${run.id}.csv`, 'text/csv', toCsv(run))}
+                >
+                  Export CSV
+                </Button>
+                <Button
+                  variant="secondary"
+                  onClick={() =>
+                    downloadText(`estimate-${run.id}.json`, 'application/json', JSON.stringify(run, null, 1))
+                  }
+                >
+                  Export JSON
+                </Button>
                 {canRun ? (
                   <Button
                     variant="secondary"
@@ -88,7 +137,12 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
                     onClick={async () => {
                       setRerun({ busy: true });
                       try {
-                        const out = await apiSendWithHeaders<{ id: number }>('POST', `/api/v1/estimates/${run.id}/rerun`, undefined, {});
+                        const out = await apiSendWithHeaders<{ id: number }>(
+                          'POST',
+                          `/api/v1/estimates/${run.id}/rerun`,
+                          undefined,
+                          {},
+                        );
                         router.push(`/estimates/${out.id}`);
                       } catch (e) {
                         setRerun({ busy: false, error: (e as Error).message });
@@ -104,28 +158,52 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
         />
         <div className="px-5 py-4">
           {active ? (
-            <div role="progressbar" aria-label="Run progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(run.progress * 100)} className="h-2 overflow-hidden rounded bg-ink-100">
-              <div className="h-full bg-glass-500 transition-[width]" style={{ width: `${Math.max(3, run.progress * 100)}%` }} />
+            <div
+              role="progressbar"
+              aria-label="Run progress"
+              aria-valuemin={0}
+              aria-valuemax={100}
+              aria-valuenow={Math.round(run.progress * 100)}
+              className="h-2 overflow-hidden rounded bg-ink-100"
+            >
+              <div
+                className="h-full bg-glass-500 transition-[width]"
+                style={{ width: `${Math.max(3, run.progress * 100)}%` }}
+              />
             </div>
           ) : null}
           {run.error ? <FormMessage tone="error">{run.error}</FormMessage> : null}
           {rerun.error ? <FormMessage tone="error">{rerun.error}</FormMessage> : null}
-          {run.inputs.rerunOf ? <p className="text-sm text-ink-600">A re-run of run {run.inputs.rerunOf} with the same array revision, dataset checksum and options.</p> : null}
-          {run.datasetSha256 ? <p className="mt-1 text-xs text-ink-500">Dataset SHA-256 <code className="font-mono">{run.datasetSha256}</code></p> : null}
+          {run.inputs.rerunOf ? (
+            <p className="text-sm text-ink-600">
+              A re-run of run {run.inputs.rerunOf} with the same array revision, dataset checksum and options.
+            </p>
+          ) : null}
+          {run.datasetSha256 ? (
+            <p className="mt-1 text-xs text-ink-500">
+              Dataset SHA-256 <code className="font-mono">{run.datasetSha256}</code>
+            </p>
+          ) : null}
         </div>
       </Card>
 
       {run.status === 'done' && first ? (
         <>
           <Card aria-labelledby="bearings-title">
-            <CardHeader id="bearings-title" title="Bearings" description="Degrees from broadside. ±1σ is the stochastic Cramér–Rao bound at the estimated bearings, source powers and noise; the 95% interval is ±1.96σ. The bound limits unbiased estimators and is reached only with enough snapshots and SNR." />
+            <CardHeader
+              id="bearings-title"
+              title="Bearings"
+              description="Degrees from broadside. ±1σ is the stochastic Cramér–Rao bound at the estimated bearings, source powers and noise; the 95% interval is ±1.96σ. The bound limits unbiased estimators and is reached only with enough snapshots and SNR."
+            />
             <div className="overflow-x-auto">
               <table className="w-full text-sm" aria-label="Bearings by method">
                 <thead className="bg-ink-50/70 text-left text-2xs tracking-wide text-ink-500 uppercase">
                   <tr>
                     <th className="px-4 py-2">Source</th>
                     {run.results.map((r) => (
-                      <th key={r.method} className="px-4 py-2">{METHOD_LABELS[r.method] ?? r.method}</th>
+                      <th key={r.method} className="px-4 py-2">
+                        {METHOD_LABELS[r.method] ?? r.method}
+                      </th>
                     ))}
                   </tr>
                 </thead>
@@ -139,11 +217,22 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
                         const ci = r.uncertainty?.ci95Deg[i];
                         return (
                           <td key={r.method} className="px-4 py-2 tabular">
-                            {b === undefined ? <span className="text-ink-400">—</span> : (
+                            {b === undefined ? (
+                              <span className="text-ink-400">—</span>
+                            ) : (
                               <>
                                 <span className="font-medium">{b.toFixed(3)}°</span>
-                                {s !== undefined ? <span className="text-ink-600"> ± {s < 0.001 ? s.toExponential(1) : s.toFixed(3)}°</span> : null}
-                                {ci ? <div className="text-xs text-ink-500">95%: {ci[0].toFixed(3)}° … {ci[1].toFixed(3)}°</div> : null}
+                                {s !== undefined ? (
+                                  <span className="text-ink-600">
+                                    {' '}
+                                    ± {s < 0.001 ? s.toExponential(1) : s.toFixed(3)}°
+                                  </span>
+                                ) : null}
+                                {ci ? (
+                                  <div className="text-xs text-ink-500">
+                                    95%: {ci[0].toFixed(3)}° … {ci[1].toFixed(3)}°
+                                  </div>
+                                ) : null}
                               </>
                             )}
                           </td>
@@ -154,7 +243,9 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
                   <tr className="border-t border-ink-100 text-xs text-ink-500">
                     <td className="px-4 py-2">K</td>
                     {run.results.map((r) => (
-                      <td key={r.method} className="px-4 py-2">{r.sourceCount} ({r.sourceCountRule}){r.uncertaintyNote ? <div>{r.uncertaintyNote}</div> : null}</td>
+                      <td key={r.method} className="px-4 py-2">
+                        {r.sourceCount} ({r.sourceCountRule}){r.uncertaintyNote ? <div>{r.uncertaintyNote}</div> : null}
+                      </td>
                     ))}
                   </tr>
                 </tbody>
@@ -163,16 +254,29 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
           </Card>
 
           <Card aria-labelledby="pairs-title">
-            <CardHeader id="pairs-title" title="Resolvability of each estimated pair" description={`Below the resolvable gap when |sin θi − sin θj| < 1/(M·d) = ${(1 / (run.inputs.array.elements * run.inputs.array.spacingWavelengths)).toFixed(4)}. A beamformer merges such a pair; subspace methods may still separate it when the statistical limit (Smith 2005) allows.`} />
+            <CardHeader
+              id="pairs-title"
+              title="Resolvability of each estimated pair"
+              description={`Below the resolvable gap when |sin θi − sin θj| < 1/(M·d) = ${(1 / (run.inputs.array.elements * run.inputs.array.spacingWavelengths)).toFixed(4)}. A beamformer merges such a pair; subspace methods may still separate it when the statistical limit (Smith 2005) allows.`}
+            />
             <div className="px-5 py-4 text-sm">
-              {run.results.every((r) => r.pairs.length === 0) ? <p className="text-ink-500">Fewer than two sources were estimated, so there are no pairs.</p> : (
+              {run.results.every((r) => r.pairs.length === 0) ? (
+                <p className="text-ink-500">Fewer than two sources were estimated, so there are no pairs.</p>
+              ) : (
                 <ul className="grid gap-1.5">
                   {run.results.flatMap((r) =>
                     r.pairs.map((p) => (
                       <li key={`${r.method}-${p.i}-${p.j}`} className="flex flex-wrap items-center gap-2">
                         <span className="w-32 text-ink-600">{METHOD_LABELS[r.method] ?? r.method}</span>
-                        <span className="tabular">sources {p.i + 1} & {p.j + 1}: {p.separationDeg.toFixed(3)}° apart, Δu = {p.separationU.toFixed(4)}</span>
-                        {p.belowResolvableGap ? <Badge tone="amber">below the resolvable gap</Badge> : <Badge tone="teal">above the gap</Badge>}
+                        <span className="tabular">
+                          sources {p.i + 1} & {p.j + 1}: {p.separationDeg.toFixed(3)}° apart, Δu ={' '}
+                          {p.separationU.toFixed(4)}
+                        </span>
+                        {p.belowResolvableGap ? (
+                          <Badge tone="amber">below the resolvable gap</Badge>
+                        ) : (
+                          <Badge tone="teal">above the gap</Badge>
+                        )}
                         {p.verdict === 'unresolvable' ? <Badge tone="coral">below the statistical limit</Badge> : null}
                       </li>
                     )),
@@ -183,34 +287,66 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
           </Card>
 
           <Card aria-labelledby="spectrum-title">
-            <CardHeader id="spectrum-title" title="Pseudo-spectra" description="Spectral methods show their own spectrum; ESPRIT and root-MUSIC show the MUSIC spectrum of the same signal subspace. Ticks at the top mark each method's bearings." />
+            <CardHeader
+              id="spectrum-title"
+              title="Pseudo-spectra"
+              description="Spectral methods show their own spectrum; ESPRIT and root-MUSIC show the MUSIC spectrum of the same signal subspace. Ticks at the top mark each method's bearings."
+            />
             <div className="px-5 py-4">
-              <SpectrumChart series={run.results.map((r) => ({ label: METHOD_LABELS[r.method] ?? r.method, method: r.method, spectrum: r.spectrum, bearingsDeg: r.bearingsDeg }))} />
+              <SpectrumChart
+                series={run.results.map((r) => ({
+                  label: METHOD_LABELS[r.method] ?? r.method,
+                  method: r.method,
+                  spectrum: r.spectrum,
+                  bearingsDeg: r.bearingsDeg,
+                }))}
+              />
             </div>
           </Card>
 
           <div className="grid gap-6 lg:grid-cols-2">
             <Card aria-labelledby="eig-title">
-              <CardHeader id="eig-title" title="Eigenvalues and source count" description={`Of the covariance used (L = ${first.effectiveElements}, N = ${first.criteria.snapshotsUsed} for the rule).`} />
+              <CardHeader
+                id="eig-title"
+                title="Eigenvalues and source count"
+                description={`Of the covariance used (L = ${first.effectiveElements}, N = ${first.criteria.snapshotsUsed} for the rule).`}
+              />
               <div className="px-5 py-4">
-                <EigenvalueChart eigenvalues={first.eigenvalues} mdl={first.criteria.mdl} aic={first.criteria.aic} mdlChoice={argmin(first.criteria.mdl)} aicChoice={argmin(first.criteria.aic)} sourceCount={first.sourceCount} />
+                <EigenvalueChart
+                  eigenvalues={first.eigenvalues}
+                  mdl={first.criteria.mdl}
+                  aic={first.criteria.aic}
+                  mdlChoice={argmin(first.criteria.mdl)}
+                  aicChoice={argmin(first.criteria.aic)}
+                  sourceCount={first.sourceCount}
+                />
               </div>
             </Card>
             <Card aria-labelledby="warn-title">
               <CardHeader id="warn-title" title="Warnings" />
               <div className="px-5 py-4 text-sm">
-                {uniqueWarnings.length === 0 ? <p className="text-ink-500">No warnings from the estimator.</p> : (
+                {uniqueWarnings.length === 0 ? (
+                  <p className="text-ink-500">No warnings from the estimator.</p>
+                ) : (
                   <ul className="grid gap-3">
                     {uniqueWarnings.map((w) => (
                       <li key={`${w.code}-${w.method}-${w.message}`}>
-                        <div className="flex items-center gap-2"><Badge tone="amber">{w.code}</Badge><span className="text-xs text-ink-500">{METHOD_LABELS[w.method] ?? w.method}</span></div>
+                        <div className="flex items-center gap-2">
+                          <Badge tone="amber">{w.code}</Badge>
+                          <span className="text-xs text-ink-500">{METHOD_LABELS[w.method] ?? w.method}</span>
+                        </div>
                         <p className="mt-1 text-ink-800">{w.message}</p>
-                        {WARNING_ADVICE[w.code] ? <p className="mt-0.5 text-xs text-ink-600">{WARNING_ADVICE[w.code]}</p> : null}
+                        {WARNING_ADVICE[w.code] ? (
+                          <p className="mt-0.5 text-xs text-ink-600">{WARNING_ADVICE[w.code]}</p>
+                        ) : null}
                       </li>
                     ))}
                   </ul>
                 )}
-                <p className="mt-4 text-xs text-ink-500">Estimates are advisory. A uniform line measures a cone angle and cannot tell the two sides apart; model mismatch (calibration, coupling, near-field or wideband sources) breaks subspace methods.</p>
+                <p className="mt-4 text-xs text-ink-500">
+                  Estimates are advisory. A uniform line measures a cone angle and cannot tell the two sides apart;
+                  model mismatch (calibration, coupling, near-field or wideband sources) breaks subspace methods.
+                </p>
               </div>
             </Card>
           </div>

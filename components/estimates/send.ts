@@ -3,11 +3,21 @@ import { getCsrfToken } from 'next-auth/react';
 import { ClientApiError } from '@/lib/client/fetcher';
 
 /** A JSON write with extra headers (e.g. Prefer: respond-async) and the CSRF header. */
-export async function apiSendWithHeaders<T>(method: 'POST' | 'DELETE', url: string, body: unknown, headers: Record<string, string> = {}): Promise<T> {
+export async function apiSendWithHeaders<T>(
+  method: 'POST' | 'DELETE',
+  url: string,
+  body: unknown,
+  headers: Record<string, string> = {},
+): Promise<T> {
   const token = await getCsrfToken();
   const res = await fetch(url, {
     method,
-    headers: { 'content-type': 'application/json', accept: 'application/json', ...(token ? { 'x-csrf-token': token } : {}), ...headers },
+    headers: {
+      'content-type': 'application/json',
+      accept: 'application/json',
+      ...(token ? { 'x-csrf-token': token } : {}),
+      ...headers,
+    },
     body: body === undefined ? undefined : JSON.stringify(body),
   });
   if (!res.ok) {

@@ -12,7 +12,11 @@ const FLOOR_DB = -50;
  * from the max over 0.1° buckets so no peak is lost when thinning the 0.01° grid.
  * Estimated bearings are ticked at the top in the method's colour.
  */
-export function SpectrumChart({ series }: { series: { label: string; method: string; spectrum?: Spectrum; bearingsDeg: number[] }[] }) {
+export function SpectrumChart({
+  series,
+}: {
+  series: { label: string; method: string; spectrum?: Spectrum; bearingsDeg: number[] }[];
+}) {
   const own = (s: { method: string }) => s.method === 'music' || s.method === 'bartlett' || s.method === 'mvdr';
   const iw = W - PAD.l - PAD.r;
   const ih = H - PAD.t - PAD.b;
@@ -40,26 +44,71 @@ export function SpectrumChart({ series }: { series: { label: string; method: str
         {[0, -10, -20, -30, -40, -50].map((t) => (
           <g key={t}>
             <line x1={PAD.l} x2={W - PAD.r} y1={y(t)} y2={y(t)} className="stroke-ink-100" />
-            <text x={PAD.l - 6} y={y(t) + 3} textAnchor="end" className="fill-ink-500 text-[10px]">{t}</text>
+            <text x={PAD.l - 6} y={y(t) + 3} textAnchor="end" className="fill-ink-500 text-[10px]">
+              {t}
+            </text>
           </g>
         ))}
         {[-90, -60, -30, 0, 30, 60, 90].map((t) => (
           <g key={t}>
             <line x1={x(t)} x2={x(t)} y1={PAD.t} y2={PAD.t + ih} className="stroke-ink-100" />
-            <text x={x(t)} y={H - PAD.b + 14} textAnchor="middle" className="fill-ink-500 text-[10px]">{t}°</text>
+            <text x={x(t)} y={H - PAD.b + 14} textAnchor="middle" className="fill-ink-500 text-[10px]">
+              {t}°
+            </text>
           </g>
         ))}
-        {paths.map((d, i) => (d ? <path key={i} d={d} fill="none" stroke={COLOURS[i % COLOURS.length]} strokeWidth={1.4} strokeDasharray={own(series[i]) ? undefined : '6 4'} /> : null))}
-        {series.map((s, i) => s.bearingsDeg.map((b, k) => <line key={`${i}-${k}`} x1={x(b)} x2={x(b)} y1={PAD.t} y2={PAD.t + 10 + 4 * i} stroke={COLOURS[i % COLOURS.length]} strokeWidth={2}><title>{`${s.label}: ${b.toFixed(3)}°`}</title></line>))}
-        <text x={W / 2} y={H - 4} textAnchor="middle" className="fill-ink-600 text-[11px]">bearing from broadside (degrees)</text>
-        <text x={12} y={PAD.t + ih / 2} transform={`rotate(-90 12 ${PAD.t + ih / 2})`} textAnchor="middle" className="fill-ink-600 text-[11px]">dB re peak</text>
+        {paths.map((d, i) =>
+          d ? (
+            <path
+              key={i}
+              d={d}
+              fill="none"
+              stroke={COLOURS[i % COLOURS.length]}
+              strokeWidth={1.4}
+              strokeDasharray={own(series[i]) ? undefined : '6 4'}
+            />
+          ) : null,
+        )}
+        {series.map((s, i) =>
+          s.bearingsDeg.map((b, k) => (
+            <line
+              key={`${i}-${k}`}
+              x1={x(b)}
+              x2={x(b)}
+              y1={PAD.t}
+              y2={PAD.t + 10 + 4 * i}
+              stroke={COLOURS[i % COLOURS.length]}
+              strokeWidth={2}
+            >
+              <title>{`${s.label}: ${b.toFixed(3)}°`}</title>
+            </line>
+          )),
+        )}
+        <text x={W / 2} y={H - 4} textAnchor="middle" className="fill-ink-600 text-[11px]">
+          bearing from broadside (degrees)
+        </text>
+        <text
+          x={12}
+          y={PAD.t + ih / 2}
+          transform={`rotate(-90 12 ${PAD.t + ih / 2})`}
+          textAnchor="middle"
+          className="fill-ink-600 text-[11px]"
+        >
+          dB re peak
+        </text>
       </svg>
       <figcaption className="mt-1 flex flex-wrap gap-x-4 gap-y-1 text-xs text-ink-600">
         {series.map((s, i) => (
           <span key={s.label} className="flex items-center gap-1.5">
-            <span aria-hidden className="inline-block h-0 w-4 border-t-2" style={{ borderColor: COLOURS[i % COLOURS.length], borderTopStyle: own(s) ? 'solid' : 'dashed' }} />
+            <span
+              aria-hidden
+              className="inline-block h-0 w-4 border-t-2"
+              style={{ borderColor: COLOURS[i % COLOURS.length], borderTopStyle: own(s) ? 'solid' : 'dashed' }}
+            />
             {s.label}
-            {s.spectrum && !own(s) ? <span className="text-ink-400">(dashed: the MUSIC spectrum of its signal subspace)</span> : null}
+            {s.spectrum && !own(s) ? (
+              <span className="text-ink-400">(dashed: the MUSIC spectrum of its signal subspace)</span>
+            ) : null}
           </span>
         ))}
       </figcaption>

@@ -44,7 +44,10 @@ export function ExportPanel({
         method: 'POST',
         json: { arrayId, revision, recipientEmail: recipient, note: note || undefined, runs: chosen },
       });
-      setStatus({ tone: 'ok', text: `Sent to ${out.recipientEmail}. The link works until ${new Date(out.expiresAt).toUTCString()}.${out.invited ? ' They have no account yet, so they were also invited to your team as viewer.' : ''}` });
+      setStatus({
+        tone: 'ok',
+        text: `Sent to ${out.recipientEmail}. The link works until ${new Date(out.expiresAt).toUTCString()}.${out.invited ? ' They have no account yet, so they were also invited to your team as viewer.' : ''}`,
+      });
       setRecipient('');
       setNote('');
     } catch (err) {
@@ -74,7 +77,9 @@ export function ExportPanel({
                     <input
                       type="checkbox"
                       checked={chosen.includes(r.id)}
-                      onChange={(e) => setChosen((c) => (e.target.checked ? [...c, r.id] : c.filter((x) => x !== r.id)))}
+                      onChange={(e) =>
+                        setChosen((c) => (e.target.checked ? [...c, r.id] : c.filter((x) => x !== r.id)))
+                      }
                     />
                     {r.label}
                     {r.datasetName ? <span className="text-ink-500">on “{r.datasetName}”</span> : null}
@@ -82,22 +87,44 @@ export function ExportPanel({
                 </li>
               ))}
             </ul>
-            {!datasetsAllowed ? <p className="mt-1 text-xs text-amber-700">Your team does not let viewers export dataset files: runs go into the bundle without their data.</p> : null}
+            {!datasetsAllowed ? (
+              <p className="mt-1 text-xs text-amber-700">
+                Your team does not let viewers export dataset files: runs go into the bundle without their data.
+              </p>
+            ) : null}
           </fieldset>
         ) : (
-          <p className="text-sm text-ink-500">No finished estimate runs use this revision yet; the bundle holds the array alone.</p>
+          <p className="text-sm text-ink-500">
+            No finished estimate runs use this revision yet; the bundle holds the array alone.
+          </p>
         )}
         <a href={href} download className={buttonClass('secondary')} data-testid="export-bundle">
           Download bundle (.zip)
         </a>
         {canSend ? (
           <form onSubmit={send} className="space-y-3 border-t border-ink-100 pt-4" aria-label="Send by e-mail">
-            <Field id="handoff-recipient" label="Send to (e-mail)" type="email" required value={recipient} onChange={(e) => setRecipient(e.target.value)} error={fieldError} hint="A signed link that expires in 7 days. Someone without an account is also invited to your team as viewer." />
+            <Field
+              id="handoff-recipient"
+              label="Send to (e-mail)"
+              type="email"
+              required
+              value={recipient}
+              onChange={(e) => setRecipient(e.target.value)}
+              error={fieldError}
+              hint="A signed link that expires in 7 days. Someone without an account is also invited to your team as viewer."
+            />
             <div>
               <label htmlFor="handoff-note" className="block text-sm font-medium text-ink-800">
                 Note
               </label>
-              <textarea id="handoff-note" rows={3} maxLength={2000} value={note} onChange={(e) => setNote(e.target.value)} className={cn(inputClass, 'mt-1')} />
+              <textarea
+                id="handoff-note"
+                rows={3}
+                maxLength={2000}
+                value={note}
+                onChange={(e) => setNote(e.target.value)}
+                className={cn(inputClass, 'mt-1')}
+              />
             </div>
             {status ? <FormMessage tone={status.tone}>{status.text}</FormMessage> : null}
             <Button type="submit" disabled={busy || !recipient}>

@@ -14,20 +14,31 @@ function ImportReport({ result }: { result: ImportResult }) {
   return (
     <div className="space-y-4" data-testid="import-result">
       <FormMessage tone={result.reproduced === false ? 'warn' : 'ok'}>
-        Imported “{result.name}” as a new array in your team (revision 1, from revision {result.sourceRevision} of the sender’s), with {result.datasets.length} dataset(s) and {result.runs.length} run(s).{' '}
+        Imported “{result.name}” as a new array in your team (revision 1, from revision {result.sourceRevision} of the
+        sender’s), with {result.datasets.length} dataset(s) and {result.runs.length} run(s).{' '}
         <Link href={`/arrays/${result.arrayId}`} className="font-medium underline underline-offset-2">
           Open the array
         </Link>
       </FormMessage>
       <p className="text-sm text-ink-600">
-        Bundle “{result.bundle.title}” by {result.bundle.author.name} ({result.bundle.author.email}), written {new Date(result.bundle.createdAt).toUTCString()} with {result.bundle.softwareVersion}; {result.bundle.files} files, every SHA-256 checked.
-        {result.signOffsInSource.length ? ` Signed off at the sender’s by ${result.signOffsInSource.map((s) => s.by).join(', ')} (a sign-off does not carry over: review it here).` : ''}
+        Bundle “{result.bundle.title}” by {result.bundle.author.name} ({result.bundle.author.email}), written{' '}
+        {new Date(result.bundle.createdAt).toUTCString()} with {result.bundle.softwareVersion}; {result.bundle.files}{' '}
+        files, every SHA-256 checked.
+        {result.signOffsInSource.length
+          ? ` Signed off at the sender’s by ${result.signOffsInSource.map((s) => s.by).join(', ')} (a sign-off does not carry over: review it here).`
+          : ''}
       </p>
       {result.runs.map((run) => (
         <div key={run.id} className="rounded-md border border-ink-100 px-3 py-2">
           <p className="flex items-center gap-2 text-sm font-medium text-ink-800">
             Run {run.originalId} → run {run.id}
-            {run.reproduced === true ? <Badge tone="teal">reproduced</Badge> : run.reproduced === false ? <Badge tone="coral">differs</Badge> : <Badge tone="amber">not re-run</Badge>}
+            {run.reproduced === true ? (
+              <Badge tone="teal">reproduced</Badge>
+            ) : run.reproduced === false ? (
+              <Badge tone="coral">differs</Badge>
+            ) : (
+              <Badge tone="amber">not re-run</Badge>
+            )}
           </p>
           {run.note ? <p className="text-sm text-ink-600">{run.note}</p> : null}
           {run.comparison?.error ? <p className="text-sm text-coral-700">{run.comparison.error}</p> : null}
@@ -48,7 +59,13 @@ function ImportReport({ result }: { result: ImportResult }) {
                     <td className="py-1 pr-2">{m.storedDeg.map(deg).join(', ')}</td>
                     <td className="py-1 pr-2">{m.recomputedDeg.map(deg).join(', ')}</td>
                     <td className="py-1" data-testid={`diff-${m.method}`}>
-                      {m.maxAbsDifferenceDeg === null ? m.message : m.reproduced ? `${m.maxAbsDifferenceDeg.toExponential(2)}° (reproduced)` : <span className="text-coral-700">{m.message}</span>}
+                      {m.maxAbsDifferenceDeg === null ? (
+                        m.message
+                      ) : m.reproduced ? (
+                        `${m.maxAbsDifferenceDeg.toExponential(2)}° (reproduced)`
+                      ) : (
+                        <span className="text-coral-700">{m.message}</span>
+                      )}
                     </td>
                   </tr>
                 ))}
@@ -88,7 +105,9 @@ export function ImportForm({ linkToken }: { linkToken?: string }) {
   }
 
   async function fromLink() {
-    const res = await fetch(`/api/handoff/${encodeURIComponent(linkToken!)}`, { headers: { accept: 'application/zip' } });
+    const res = await fetch(`/api/handoff/${encodeURIComponent(linkToken!)}`, {
+      headers: { accept: 'application/zip' },
+    });
     if (!res.ok) {
       const body = await res.json().catch(() => null);
       throw new Error(body?.error?.message ?? `The link did not work (${res.status}).`);
@@ -98,7 +117,11 @@ export function ImportForm({ linkToken }: { linkToken?: string }) {
 
   return (
     <Card aria-labelledby="import-title">
-      <CardHeader id="import-title" title="Import a bundle" description="Creates a new array (revision 1) in your team with the bundle’s datasets and runs; nothing existing is changed. Each run is re-executed here and compared with the bearings it stored." />
+      <CardHeader
+        id="import-title"
+        title="Import a bundle"
+        description="Creates a new array (revision 1) in your team with the bundle’s datasets and runs; nothing existing is changed. Each run is re-executed here and compared with the bearings it stored."
+      />
       <div className="space-y-4 px-5 py-4">
         {linkToken ? (
           <div className="rounded-md border border-glass-200 bg-glass-50 px-3 py-3 text-sm">
@@ -119,13 +142,23 @@ export function ImportForm({ linkToken }: { linkToken?: string }) {
             <label htmlFor="bundle-file" className="block text-sm font-medium text-ink-800">
               Bundle file (.zip)
             </label>
-            <input id="bundle-file" type="file" accept=".zip,application/zip" className="mt-1 block text-sm" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
+            <input
+              id="bundle-file"
+              type="file"
+              accept=".zip,application/zip"
+              className="mt-1 block text-sm"
+              onChange={(e) => setFile(e.target.files?.[0] ?? null)}
+            />
           </div>
           <Button type="submit" variant={linkToken ? 'secondary' : 'primary'} disabled={busy || !file}>
             {busy ? 'Importing…' : 'Import file'}
           </Button>
         </form>
-        {error ? <FormMessage tone="error">The bundle was not imported: {error.replace(/^The bundle was refused: /, '')}</FormMessage> : null}
+        {error ? (
+          <FormMessage tone="error">
+            The bundle was not imported: {error.replace(/^The bundle was refused: /, '')}
+          </FormMessage>
+        ) : null}
         {result ? <ImportReport result={result} /> : null}
       </div>
     </Card>

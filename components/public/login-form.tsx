@@ -23,7 +23,13 @@ export function LoginForm({ callbackUrl, initialError }: { callbackUrl: string; 
       const res = await fetch('/api/auth/callback/credentials', {
         method: 'POST',
         headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-auth-return-redirect': '1' },
-        body: new URLSearchParams({ email: String(data.get('email') ?? ''), password: String(data.get('password') ?? ''), csrfToken, callbackUrl, json: 'true' }),
+        body: new URLSearchParams({
+          email: String(data.get('email') ?? ''),
+          password: String(data.get('password') ?? ''),
+          csrfToken,
+          callbackUrl,
+          json: 'true',
+        }),
       });
       if (res.status === 429) {
         const body = (await res.json().catch(() => null)) as { error?: { message?: string } } | null;

@@ -10,9 +10,17 @@ export function ResetRequestForm() {
     e.preventDefault();
     const email = new FormData(e.currentTarget).get('email');
     setFieldError(undefined);
-    const res = await fetch('/api/password-reset', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email }) });
-    const body = (await res.json().catch(() => null)) as { message?: string; error?: { message?: string; fields?: Record<string, string[]> } } | null;
-    if (res.ok) setState({ tone: 'ok', text: body?.message ?? 'If that address has an account, a reset link is on its way.' });
+    const res = await fetch('/api/password-reset', {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ email }),
+    });
+    const body = (await res.json().catch(() => null)) as {
+      message?: string;
+      error?: { message?: string; fields?: Record<string, string[]> };
+    } | null;
+    if (res.ok)
+      setState({ tone: 'ok', text: body?.message ?? 'If that address has an account, a reset link is on its way.' });
     else {
       setFieldError(body?.error?.fields?.email?.[0]);
       setState({ tone: 'error', text: body?.error?.message ?? 'The request failed.' });

@@ -8,7 +8,8 @@ import { cn } from '@/lib/client/cn';
 import type { ReviewThreadDto } from '@/lib/data/reviews';
 import { sendWithCsrf } from '@/components/handoff/csrf-fetch';
 
-const when = (iso: string) => new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' }) + ' UTC';
+const when = (iso: string) =>
+  new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' }) + ' UTC';
 
 const kindLabel = { comment: 'comment', approval: 'approved', 'changes-requested': 'changes requested' } as const;
 const kindTone = { comment: 'ink', approval: 'teal', 'changes-requested': 'coral' } as const;
@@ -23,14 +24,21 @@ export function SignOffBanner({ thread, what }: { thread: ReviewThreadDto; what:
     );
   }
   return (
-    <div className="rounded-md border border-glass-200 bg-glass-50 px-3 py-2 text-sm text-glass-900" data-testid="sign-off" role="status">
+    <div
+      className="rounded-md border border-glass-200 bg-glass-50 px-3 py-2 text-sm text-glass-900"
+      data-testid="sign-off"
+      role="status"
+    >
       {thread.signOffs.map((s, i) => (
         <p key={i}>
-          <span className="font-semibold">Signed off</span> by {s.by} ({s.role}) on <time dateTime={s.at}>{when(s.at)}</time>
+          <span className="font-semibold">Signed off</span> by {s.by} ({s.role}) on{' '}
+          <time dateTime={s.at}>{when(s.at)}</time>
           {s.note ? <span className="text-glass-800">: “{s.note}”</span> : null}
         </p>
       ))}
-      {thread.status === 'changes-requested' ? <p className="mt-1 font-medium text-coral-700">Changes were requested after the last sign-off.</p> : null}
+      {thread.status === 'changes-requested' ? (
+        <p className="mt-1 font-medium text-coral-700">Changes were requested after the last sign-off.</p>
+      ) : null}
     </div>
   );
 }
@@ -62,7 +70,10 @@ export function ReviewPanel({
     setBusy(true);
     setError(null);
     try {
-      const next = await sendWithCsrf<ReviewThreadDto>('/api/v1/reviews', { method: 'POST', json: { ...target, kind, body } });
+      const next = await sendWithCsrf<ReviewThreadDto>('/api/v1/reviews', {
+        method: 'POST',
+        json: { ...target, kind, body },
+      });
       setThread(next);
       setBody('');
     } catch (err) {
@@ -74,7 +85,14 @@ export function ReviewPanel({
 
   return (
     <Card aria-labelledby="review-title">
-      <CardHeader id="review-title" title={title} description={description ?? 'Comments, sign-off and requests for changes. A sign-off belongs to this revision only; an edit makes a new revision that needs its own.'} />
+      <CardHeader
+        id="review-title"
+        title={title}
+        description={
+          description ??
+          'Comments, sign-off and requests for changes. A sign-off belongs to this revision only; an edit makes a new revision that needs its own.'
+        }
+      />
       <div className="space-y-4 px-5 py-4">
         <SignOffBanner thread={thread} what={what} />
         {thread.items.length ? (
@@ -105,7 +123,14 @@ export function ReviewPanel({
             <label htmlFor="review-body" className="block text-sm font-medium text-ink-800">
               {canApprove ? 'Comment, or a note with your decision' : 'Reply with a comment'}
             </label>
-            <textarea id="review-body" value={body} onChange={(e) => setBody(e.target.value)} rows={3} maxLength={4000} className={cn(inputClass, 'mt-1')} />
+            <textarea
+              id="review-body"
+              value={body}
+              onChange={(e) => setBody(e.target.value)}
+              rows={3}
+              maxLength={4000}
+              className={cn(inputClass, 'mt-1')}
+            />
             {error ? <FormMessage tone="error">{error}</FormMessage> : null}
             <div className="flex flex-wrap gap-2">
               <Button type="submit" variant="secondary" disabled={busy || !body.trim()}>
@@ -116,7 +141,12 @@ export function ReviewPanel({
                   <Button onClick={() => void submit('approval')} disabled={busy}>
                     Approve and sign off
                   </Button>
-                  <Button variant="danger" onClick={() => void submit('changes-requested')} disabled={busy || !body.trim()} title="Say what should change in the box above">
+                  <Button
+                    variant="danger"
+                    onClick={() => void submit('changes-requested')}
+                    disabled={busy || !body.trim()}
+                    title="Say what should change in the box above"
+                  >
                     Ask for changes
                   </Button>
                 </>

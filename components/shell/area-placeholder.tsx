@@ -33,7 +33,9 @@ export async function AreaPlaceholder({
         <p>{emptyText}</p>
         {write ? (
           <p className="mt-2 text-ink-500">
-            {can(user.role, write) ? `As ${user.role}, you will be able to ${phrase(write)} here.` : `${refusalMessage(user.role, write)} You will be able to read what your team adds.`}
+            {can(user.role, write)
+              ? `As ${user.role}, you will be able to ${phrase(write)} here.`
+              : `${refusalMessage(user.role, write)} You will be able to read what your team adds.`}
           </p>
         ) : null}
       </EmptyState>
@@ -42,5 +44,7 @@ export async function AreaPlaceholder({
 }
 
 function phrase(p: Permission): string {
-  return refusalMessage('admin', p).replace(/^Your role \(admin\) cannot /, '').replace(/\.$/, '');
+  return refusalMessage('admin', p)
+    .replace(/^Your role \(admin\) cannot /, '')
+    .replace(/\.$/, '');
 }

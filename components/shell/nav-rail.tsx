@@ -43,7 +43,13 @@ function NavLinks({ items, pathname, onNavigate }: { items: NavItem[]; pathname:
                 active ? 'bg-ink-800 text-white' : 'text-ink-300 hover:bg-ink-900 hover:text-white',
               )}
             >
-              <span aria-hidden className={cn('h-4 w-0.5 rounded-full', active ? 'bg-glass-300' : 'bg-transparent group-hover:bg-ink-600')} />
+              <span
+                aria-hidden
+                className={cn(
+                  'h-4 w-0.5 rounded-full',
+                  active ? 'bg-glass-300' : 'bg-transparent group-hover:bg-ink-600',
+                )}
+              />
               <span className="flex-1">
                 <span className="block font-medium">{item.label}</span>
                 <span className={cn('block text-2xs', active ? 'text-ink-300' : 'text-ink-500')}>{item.hint}</span>

@@ -26,9 +26,16 @@ type Row = {
   outliers: number;
 };
 
-const num = (digits: number) => ({ getValue }: { getValue: () => unknown }) => {
-  const v = getValue() as number | null;
-  return <span className="tabular">{v === null || v === undefined ? '—' : Number.isFinite(v) ? v.toPrecision(digits) : String(v)}</span>;
+const num = (digits: number) => {
+  const NumberCell = ({ getValue }: { getValue: () => unknown }) => {
+    const v = getValue() as number | null;
+    return (
+      <span className="tabular">
+        {v === null || v === undefined ? '—' : Number.isFinite(v) ? v.toPrecision(digits) : String(v)}
+      </span>
+    );
+  };
+  return NumberCell;
 };
 
 function rowsOf(study: StudyDto): Row[] {
@@ -49,12 +56,46 @@ function rowsOf(study: StudyDto): Row[] {
 }
 
 function csvOf(study: StudyDto): string {
-  const head = ['variable', 'value', 'elements', 'snapshots', 'method', 'rmse_deg', 'rmse_inliers_deg', 'crb_rms_deg', 'rmse_over_crb', 'matching_p50_deg', 'matching_p90_deg', 'matching_p95_deg', 'resolution_probability', 'outlier_rate', 'crb_std_deg_per_source', 'rmse_deg_per_source'];
+  const head = [
+    'variable',
+    'value',
+    'elements',
+    'snapshots',
+    'method',
+    'rmse_deg',
+    'rmse_inliers_deg',
+    'crb_rms_deg',
+    'rmse_over_crb',
+    'matching_p50_deg',
+    'matching_p90_deg',
+    'matching_p95_deg',
+    'resolution_probability',
+    'outlier_rate',
+    'crb_std_deg_per_source',
+    'rmse_deg_per_source',
+  ];
   const lines = [head.join(',')];
   for (const p of study.result?.points ?? []) {
     for (const m of p.methods) {
       lines.push(
-        [study.result!.variable, p.value, p.elements, p.snapshots, m.method, m.rmseDeg, m.rmseInliersDeg ?? '', p.crbRmsDeg, m.rmseOverCrb, m.matchingDistanceDeg.p50, m.matchingDistanceDeg.p90, m.matchingDistanceDeg.p95, m.resolutionProbability ?? '', m.outlierRate, p.crbStdDeg.join(' '), m.rmsePerSourceDeg.join(' ')].join(','),
+        [
+          study.result!.variable,
+          p.value,
+          p.elements,
+          p.snapshots,
+          m.method,
+          m.rmseDeg,
+          m.rmseInliersDeg ?? '',
+          p.crbRmsDeg,
+          m.rmseOverCrb,
+          m.matchingDistanceDeg.p50,
+          m.matchingDistanceDeg.p90,
+          m.matchingDistanceDeg.p95,
+          m.resolutionProbability ?? '',
+          m.outlierRate,
+          p.crbStdDeg.join(' '),
+          m.rmsePerSourceDeg.join(' '),
+        ].join(','),
       );
     }
   }
@@ -78,7 +119,11 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
   const varLabel = VARIABLE_LABELS[variable];
   const columns: ColumnDef<Row, unknown>[] = [
     { accessorKey: 'value', header: `${varLabel.name}${varLabel.unit ? ` (${varLabel.unit})` : ''}` },
-    { accessorKey: 'method', header: 'Method', cell: ({ getValue }) => METHOD_LABELS[String(getValue())] ?? String(getValue()) },
+    {
+      accessorKey: 'method',
+      header: 'Method',
+      cell: ({ getValue }) => METHOD_LABELS[String(getValue())] ?? String(getValue()),
+    },
     { accessorKey: 'rmseDeg', header: 'RMSE (°)', cell: num(4) },
     { accessorKey: 'crbRmsDeg', header: '√CRB (°)', cell: num(4) },
     { accessorKey: 'ratio', header: 'RMSE / √CRB', cell: num(3) },
@@ -111,31 +156,111 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
             <div className="flex gap-2">
               {result ? (
                 <>
-                  <Button variant="secondary" onClick={() => downloadText(`study-${id}.csv`, 'text/csv', csvOf(study))}>Export CSV</Button>
-                  <Button variant="secondary" onClick={() => downloadText(`study-${id}.json`, 'application/json', JSON.stringify({ id, name: study.name, softwareVersion: study.softwareVersion, inputs: study.inputs, result }, null, 2))}>Export JSON</Button>
+                  <Button variant="secondary" onClick={() => downloadText(`study-${id}.csv`, 'text/csv', csvOf(study))}>
+                    Export CSV
+                  </Button>
+                  <Button
+                    variant="secondary"
+                    onClick={() =>
+                      downloadText(
+                        `study-${id}.json`,
+                        'application/json',
+                        JSON.stringify(
+                          {
+                            id,
+                            name: study.name,
+                            softwareVersion: study.softwareVersion,
+                            inputs: study.inputs,
+                            result,
+                          },
+                          null,
+                          2,
+                        ),
+                      )
+                    }
+                  >
+                    Export JSON
+                  </Button>
                 </>
               ) : null}
-              {canEdit ? <Button variant="danger" onClick={remove}>Delete</Button> : null}
+              {canEdit ? (
+                <Button variant="danger" onClick={remove}>
+                  Delete
+                </Button>
+              ) : null}
             </div>
           }
         />
         <dl className="grid gap-x-6 gap-y-2 px-5 py-4 text-sm sm:grid-cols-3">
-          <div><dt className="text-ink-500">Array</dt><dd>{study.inputs.array.name ? `${study.inputs.array.name} r${study.inputs.array.revision}, ` : ''}{variable === 'elements' ? 'M swept' : `M = ${spec.elements}`}, d = {spec.spacingWavelengths} λ</dd></div>
-          <div><dt className="text-ink-500">Sources</dt><dd>{spec.bearingsDeg.map((b, i) => `${b}° at ${spec.powersDb[i]} dB`).join('; ')}{spec.correlation ? `; ρ = ${spec.correlation}` : ''}</dd></div>
-          <div><dt className="text-ink-500">Sweep</dt><dd>{varLabel.name}: {spec.sweep.values.join(', ')}{varLabel.unit ? ` ${varLabel.unit}` : ''}{variable !== 'snapshots' ? `; N = ${spec.snapshots}` : ''}</dd></div>
-          <div><dt className="text-ink-500">Methods</dt><dd>{spec.methods.map((m) => METHOD_LABELS[m] ?? m).join(', ')}</dd></div>
-          <div><dt className="text-ink-500">Trials and seed</dt><dd>{spec.trials} per point, seed {spec.seed}</dd></div>
-          <div><dt className="text-ink-500">Covariance</dt><dd>{spec.smoothing && spec.smoothing !== 'none' ? `smoothing ${spec.smoothing === 'auto' ? '≈ 2M/3' : `L = ${spec.smoothing}`}` : 'no smoothing'}{spec.forwardBackward ? ', forward–backward' : ''}</dd></div>
+          <div>
+            <dt className="text-ink-500">Array</dt>
+            <dd>
+              {study.inputs.array.name ? `${study.inputs.array.name} r${study.inputs.array.revision}, ` : ''}
+              {variable === 'elements' ? 'M swept' : `M = ${spec.elements}`}, d = {spec.spacingWavelengths} λ
+            </dd>
+          </div>
+          <div>
+            <dt className="text-ink-500">Sources</dt>
+            <dd>
+              {spec.bearingsDeg.map((b, i) => `${b}° at ${spec.powersDb[i]} dB`).join('; ')}
+              {spec.correlation ? `; ρ = ${spec.correlation}` : ''}
+            </dd>
+          </div>
+          <div>
+            <dt className="text-ink-500">Sweep</dt>
+            <dd>
+              {varLabel.name}: {spec.sweep.values.join(', ')}
+              {varLabel.unit ? ` ${varLabel.unit}` : ''}
+              {variable !== 'snapshots' ? `; N = ${spec.snapshots}` : ''}
+            </dd>
+          </div>
+          <div>
+            <dt className="text-ink-500">Methods</dt>
+            <dd>{spec.methods.map((m) => METHOD_LABELS[m] ?? m).join(', ')}</dd>
+          </div>
+          <div>
+            <dt className="text-ink-500">Trials and seed</dt>
+            <dd>
+              {spec.trials} per point, seed {spec.seed}
+            </dd>
+          </div>
+          <div>
+            <dt className="text-ink-500">Covariance</dt>
+            <dd>
+              {spec.smoothing && spec.smoothing !== 'none'
+                ? `smoothing ${spec.smoothing === 'auto' ? '≈ 2M/3' : `L = ${spec.smoothing}`}`
+                : 'no smoothing'}
+              {spec.forwardBackward ? ', forward–backward' : ''}
+            </dd>
+          </div>
         </dl>
-        {deleteError ? <div className="px-5 pb-4"><FormMessage tone="error">{deleteError}</FormMessage></div> : null}
+        {deleteError ? (
+          <div className="px-5 pb-4">
+            <FormMessage tone="error">{deleteError}</FormMessage>
+          </div>
+        ) : null}
       </Card>
 
       {running ? (
         <Card aria-labelledby="progress-title">
-          <CardHeader id="progress-title" title={study.status === 'queued' ? 'Queued' : 'Running'} description="Trials run in the background; this page follows them." />
+          <CardHeader
+            id="progress-title"
+            title={study.status === 'queued' ? 'Queued' : 'Running'}
+            description="Trials run in the background; this page follows them."
+          />
           <div className="px-5 py-4">
-            <div role="progressbar" aria-label="Study progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(study.progress * 100)} className="h-2 overflow-hidden rounded bg-ink-100">
-              <div className="h-full bg-glass-500 transition-[width]" style={{ width: `${Math.max(3, study.progress * 100)}%` }} />
+            <div
+              role="progressbar"
+              aria-label="Study progress"
+              aria-valuemin={0}
+              aria-valuemax={100}
+              aria-valuenow={Math.round(study.progress * 100)}
+              className="h-2 overflow-hidden rounded bg-ink-100"
+            >
+              <div
+                className="h-full bg-glass-500 transition-[width]"
+                style={{ width: `${Math.max(3, study.progress * 100)}%` }}
+              />
             </div>
             <p className="mt-2 text-sm text-ink-600 tabular">{Math.round(study.progress * 100)} %</p>
           </div>
@@ -156,24 +281,57 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
             </div>
           </Card>
           <Card aria-labelledby="resolution-title">
-            <CardHeader id="resolution-title" title="Resolution probability" description="Share of trials in which every estimate lies within half the gap to the nearest other source." />
+            <CardHeader
+              id="resolution-title"
+              title="Resolution probability"
+              description="Share of trials in which every estimate lies within half the gap to the nearest other source."
+            />
             <div className="px-5 py-4">
-              {spec.bearingsDeg.length >= 2 ? <ResolutionChart variable={variable} points={result.points} /> : <p className="text-sm text-ink-600">One source: there is no pair to resolve. Outlier rates are in the table.</p>}
+              {spec.bearingsDeg.length >= 2 ? (
+                <ResolutionChart variable={variable} points={result.points} />
+              ) : (
+                <p className="text-sm text-ink-600">
+                  One source: there is no pair to resolve. Outlier rates are in the table.
+                </p>
+              )}
             </div>
           </Card>
           <Card aria-labelledby="numbers-title">
-            <CardHeader id="numbers-title" title="Numbers" description={`Computed in ${(result.elapsedMs / 1000).toFixed(1)} s with software ${study.softwareVersion}. An outlier is a trial with an estimate more than half the Rayleigh gap from its source.`} />
-            <DataTable data={rows} columns={columns} label="Study results" filterPlaceholder="Filter rows…" initialSort={[{ id: 'value', desc: false }]} />
+            <CardHeader
+              id="numbers-title"
+              title="Numbers"
+              description={`Computed in ${(result.elapsedMs / 1000).toFixed(1)} s with software ${study.softwareVersion}. An outlier is a trial with an estimate more than half the Rayleigh gap from its source.`}
+            />
+            <DataTable
+              data={rows}
+              columns={columns}
+              label="Study results"
+              filterPlaceholder="Filter rows…"
+              initialSort={[{ id: 'value', desc: false }]}
+            />
           </Card>
         </>
       ) : null}
 
-      <aside className="rounded-card border border-amber-200 bg-amber-50 px-5 py-4 text-sm text-amber-900" aria-label="Caution">
+      <aside
+        className="rounded-card border border-amber-200 bg-amber-50 px-5 py-4 text-sm text-amber-900"
+        aria-label="Caution"
+      >
         <p className="font-semibold">Read these numbers with care</p>
         <ul className="mt-1 list-disc space-y-1 pl-5">
-          <li>The Cramér–Rao bound limits the variance of unbiased estimators. It promises nothing for one estimate, and a biased method can sit below it.</li>
-          <li>Below a threshold SNR or snapshot count the errors of every method jump sharply (outliers); the bound does not show that.</li>
-          <li>This is a simulation of the ideal model. Calibration or position errors, mutual coupling, near-field or wideband sources and coherent multipath break subspace methods in real data. The bound shown assumes uncorrelated sources.</li>
+          <li>
+            The Cramér–Rao bound limits the variance of unbiased estimators. It promises nothing for one estimate, and a
+            biased method can sit below it.
+          </li>
+          <li>
+            Below a threshold SNR or snapshot count the errors of every method jump sharply (outliers); the bound does
+            not show that.
+          </li>
+          <li>
+            This is a simulation of the ideal model. Calibration or position errors, mutual coupling, near-field or
+            wideband sources and coherent multipath break subspace methods in real data. The bound shown assumes
+            uncorrelated sources.
+          </li>
         </ul>
       </aside>
     </div>

@@ -24,7 +24,10 @@ export function Invitations({ invitations }: { invitations: InvitationDto[] }) {
     setFields({});
     setMessage(null);
     try {
-      await apiSend('POST', '/api/team/invitations', { email: data.get('invite-email'), role: data.get('invite-role') });
+      await apiSend('POST', '/api/team/invitations', {
+        email: data.get('invite-email'),
+        role: data.get('invite-role'),
+      });
       setMessage({ tone: 'ok', text: `Invitation sent to ${String(data.get('invite-email'))}.` });
       form.reset();
       router.refresh();
@@ -48,12 +51,26 @@ export function Invitations({ invitations }: { invitations: InvitationDto[] }) {
   return (
     <div className="space-y-4 px-5 py-4">
       <form onSubmit={onSubmit} className="grid gap-3 sm:grid-cols-[1fr_10rem_auto] sm:items-end" noValidate>
-        <Field id="invite-email" label="E-mail" type="email" required autoComplete="off" placeholder="colleague@example.org" error={fields.email?.[0]} />
+        <Field
+          id="invite-email"
+          label="E-mail"
+          type="email"
+          required
+          autoComplete="off"
+          placeholder="colleague@example.org"
+          error={fields.email?.[0]}
+        />
         <div>
           <label htmlFor="invite-role" className="block text-sm font-medium text-ink-800">
             Role
           </label>
-          <select id="invite-role" name="invite-role" defaultValue="engineer" className={cn(inputClass, 'mt-1')} aria-invalid={fields.role ? true : undefined}>
+          <select
+            id="invite-role"
+            name="invite-role"
+            defaultValue="engineer"
+            className={cn(inputClass, 'mt-1')}
+            aria-invalid={fields.role ? true : undefined}
+          >
             <option value="engineer">engineer</option>
             <option value="reviewer">reviewer</option>
             <option value="viewer">viewer</option>
@@ -75,7 +92,9 @@ export function Invitations({ invitations }: { invitations: InvitationDto[] }) {
               <span className="text-ink-500">as {i.role}</span>
               <Badge tone={tone[i.status]}>{i.status}</Badge>
               <span className="text-xs text-ink-400 tabular">
-                {i.status === 'pending' ? `expires ${i.expiresAt.slice(0, 16).replace('T', ' ')} UTC` : `sent ${i.createdAt.slice(0, 10)}`}
+                {i.status === 'pending'
+                  ? `expires ${i.expiresAt.slice(0, 16).replace('T', ' ')} UTC`
+                  : `sent ${i.createdAt.slice(0, 10)}`}
               </span>
               {i.status === 'pending' ? (
                 <Button variant="ghost" className="ml-auto px-2 py-1 text-xs" onClick={() => revoke(i.id)}>

@@ -11,7 +11,15 @@ import type { MemberDto } from '@/lib/data/dto';
 
 const roleOptions = ['admin', 'engineer', 'reviewer', 'viewer'] as const;
 
-export function MembersTable({ members, canManage, selfId }: { members: MemberDto[]; canManage: boolean; selfId: number }) {
+export function MembersTable({
+  members,
+  canManage,
+  selfId,
+}: {
+  members: MemberDto[];
+  canManage: boolean;
+  selfId: number;
+}) {
   const router = useRouter();
   const [message, setMessage] = useState<{ tone: 'ok' | 'error'; text: string } | null>(null);
 
@@ -27,8 +35,16 @@ export function MembersTable({ members, canManage, selfId }: { members: MemberDt
   }
 
   const columns: ColumnDef<MemberDto, unknown>[] = [
-    { accessorKey: 'name', header: 'Name', cell: ({ row }) => <span className="font-medium">{row.original.name}</span> },
-    { accessorKey: 'email', header: 'E-mail', cell: ({ row }) => <span className="font-mono text-xs">{row.original.email}</span> },
+    {
+      accessorKey: 'name',
+      header: 'Name',
+      cell: ({ row }) => <span className="font-medium">{row.original.name}</span>,
+    },
+    {
+      accessorKey: 'email',
+      header: 'E-mail',
+      cell: ({ row }) => <span className="font-mono text-xs">{row.original.email}</span>,
+    },
     {
       accessorKey: 'role',
       header: 'Role',
@@ -41,7 +57,12 @@ export function MembersTable({ members, canManage, selfId }: { members: MemberDt
             <select
               id={`role-${row.original.id}`}
               defaultValue={row.original.role}
-              onChange={(e) => run(() => apiSend('PATCH', `/api/team/members/${row.original.id}`, { role: e.target.value }), `${row.original.name} is now ${e.target.value}.`)}
+              onChange={(e) =>
+                run(
+                  () => apiSend('PATCH', `/api/team/members/${row.original.id}`, { role: e.target.value }),
+                  `${row.original.name} is now ${e.target.value}.`,
+                )
+              }
               className="rounded-md border border-ink-200 bg-white px-2 py-1 text-sm"
             >
               {roleOptions.map((r) => (
@@ -55,7 +76,11 @@ export function MembersTable({ members, canManage, selfId }: { members: MemberDt
           <Badge tone={roleTone[row.original.role]}>{row.original.role}</Badge>
         ),
     },
-    { accessorKey: 'createdAt', header: 'Joined', cell: ({ row }) => <span className="text-ink-500 tabular">{row.original.createdAt.slice(0, 10)}</span> },
+    {
+      accessorKey: 'createdAt',
+      header: 'Joined',
+      cell: ({ row }) => <span className="text-ink-500 tabular">{row.original.createdAt.slice(0, 10)}</span>,
+    },
   ];
   if (canManage) {
     columns.push({
@@ -70,7 +95,11 @@ export function MembersTable({ members, canManage, selfId }: { members: MemberDt
             variant="danger"
             className="px-2 py-1 text-xs"
             onClick={() => {
-              if (window.confirm(`Remove ${row.original.name} from the team?`)) void run(() => apiSend('DELETE', `/api/team/members/${row.original.id}`), `${row.original.name} was removed.`);
+              if (window.confirm(`Remove ${row.original.name} from the team?`))
+                void run(
+                  () => apiSend('DELETE', `/api/team/members/${row.original.id}`),
+                  `${row.original.name} was removed.`,
+                );
             }}
           >
             Remove
@@ -85,7 +114,13 @@ export function MembersTable({ members, canManage, selfId }: { members: MemberDt
           <FormMessage tone={message.tone}>{message.text}</FormMessage>
         </div>
       ) : null}
-      <DataTable data={members} columns={columns} label="Team members" filterPlaceholder="Filter by name, e-mail or role" initialSort={[{ id: 'name', desc: false }]} />
+      <DataTable
+        data={members}
+        columns={columns}
+        label="Team members"
+        filterPlaceholder="Filter by name, e-mail or role"
+        initialSort={[{ id: 'name', desc: false }]}
+      />
     </>
   );
 }

@@ -11,7 +11,10 @@ export function TeamSettingsForm({ team }: { team: TeamDto }) {
     setValue(next);
     try {
       await apiSend('PATCH', '/api/team', { allowViewerDatasetExport: next });
-      setMessage({ tone: 'ok', text: next ? 'Viewers may now download dataset files.' : 'Viewers may no longer download dataset files.' });
+      setMessage({
+        tone: 'ok',
+        text: next ? 'Viewers may now download dataset files.' : 'Viewers may no longer download dataset files.',
+      });
     } catch (err) {
       setValue(!next);
       setMessage({ tone: 'error', text: (err as Error).message });
@@ -20,10 +23,18 @@ export function TeamSettingsForm({ team }: { team: TeamDto }) {
   return (
     <div className="space-y-3 px-5 py-4">
       <label className="flex items-start gap-3 text-sm">
-        <input type="checkbox" checked={value} onChange={(e) => toggle(e.target.checked)} className="mt-0.5 h-4 w-4 accent-glass-600" />
+        <input
+          type="checkbox"
+          checked={value}
+          onChange={(e) => toggle(e.target.checked)}
+          className="mt-0.5 h-4 w-4 accent-glass-600"
+        />
         <span>
           <span className="font-medium">Viewers may download dataset files</span>
-          <span className="block text-ink-500">Off by default: recordings from trials can be sensitive. Engineers, reviewers and admins can always download.</span>
+          <span className="block text-ink-500">
+            Off by default: recordings from trials can be sensitive. Engineers, reviewers and admins can always
+            download.
+          </span>
         </span>
       </label>
       {message ? <FormMessage tone={message.tone}>{message.text}</FormMessage> : null}

@@ -8,7 +8,16 @@ const tones = {
 } as const;
 
 export function Badge({ tone = 'ink', children }: { tone?: keyof typeof tones; children: React.ReactNode }) {
-  return <span className={cn('inline-flex items-center rounded px-1.5 py-0.5 text-2xs font-medium ring-1 ring-inset', tones[tone])}>{children}</span>;
+  return (
+    <span
+      className={cn(
+        'inline-flex items-center rounded px-1.5 py-0.5 text-2xs font-medium ring-1 ring-inset',
+        tones[tone],
+      )}
+    >
+      {children}
+    </span>
+  );
 }
 
 export const roleTone = { admin: 'teal', engineer: 'ink', reviewer: 'amber', viewer: 'ink' } as const;

@@ -18,6 +18,10 @@ export function buttonClass(variant: Variant = 'primary', extra?: string): strin
   );
 }
 
-export function Button({ variant = 'primary', className, ...props }: React.ButtonHTMLAttributes<HTMLButtonElement> & { variant?: Variant }) {
+export function Button({
+  variant = 'primary',
+  className,
+  ...props
+}: React.ButtonHTMLAttributes<HTMLButtonElement> & { variant?: Variant }) {
   return <button type="button" className={buttonClass(variant, className)} {...props} />;
 }

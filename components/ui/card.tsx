@@ -8,7 +8,17 @@ export function Card({ className, children, ...rest }: React.HTMLAttributes<HTML
   );
 }
 
-export function CardHeader({ title, description, actions, id }: { title: string; description?: React.ReactNode; actions?: React.ReactNode; id?: string }) {
+export function CardHeader({
+  title,
+  description,
+  actions,
+  id,
+}: {
+  title: string;
+  description?: React.ReactNode;
+  actions?: React.ReactNode;
+  id?: string;
+}) {
   return (
     <header className="flex flex-wrap items-start justify-between gap-3 border-b border-ink-100 px-5 py-4">
       <div>

@@ -48,7 +48,14 @@ export function DataTable<T>({
         <label htmlFor={`${id}-filter`} className="sr-only">
           Filter {label}
         </label>
-        <input id={`${id}-filter`} type="search" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder={filterPlaceholder} className={cn(inputClass, 'max-w-xs py-1.5')} />
+        <input
+          id={`${id}-filter`}
+          type="search"
+          value={filter}
+          onChange={(e) => setFilter(e.target.value)}
+          placeholder={filterPlaceholder}
+          className={cn(inputClass, 'max-w-xs py-1.5')}
+        />
         <p className="text-xs text-ink-500 tabular" aria-live="polite">
           {rows.length} of {data.length} shown
         </p>
@@ -61,11 +68,22 @@ export function DataTable<T>({
                 {hg.headers.map((h) => {
                   const sorted = h.column.getIsSorted();
                   return (
-                    <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'} className="px-5 py-2 font-semibold whitespace-nowrap">
+                    <th
+                      key={h.id}
+                      scope="col"
+                      aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'}
+                      className="px-5 py-2 font-semibold whitespace-nowrap"
+                    >
                       {h.column.getCanSort() ? (
-                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink-900">
+                        <button
+                          type="button"
+                          onClick={h.column.getToggleSortingHandler()}
+                          className="inline-flex items-center gap-1 uppercase hover:text-ink-900"
+                        >
                           {flexRender(h.column.columnDef.header, h.getContext())}
-                          <span aria-hidden className="text-ink-400">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}</span>
+                          <span aria-hidden className="text-ink-400">
+                            {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}
+                          </span>
                         </button>
                       ) : (
                         flexRender(h.column.columnDef.header, h.getContext())

@@ -1,4 +1,14 @@
-export function EmptyState({ title, children, points, icon }: { title: string; children: React.ReactNode; points?: string[]; icon?: React.ReactNode }) {
+export function EmptyState({
+  title,
+  children,
+  points,
+  icon,
+}: {
+  title: string;
+  children: React.ReactNode;
+  points?: string[];
+  icon?: React.ReactNode;
+}) {
   return (
     <div className="rounded-card border border-dashed border-ink-200 bg-white/60 px-6 py-10">
       <div className="mx-auto max-w-2xl">

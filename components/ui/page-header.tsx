@@ -1,4 +1,14 @@
-export function PageHeader({ title, kicker, description, actions }: { title: string; kicker?: string; description?: React.ReactNode; actions?: React.ReactNode }) {
+export function PageHeader({
+  title,
+  kicker,
+  description,
+  actions,
+}: {
+  title: string;
+  kicker?: string;
+  description?: React.ReactNode;
+  actions?: React.ReactNode;
+}) {
   return (
     <div className="mb-6 flex flex-wrap items-end justify-between gap-4 border-b border-ink-100 pb-5">
       <div className="max-w-3xl">

@@ -21,18 +21,39 @@ function toCaller(user: User, via: Caller['via']): Caller {
   return { id: user.id, email: user.email, name: user.name, role: user.role, teamId: user.teamId as number, via };
 }
 
-export async function verifyCredentials({ email, password, ip }: { email: string; password: string; ip: string }): Promise<User | null> {
+export async function verifyCredentials({
+  email,
+  password,
+  ip,
+}: {
+  email: string;
+  password: string;
+  ip: string;
+}): Promise<User | null> {
   await getDb();
   const normalised = email.trim().toLowerCase();
   const user = await User.findOne({ where: { email: normalised } });
   const ok = await verifyPassword(password, user?.passwordHash ?? dummyHash());
   if (!user || !ok) {
     await recordSignInFailure({ email: normalised, ip });
-    if (user) await recordAudit({ teamId: user.teamId as number, userId: user.id, action: 'signin.failed', target: user.email, detail: { ip } });
+    if (user)
+      await recordAudit({
+        teamId: user.teamId as number,
+        userId: user.id,
+        action: 'signin.failed',
+        target: user.email,
+        detail: { ip },
+      });
     return null;
   }
   await clearSignInFailures({ email: normalised });
-  await recordAudit({ teamId: user.teamId as number, userId: user.id, action: 'signin.succeeded', target: user.email, detail: { ip } });
+  await recordAudit({
+    teamId: user.teamId as number,
+    userId: user.id,
+    action: 'signin.succeeded',
+    target: user.email,
+    detail: { ip },
+  });
   return user;
 }
 
@@ -51,9 +72,19 @@ export const authOptions: NextAuthOptions = {
         const email = String(credentials?.email ?? '');
         const password = String(credentials?.password ?? '');
         if (!email || !password) return null;
-        const user = await verifyCredentials({ email, password, ip: clientIp((req?.headers ?? {}) as Record<string, string>) });
+        const user = await verifyCredentials({
+          email,
+          password,
+          ip: clientIp((req?.headers ?? {}) as Record<string, string>),
+        });
         if (!user) return null;
-        return { id: String(user.id), email: user.email, name: user.name, role: user.role, teamId: user.teamId as number };
+        return {
+          id: String(user.id),
+          email: user.email,
+          name: user.name,
+          role: user.role,
+          teamId: user.teamId as number,
+        };
       },
     }),
   ],
@@ -105,11 +136,16 @@ export function checkCsrf(req: Request, cookies: Record<string, string>): void {
     } catch {
       /* unparseable origin is refused below */
     }
-    if (originHost !== host) throw new ApiError('csrf_failed', `Cross-site request refused: origin ${origin} is not this site.`);
+    if (originHost !== host)
+      throw new ApiError('csrf_failed', `Cross-site request refused: origin ${origin} is not this site.`);
   }
   const header = req.headers.get('x-csrf-token');
   const cookie = cookies['__Host-next-auth.csrf-token'] ?? cookies['next-auth.csrf-token'];
-  if (!header) throw new ApiError('csrf_failed', 'Missing CSRF token: send the x-csrf-token header with cookie-authenticated changes.');
+  if (!header)
+    throw new ApiError(
+      'csrf_failed',
+      'Missing CSRF token: send the x-csrf-token header with cookie-authenticated changes.',
+    );
   if (!cookie) throw new ApiError('csrf_failed', 'Missing CSRF cookie: reload the page and try again.');
   const [token, hash] = cookie.split('|');
   if (!token || !hash || !safeEqual(hash, sha256Hex(`${token}${authSecret()}`)) || !safeEqual(header, token)) {
@@ -129,7 +165,8 @@ export async function getCaller(req: Request): Promise<Caller> {
     const m = /^Bearer\s+(\S+)\s*$/i.exec(auth);
     if (!m) throw new ApiError('unauthenticated', 'The Authorization header must be "Bearer <token>".');
     const token = await ApiToken.findOne({ where: { tokenHash: sha256Hex(m[1]) } });
-    if (!token || token.revokedAt) throw new ApiError('unauthenticated', 'The API token is not valid or has been revoked.');
+    if (!token || token.revokedAt)
+      throw new ApiError('unauthenticated', 'The API token is not valid or has been revoked.');
     const user = await User.findByPk(token.userId as number);
     if (!user) throw new ApiError('unauthenticated', 'The API token belongs to no current user.');
     token.lastUsedAt = new Date();
@@ -138,10 +175,13 @@ export async function getCaller(req: Request): Promise<Caller> {
   }
   const cookies = parseCookies(req.headers.get('cookie'));
   const jwt = await getToken({
-    req: { headers: Object.fromEntries(req.headers.entries()), cookies } as unknown as Parameters<typeof getToken>[0]['req'],
+    req: { headers: Object.fromEntries(req.headers.entries()), cookies } as unknown as Parameters<
+      typeof getToken
+    >[0]['req'],
     secret: authSecret(),
   });
-  if (!jwt?.uid) throw new ApiError('unauthenticated', 'Sign in, or send an API token as "Authorization: Bearer <token>".');
+  if (!jwt?.uid)
+    throw new ApiError('unauthenticated', 'Sign in, or send an API token as "Authorization: Bearer <token>".');
   const user = await User.findByPk(jwt.uid);
   if (!user) throw new ApiError('unauthenticated', 'Your account no longer exists; sign in again.');
   if (!SAFE_METHODS.has(req.method.toUpperCase())) checkCsrf(req, cookies);
@@ -166,7 +206,9 @@ export async function requireUser(): Promise<Caller> {
 }
 
 /** For pages: the user and whether the role is allowed; pages show a refusal panel when not. */
-export async function requirePagePermission(permission: Permission): Promise<{ user: Caller; allowed: boolean; message: string }> {
+export async function requirePagePermission(
+  permission: Permission,
+): Promise<{ user: Caller; allowed: boolean; message: string }> {
   const user = await requireUser();
   return { user, allowed: can(user.role, permission), message: refusalMessage(user.role, permission) };
 }

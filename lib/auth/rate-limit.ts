@@ -6,7 +6,15 @@ import { getDb } from '../db';
  * Persistent fixed-window counters in the rate_limits table, so limits hold
  * across restarts and across server processes sharing the database.
  */
-export async function countHit({ key, windowMs, now = Date.now() }: { key: string; windowMs: number; now?: number }): Promise<number> {
+export async function countHit({
+  key,
+  windowMs,
+  now = Date.now(),
+}: {
+  key: string;
+  windowMs: number;
+  now?: number;
+}): Promise<number> {
   const db = await getDb();
   return db.transaction(async (transaction) => {
     await db.query(
@@ -16,12 +24,24 @@ export async function countHit({ key, windowMs, now = Date.now() }: { key: strin
          "windowStart" = CASE WHEN "windowStart" <= :expired THEN :now ELSE "windowStart" END`,
       { replacements: { key, now, expired: now - windowMs }, transaction },
     );
-    const rows = await db.query<{ count: number }>(`SELECT "count" FROM rate_limits WHERE "key" = :key`, { replacements: { key }, type: QueryTypes.SELECT, transaction });
+    const rows = await db.query<{ count: number }>(`SELECT "count" FROM rate_limits WHERE "key" = :key`, {
+      replacements: { key },
+      type: QueryTypes.SELECT,
+      transaction,
+    });
     return Number(rows[0]?.count ?? 1);
   });
 }
 
-export async function currentCount({ key, windowMs, now = Date.now() }: { key: string; windowMs: number; now?: number }): Promise<{ count: number; retryAfterSec: number }> {
+export async function currentCount({
+  key,
+  windowMs,
+  now = Date.now(),
+}: {
+  key: string;
+  windowMs: number;
+  now?: number;
+}): Promise<{ count: number; retryAfterSec: number }> {
   const db = await getDb();
   const rows = await db.query<{ count: number; windowStart: number }>(
     `SELECT "count", "windowStart" FROM rate_limits WHERE "key" = :key`,
@@ -29,7 +49,10 @@ export async function currentCount({ key, windowMs, now = Date.now() }: { key: s
   );
   const row = rows[0];
   if (!row || Number(row.windowStart) <= now - windowMs) return { count: 0, retryAfterSec: 0 };
-  return { count: Number(row.count), retryAfterSec: Math.max(1, Math.ceil((Number(row.windowStart) + windowMs - now) / 1000)) };
+  return {
+    count: Number(row.count),
+    retryAfterSec: Math.max(1, Math.ceil((Number(row.windowStart) + windowMs - now) / 1000)),
+  };
 }
 
 export async function clearKey(key: string): Promise<void> {
@@ -76,6 +99,14 @@ export async function clearSignInFailures({ email }: { email: string }): Promise
 }
 
 /** A general limiter for e-mail-sending endpoints (reset requests): throws nothing, returns whether allowed. */
-export async function allowHit({ key, limit, windowMs }: { key: string; limit: number; windowMs: number }): Promise<boolean> {
+export async function allowHit({
+  key,
+  limit,
+  windowMs,
+}: {
+  key: string;
+  limit: number;
+  windowMs: number;
+}): Promise<boolean> {
   return (await countHit({ key, windowMs })) <= limit;
 }

@@ -21,8 +21,12 @@ export async function handleSignInLimit(req: Request, segments: string[]): Promi
   if (!wait) return null;
   const minutes = Math.ceil(wait / 60);
   return errorResponse(
-    new ApiError('rate_limited', `Too many failed sign-in attempts. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or reset your password.`, {
-      headers: { 'retry-after': String(wait) },
-    }),
+    new ApiError(
+      'rate_limited',
+      `Too many failed sign-in attempts. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or reset your password.`,
+      {
+        headers: { 'retry-after': String(wait) },
+      },
+    ),
   );
 }

@@ -26,14 +26,24 @@ export const BUNDLE_FORMAT = 'steerwise-bundle';
 export const BUNDLE_SCHEMA_VERSION = 1;
 export const MANIFEST_PATH = 'manifest.json';
 
-export const bundleFileKindSchema = z.enum(['array-revision', 'calibration', 'chart', 'dataset', 'estimate-run', 'summary']);
+export const bundleFileKindSchema = z.enum([
+  'array-revision',
+  'calibration',
+  'chart',
+  'dataset',
+  'estimate-run',
+  'summary',
+]);
 export type BundleFileKind = z.infer<typeof bundleFileKindSchema>;
 
 const safePathSchema = z
   .string()
   .min(1)
   .max(200)
-  .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*(\/[A-Za-z0-9][A-Za-z0-9._-]*)*$/, 'paths use letters, digits, ".", "_", "-" and "/" only, with no empty or parent segments');
+  .regex(
+    /^[A-Za-z0-9][A-Za-z0-9._-]*(\/[A-Za-z0-9][A-Za-z0-9._-]*)*$/,
+    'paths use letters, digits, ".", "_", "-" and "/" only, with no empty or parent segments',
+  );
 
 export const manifestFileSchema = z.object({
   path: safePathSchema,
@@ -106,19 +116,27 @@ export async function writeBundle(options: {
   });
   const paths = new Set<string>();
   for (const f of encoded) {
-    if (f.path === MANIFEST_PATH || paths.has(f.path)) throw new BundleError('bad-manifest', `bundle path '${f.path}' is used twice`, f.path);
+    if (f.path === MANIFEST_PATH || paths.has(f.path))
+      throw new BundleError('bad-manifest', `bundle path '${f.path}' is used twice`, f.path);
     paths.add(f.path);
   }
   const zip = new JSZip();
   const date = options.createdAt;
   zip.file(MANIFEST_PATH, JSON.stringify(manifest, null, 2) + '\n', { date });
   for (const f of encoded) zip.file(f.path, f.bytes, { date });
-  const bytes = await zip.generateAsync({ type: 'uint8array', compression: 'DEFLATE', compressionOptions: { level: 6 } });
+  const bytes = await zip.generateAsync({
+    type: 'uint8array',
+    compression: 'DEFLATE',
+    compressionOptions: { level: 6 },
+  });
   return { zip: bytes, manifest };
 }
 
 /** Reads and verifies a bundle. Throws BundleError (archive problems are wrapped with code 'archive'). */
-export function readBundle(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZIP_LIMITS): { manifest: BundleManifest; files: Map<string, Uint8Array> } {
+export function readBundle(
+  buffer: Uint8Array,
+  limits: UnzipLimits = DEFAULT_UNZIP_LIMITS,
+): { manifest: BundleManifest; files: Map<string, Uint8Array> } {
   let entries: Map<string, Uint8Array>;
   try {
     entries = safeUnzip(buffer, limits);
@@ -127,7 +145,8 @@ export function readBundle(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZ
     throw err;
   }
   const manifestBytes = entries.get(MANIFEST_PATH);
-  if (!manifestBytes) throw new BundleError('missing-manifest', `the archive has no ${MANIFEST_PATH}; it is not a Steerwise bundle`);
+  if (!manifestBytes)
+    throw new BundleError('missing-manifest', `the archive has no ${MANIFEST_PATH}; it is not a Steerwise bundle`);
   let raw: unknown;
   try {
     raw = JSON.parse(new TextDecoder('utf-8', { fatal: true }).decode(manifestBytes));
@@ -145,22 +164,40 @@ export function readBundle(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZ
   const parsed = manifestSchema.safeParse(raw);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
-    throw new BundleError('bad-manifest', `${MANIFEST_PATH}: ${issue.path.join('.') || '(root)'}: ${issue.message}`, MANIFEST_PATH);
+    throw new BundleError(
+      'bad-manifest',
+      `${MANIFEST_PATH}: ${issue.path.join('.') || '(root)'}: ${issue.message}`,
+      MANIFEST_PATH,
+    );
   }
   const manifest = parsed.data;
   const files = new Map<string, Uint8Array>();
   const listed = new Set<string>();
   for (const file of manifest.files) {
-    if (listed.has(file.path)) throw new BundleError('bad-manifest', `${MANIFEST_PATH} lists '${file.path}' twice`, file.path);
+    if (listed.has(file.path))
+      throw new BundleError('bad-manifest', `${MANIFEST_PATH} lists '${file.path}' twice`, file.path);
     listed.add(file.path);
     const data = entries.get(file.path);
-    if (!data) throw new BundleError('missing-file', `'${file.path}' is listed in the manifest but missing from the archive`, file.path);
+    if (!data)
+      throw new BundleError(
+        'missing-file',
+        `'${file.path}' is listed in the manifest but missing from the archive`,
+        file.path,
+      );
     if (data.byteLength !== file.bytes) {
-      throw new BundleError('checksum-mismatch', `'${file.path}' has ${data.byteLength} bytes; the manifest says ${file.bytes}`, file.path);
+      throw new BundleError(
+        'checksum-mismatch',
+        `'${file.path}' has ${data.byteLength} bytes; the manifest says ${file.bytes}`,
+        file.path,
+      );
     }
     const digest = sha256Hex(data);
     if (digest !== file.sha256) {
-      throw new BundleError('checksum-mismatch', `'${file.path}' fails its SHA-256 check (manifest ${file.sha256.slice(0, 12)}…, file ${digest.slice(0, 12)}…)`, file.path);
+      throw new BundleError(
+        'checksum-mismatch',
+        `'${file.path}' fails its SHA-256 check (manifest ${file.sha256.slice(0, 12)}…, file ${digest.slice(0, 12)}…)`,
+        file.path,
+      );
     }
     files.set(file.path, data);
   }

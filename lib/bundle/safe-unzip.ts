@@ -85,7 +85,8 @@ const S_IFLNK = 0o120000;
 /** Reads and vets the central directory; inflates nothing. */
 export function inspectZip(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZIP_LIMITS): ZipEntryInfo[] {
   const view = new DataView(buffer.buffer, buffer.byteOffset, buffer.byteLength);
-  if (buffer.byteLength < 22) throw new UnzipError('not-a-zip', `file is ${buffer.byteLength} bytes, too short to be a zip archive`);
+  if (buffer.byteLength < 22)
+    throw new UnzipError('not-a-zip', `file is ${buffer.byteLength} bytes, too short to be a zip archive`);
   const eocd = findEndOfCentralDirectory(view);
   if (eocd < 0) {
     const startsLikeZip = buffer.byteLength >= 4 && view.getUint32(0, true) === LOCAL_SIGNATURE;
@@ -102,10 +103,16 @@ export function inspectZip(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZ
   }
   if (diskNumber !== 0) throw new UnzipError('not-a-zip', 'multi-part (spanned) zip archives are not accepted');
   if (entryCount > limits.maxEntries) {
-    throw new UnzipError('too-many-entries', `archive has ${entryCount} entries; at most ${limits.maxEntries} are allowed`);
+    throw new UnzipError(
+      'too-many-entries',
+      `archive has ${entryCount} entries; at most ${limits.maxEntries} are allowed`,
+    );
   }
   if (directoryOffset + directorySize > eocd) {
-    throw new UnzipError('truncated', 'zip archive is truncated or corrupt: the central directory lies outside the file');
+    throw new UnzipError(
+      'truncated',
+      'zip archive is truncated or corrupt: the central directory lies outside the file',
+    );
   }
 
   const entries: ZipEntryInfo[] = [];
@@ -127,7 +134,8 @@ export function inspectZip(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZ
     const commentLength = view.getUint16(pos + 32, true);
     const externalAttributes = view.getUint32(pos + 38, true);
     const localHeaderOffset = view.getUint32(pos + 42, true);
-    if (pos + 46 + nameLength > eocd) throw new UnzipError('truncated', `zip central directory is corrupt at entry ${index + 1}`);
+    if (pos + 46 + nameLength > eocd)
+      throw new UnzipError('truncated', `zip central directory is corrupt at entry ${index + 1}`);
     const rawName = buffer.subarray(pos + 46, pos + 46 + nameLength);
     const name = new TextDecoder('utf-8', { fatal: false }).decode(rawName);
     pos += 46 + nameLength + extraLength + commentLength;
@@ -142,13 +150,21 @@ export function inspectZip(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZ
     }
     if (flags & 0x1) throw new UnzipError('encrypted', `entry '${name}' is encrypted`, name);
     if (method !== 0 && method !== 8) {
-      throw new UnzipError('unsupported-compression', `entry '${name}' uses compression method ${method}; only stored (0) and deflate (8) are accepted`, name);
+      throw new UnzipError(
+        'unsupported-compression',
+        `entry '${name}' uses compression method ${method}; only stored (0) and deflate (8) are accepted`,
+        name,
+      );
     }
     const key = name.normalize('NFC');
     if (seen.has(key)) throw new UnzipError('duplicate-name', `the name '${name}' appears twice in the archive`, name);
     seen.add(key);
     if (uncompressedSize > limits.maxEntryBytes) {
-      throw new UnzipError('entry-too-large', `entry '${name}' expands to ${uncompressedSize} bytes; the limit is ${limits.maxEntryBytes}`, name);
+      throw new UnzipError(
+        'entry-too-large',
+        `entry '${name}' expands to ${uncompressedSize} bytes; the limit is ${limits.maxEntryBytes}`,
+        name,
+      );
     }
     total += uncompressedSize;
     if (total > limits.maxTotalBytes) {
@@ -165,12 +181,24 @@ export function inspectZip(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZ
       }
     }
     if (method === 0 && compressedSize !== uncompressedSize) {
-      throw new UnzipError('corrupt-entry', `stored entry '${name}' declares different compressed and uncompressed sizes`, name);
+      throw new UnzipError(
+        'corrupt-entry',
+        `stored entry '${name}' declares different compressed and uncompressed sizes`,
+        name,
+      );
     }
     if (localHeaderOffset + 30 > directoryOffset) {
       throw new UnzipError('truncated', `entry '${name}' points outside the archive data`, name);
     }
-    entries.push({ name, isDirectory: name.endsWith('/'), compressedSize, uncompressedSize, crc32: crc, method, localHeaderOffset });
+    entries.push({
+      name,
+      isDirectory: name.endsWith('/'),
+      compressedSize,
+      uncompressedSize,
+      crc32: crc,
+      method,
+      localHeaderOffset,
+    });
   }
   return entries;
 }
@@ -191,7 +219,8 @@ export function safeUnzip(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZI
     }
     const dataStart = at + 30 + view.getUint16(at + 26, true) + view.getUint16(at + 28, true);
     const dataEnd = dataStart + entry.compressedSize;
-    if (dataEnd > buffer.byteLength) throw new UnzipError('truncated', `entry '${entry.name}' is cut short`, entry.name);
+    if (dataEnd > buffer.byteLength)
+      throw new UnzipError('truncated', `entry '${entry.name}' is cut short`, entry.name);
     const raw = buffer.subarray(dataStart, dataEnd);
     let data: Uint8Array;
     if (entry.method === 0) {
@@ -212,9 +241,13 @@ export function safeUnzip(buffer: Uint8Array, limits: UnzipLimits = DEFAULT_UNZI
       }
     }
     if (data.byteLength !== entry.uncompressedSize) {
-      throw new UnzipError('corrupt-entry', `entry '${entry.name}' holds ${data.byteLength} bytes but declares ${entry.uncompressedSize}`, entry.name);
+      throw new UnzipError(
+        'corrupt-entry',
+        `entry '${entry.name}' holds ${data.byteLength} bytes but declares ${entry.uncompressedSize}`,
+        entry.name,
+      );
     }
-    if ((crc32(data) >>> 0) !== entry.crc32) {
+    if (crc32(data) >>> 0 !== entry.crc32) {
       throw new UnzipError('corrupt-entry', `entry '${entry.name}' fails its CRC-32 check`, entry.name);
     }
     files.set(entry.name, new Uint8Array(data));

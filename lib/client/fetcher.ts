@@ -16,8 +16,15 @@ export class ClientApiError extends Error {
 
 async function toError(res: Response): Promise<ClientApiError> {
   try {
-    const body = (await res.json()) as { error?: { code?: string; message?: string; fields?: Record<string, string[]> } };
-    return new ClientApiError(res.status, body.error?.code ?? 'error', body.error?.message ?? `Request failed (${res.status})`, body.error?.fields);
+    const body = (await res.json()) as {
+      error?: { code?: string; message?: string; fields?: Record<string, string[]> };
+    };
+    return new ClientApiError(
+      res.status,
+      body.error?.code ?? 'error',
+      body.error?.message ?? `Request failed (${res.status})`,
+      body.error?.fields,
+    );
   } catch {
     return new ClientApiError(res.status, 'error', `Request failed (${res.status})`);
   }
@@ -38,7 +45,11 @@ export async function apiSend<T>(method: 'POST' | 'PATCH' | 'PUT' | 'DELETE', ur
   const token = await csrf;
   const res = await fetch(url, {
     method,
-    headers: { 'content-type': 'application/json', accept: 'application/json', ...(token ? { 'x-csrf-token': token } : {}) },
+    headers: {
+      'content-type': 'application/json',
+      accept: 'application/json',
+      ...(token ? { 'x-csrf-token': token } : {}),
+    },
     body: body === undefined ? undefined : JSON.stringify(body),
   });
   if (res.status === 403) csrf = undefined; // a stale token is fetched afresh next time

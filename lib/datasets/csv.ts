@@ -59,17 +59,28 @@ export async function parseCsvFile(options: ParseOptions, totalBytes: number): P
     const loc = { row: lineNo, column };
     if (status === SCAN_EMPTY) return invalid('empty-field', `${where}: the field is empty`, loc);
     if (/[\u0000\ufffd]/.test(text) || /[\u0001-\u0008\u000e-\u001f]/.test(text)) {
-      return invalid('binary-content', `${where}: the field holds binary data, not text (${quoteText(text.trim())})`, loc);
+      return invalid(
+        'binary-content',
+        `${where}: the field holds binary data, not text (${quoteText(text.trim())})`,
+        loc,
+      );
     }
     if (status === SCAN_NOT_FINITE || looksNonFinite(text)) {
-      return invalid('not-finite', `${where}: ${quoteText(text.trim())} is not a finite number (NaN and Inf are not allowed)`, loc);
+      return invalid(
+        'not-finite',
+        `${where}: ${quoteText(text.trim())} is not a finite number (NaN and Inf are not allowed)`,
+        loc,
+      );
     }
     return invalid('not-a-number', `${where}: ${quoteText(text.trim())} is not a number`, loc);
   };
 
   /** Splits a header candidate; returns names, or null if it is not a header. */
   const tryHeader = (line: string, start: number, end: number): string[] | null => {
-    const names = line.slice(start, end).split(',').map((f) => f.trim());
+    const names = line
+      .slice(start, end)
+      .split(',')
+      .map((f) => f.trim());
     for (const name of names) {
       if (!isPrintableName(name)) return null;
       if (scanComplexField(name, 0, name.length, scan) !== SCAN_NOT_A_NUMBER) return null;
@@ -100,7 +111,11 @@ export async function parseCsvFile(options: ParseOptions, totalBytes: number): P
         elements = names.length;
         firstRowLine = lineNo;
         if (elements < 2) {
-          throw invalid('too-few-elements', `row ${lineNo}: the header names ${elements} column; an array needs at least 2`, { row: lineNo });
+          throw invalid(
+            'too-few-elements',
+            `row ${lineNo}: the header names ${elements} column; an array needs at least 2`,
+            { row: lineNo },
+          );
         }
         return;
       }
@@ -141,7 +156,10 @@ export async function parseCsvFile(options: ParseOptions, totalBytes: number): P
       elements = column;
       firstRowLine = lineNo;
       if (elements < 2) {
-        throw invalid('too-few-elements', `row ${lineNo}: has 1 column; an array needs at least 2 elements`, { row: lineNo, column: 1 });
+        throw invalid('too-few-elements', `row ${lineNo}: has 1 column; an array needs at least 2 elements`, {
+          row: lineNo,
+          column: 1,
+        });
       }
     } else if (column < elements) {
       throw invalid(
@@ -200,7 +218,9 @@ export async function parseCsvFile(options: ParseOptions, totalBytes: number): P
   if (rows === 0) {
     throw invalid(
       'no-snapshots',
-      header ? `the file has a header row (row ${firstRowLine}) but no snapshot rows` : 'the file has only comments or blank lines, no snapshot rows',
+      header
+        ? `the file has a header row (row ${firstRowLine}) but no snapshot rows`
+        : 'the file has only comments or blank lines, no snapshot rows',
     );
   }
   checkValueCount(rows, elements, options);

@@ -77,7 +77,12 @@ export class DatasetError extends Error {
 
   /** A plain object for logs and API bodies: `{code, message, location?}`. */
   toJSON(): { code: DatasetErrorCode; message: string; status: DatasetErrorStatus; location?: DatasetErrorLocation } {
-    return { status: this.status, code: this.code, message: this.message, ...(this.location ? { location: this.location } : {}) };
+    return {
+      status: this.status,
+      code: this.code,
+      message: this.message,
+      ...(this.location ? { location: this.location } : {}),
+    };
   }
 }
 

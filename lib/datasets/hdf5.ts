@@ -65,7 +65,8 @@ function muted<T>(fn: () => T): { value?: T; error?: unknown; diagnostics: strin
   const keep = (chunk: unknown): void => {
     if (diagnostics.length >= 20000) return;
     if (typeof chunk === 'string') diagnostics += chunk;
-    else if (ArrayBuffer.isView(chunk)) diagnostics += Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength).toString('utf8');
+    else if (ArrayBuffer.isView(chunk))
+      diagnostics += Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength).toString('utf8');
   };
   process.stderr.write = ((chunk: string | Uint8Array) => {
     keep(chunk);
@@ -157,7 +158,9 @@ function classify(meta: H5Metadata): Layout {
       const reIndex = names.indexOf(a);
       const imIndex = names.indexOf(b);
       if (members.length === 2 && reIndex >= 0 && imIndex >= 0) {
-        const ok = [members[reIndex], members[imIndex]].every((m) => m.type === H5T_FLOAT && (m.size === 4 || m.size === 8));
+        const ok = [members[reIndex], members[imIndex]].every(
+          (m) => m.type === H5T_FLOAT && (m.size === 4 || m.size === 8),
+        );
         if (!ok) {
           return { kind: 'unsupported', status: 415, reason: 'is a compound whose members are not float32 or float64' };
         }
@@ -190,7 +193,10 @@ function logicalRank(meta: H5Metadata): number {
 function listDatasets(file: H5File): { path: string; dataset: H5Dataset; meta: H5Metadata }[] {
   const paths = call('listing the objects', () => file.paths());
   if (paths.length > MAX_OBJECTS) {
-    throw invalid('corrupt', `HDF5 file has ${paths.length} objects; name the dataset with datasetPath (the automatic search stops at ${MAX_OBJECTS})`);
+    throw invalid(
+      'corrupt',
+      `HDF5 file has ${paths.length} objects; name the dataset with datasetPath (the automatic search stops at ${MAX_OBJECTS})`,
+    );
   }
   const out: { path: string; dataset: H5Dataset; meta: H5Metadata }[] = [];
   for (const p of paths) {
@@ -205,7 +211,9 @@ function listDatasets(file: H5File): { path: string; dataset: H5Dataset; meta: H
 }
 
 function summary(items: { path: string; meta: H5Metadata }[]): string {
-  const shown = items.slice(0, 8).map((d) => `${d.path} (${(d.meta.shape ?? []).join('×') || 'scalar'}, ${describeType(d.meta)})`);
+  const shown = items
+    .slice(0, 8)
+    .map((d) => `${d.path} (${(d.meta.shape ?? []).join('×') || 'scalar'}, ${describeType(d.meta)})`);
   return shown.join('; ') + (items.length > 8 ? `; and ${items.length - 8} more` : '');
 }
 
@@ -237,7 +245,9 @@ function readFromFile(h5: H5Module, file: H5File, options: ParseOptions, fileSiz
     const entity = muted(() => file.get(datasetPath)).value ?? null;
     if (!entity || (entity as { type?: string }).type !== 'Dataset') {
       const all = listDatasets(file);
-      const what = entity ? `is a ${(entity as { type?: string }).type ?? 'non-dataset object'}, not a dataset` : 'was not found';
+      const what = entity
+        ? `is a ${(entity as { type?: string }).type ?? 'non-dataset object'}, not a dataset`
+        : 'was not found';
       throw invalid(
         'dataset-not-found',
         `HDF5 dataset ${quoteText(datasetPath, 200)} ${what}; datasets in the file: ${all.length ? summary(all) : 'none'}`,
@@ -257,7 +267,10 @@ function readFromFile(h5: H5Module, file: H5File, options: ParseOptions, fileSiz
     if (candidates.length > 1) {
       throw invalid(
         'ambiguous-dataset',
-        `HDF5 file has ${candidates.length} 2-D datasets (${candidates.map((c) => c.path).slice(0, 8).join(', ')}); name one with datasetPath`,
+        `HDF5 file has ${candidates.length} 2-D datasets (${candidates
+          .map((c) => c.path)
+          .slice(0, 8)
+          .join(', ')}); name one with datasetPath`,
       );
     }
     ({ dataset, meta, path: datasetPath } = candidates[0]);
@@ -271,9 +284,13 @@ function readFromFile(h5: H5Module, file: H5File, options: ParseOptions, fileSiz
   const shape = meta.shape!;
   const snapshots = shape[0];
   const elements = shape[1];
-  if (snapshots === 0 || elements === 0) throw invalid('no-snapshots', `HDF5 dataset ${quoteText(datasetPath, 200)} is empty (shape ${shape.join('×')})`);
+  if (snapshots === 0 || elements === 0)
+    throw invalid('no-snapshots', `HDF5 dataset ${quoteText(datasetPath, 200)} is empty (shape ${shape.join('×')})`);
   if (elements < 2) {
-    throw invalid('too-few-elements', `HDF5 dataset ${quoteText(datasetPath, 200)} has 1 column; an array needs at least 2 elements`);
+    throw invalid(
+      'too-few-elements',
+      `HDF5 dataset ${quoteText(datasetPath, 200)} has 1 column; an array needs at least 2 elements`,
+    );
   }
   checkValueCount(snapshots, elements, options);
 
@@ -286,17 +303,31 @@ function readFromFile(h5: H5Module, file: H5File, options: ParseOptions, fileSiz
   for (let r0 = 0; r0 < snapshots; r0 += blockRows) {
     throwIfAborted(options.signal);
     const r1 = Math.min(snapshots, r0 + blockRows);
-    const ranges: [number, number][] = layout.kind === 'trailing-2' ? [[r0, r1], [0, elements], [0, 2]] : [[r0, r1], [0, elements]];
+    const ranges: [number, number][] =
+      layout.kind === 'trailing-2'
+        ? [
+            [r0, r1],
+            [0, elements],
+            [0, 2],
+          ]
+        : [
+            [r0, r1],
+            [0, elements],
+          ];
     const block = call(`reading rows ${r0 + 1}–${r1} of ${datasetPath}`, () => dataset.slice(ranges));
     const base = r0 * elements;
     const count = (r1 - r0) * elements;
     if (layout.kind === 'compound') {
       if (!Array.isArray(block) || block.length !== count) {
-        throw invalid('corrupt', `HDF5 dataset ${quoteText(datasetPath, 200)}: rows ${r0 + 1}–${r1} could not be read as compounds`);
+        throw invalid(
+          'corrupt',
+          `HDF5 dataset ${quoteText(datasetPath, 200)}: rows ${r0 + 1}–${r1} could not be read as compounds`,
+        );
       }
       for (let q = 0; q < count; q++) {
         const rec = block[q] as unknown;
-        if (!Array.isArray(rec)) throw invalid('corrupt', `HDF5 dataset ${quoteText(datasetPath, 200)}: a compound value could not be read`);
+        if (!Array.isArray(rec))
+          throw invalid('corrupt', `HDF5 dataset ${quoteText(datasetPath, 200)}: a compound value could not be read`);
         re[base + q] = Number(rec[layout.reIndex]);
         im[base + q] = Number(rec[layout.imIndex]);
       }

@@ -59,7 +59,11 @@ export function detectFormat(fileName: string): SnapshotFormat {
 export async function parseSnapshotFile(options: ParseOptions): Promise<ParsedSnapshots> {
   const format = options.format ?? detectFormat(options.fileName ?? options.path);
   if (!['csv', 'npy', 'hdf5', 'wav'].includes(format)) {
-    throw new DatasetError(415, 'unsupported-format', `format ${quoteText(String(format))} is not supported: use csv, npy, hdf5 or wav`);
+    throw new DatasetError(
+      415,
+      'unsupported-format',
+      `format ${quoteText(String(format))} is not supported: use csv, npy, hdf5 or wav`,
+    );
   }
   const size = await checkedFileSize(options);
   try {
@@ -80,7 +84,10 @@ export async function parseSnapshotFile(options: ParseOptions): Promise<ParsedSn
       throw new DatasetError(413, 'file-too-large', 'the data are too large to hold in memory');
     }
     const detail = error instanceof Error ? error.message : String(error);
-    throw invalid('corrupt', `the ${format.toUpperCase()} file could not be read: ${quoteText(detail, 120).slice(1, -1)}`);
+    throw invalid(
+      'corrupt',
+      `the ${format.toUpperCase()} file could not be read: ${quoteText(detail, 120).slice(1, -1)}`,
+    );
   }
   throw new DatasetError(415, 'unsupported-format', `format ${quoteText(String(format))} is not supported`);
 }
@@ -93,7 +100,9 @@ export function toComplexMatrix(parsed: Pick<ParsedSnapshots, 'elements' | 'snap
   const M = parsed.elements;
   const N = parsed.snapshots;
   if (parsed.re.length !== M * N || parsed.im.length !== M * N) {
-    throw new RangeError(`toComplexMatrix: re/im hold ${parsed.re.length}/${parsed.im.length} values, expected ${N} × ${M} = ${N * M}`);
+    throw new RangeError(
+      `toComplexMatrix: re/im hold ${parsed.re.length}/${parsed.im.length} values, expected ${N} × ${M} = ${N * M}`,
+    );
   }
   const re = new Float64Array(M * N);
   const im = new Float64Array(M * N);

@@ -18,7 +18,11 @@ export async function checkedFileSize(options: ParseOptions): Promise<number> {
     throw new DatasetError(500, 'io-error', `the uploaded file could not be read (${(error as Error).message})`);
   }
   if (size > maxBytes) {
-    throw new DatasetError(413, 'file-too-large', `the file is ${formatBytes(size)}; the limit is ${formatBytes(maxBytes)}`);
+    throw new DatasetError(
+      413,
+      'file-too-large',
+      `the file is ${formatBytes(size)}; the limit is ${formatBytes(maxBytes)}`,
+    );
   }
   return size;
 }
@@ -46,7 +50,10 @@ export function throwIfAborted(signal: AbortSignal | undefined): void {
 }
 
 /** Returns a reporter that calls onProgress at most once per MiB (and always at the end). */
-export function progressReporter(options: ParseOptions, totalBytes: number): (bytesRead: number, final?: boolean) => void {
+export function progressReporter(
+  options: ParseOptions,
+  totalBytes: number,
+): (bytesRead: number, final?: boolean) => void {
   const cb = options.onProgress;
   if (!cb) return () => {};
   let last = -Infinity;

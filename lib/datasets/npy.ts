@@ -126,11 +126,15 @@ export async function readNpyHeader(path: string, fileSize: number): Promise<Npy
         throw invalid('bad-magic', "not an NPY file: it does not start with the NPY magic string '\\x93NUMPY'");
       }
     }
-    if (bytesRead < 10) throw invalid('truncated', `the NPY file is cut short: ${bytesRead} bytes, the preamble needs 10`);
+    if (bytesRead < 10)
+      throw invalid('truncated', `the NPY file is cut short: ${bytesRead} bytes, the preamble needs 10`);
     const major = pre[6];
     const minor = pre[7];
     if (major < 1 || major > 3) {
-      throw unsupported('unsupported-format', `NPY format version ${major}.${minor} is not supported: use versions 1.0 to 3.0`);
+      throw unsupported(
+        'unsupported-format',
+        `NPY format version ${major}.${minor} is not supported: use versions 1.0 to 3.0`,
+      );
     }
     let headerLength: number;
     let headerStart: number;
@@ -138,12 +142,19 @@ export async function readNpyHeader(path: string, fileSize: number): Promise<Npy
       headerLength = pre.readUInt16LE(8);
       headerStart = 10;
     } else {
-      if (bytesRead < 12) throw invalid('truncated', `the NPY file is cut short: ${bytesRead} bytes, the version ${major} preamble needs 12`);
+      if (bytesRead < 12)
+        throw invalid(
+          'truncated',
+          `the NPY file is cut short: ${bytesRead} bytes, the version ${major} preamble needs 12`,
+        );
       headerLength = pre.readUInt32LE(8);
       headerStart = 12;
     }
     if (headerLength > MAX_HEADER) {
-      throw invalid('bad-header', `NPY header length ${headerLength} bytes is implausible (the limit is ${MAX_HEADER})`);
+      throw invalid(
+        'bad-header',
+        `NPY header length ${headerLength} bytes is implausible (the limit is ${MAX_HEADER})`,
+      );
     }
     if (headerStart + headerLength > fileSize) {
       throw invalid(
@@ -175,7 +186,8 @@ export async function readNpyHeader(path: string, fileSize: number): Promise<Npy
         `NPY dtype ${quoteText(descr, 20)} is not supported: use complex64, complex128, float32 or float64`,
       );
     }
-    if (typeof dict.fortran_order !== 'boolean') throw invalid('bad-header', "NPY header 'fortran_order' is not True or False");
+    if (typeof dict.fortran_order !== 'boolean')
+      throw invalid('bad-header', "NPY header 'fortran_order' is not True or False");
     const shape = dict.shape;
     if (!Array.isArray(shape) || !shape.every((d) => typeof d === 'number' && Number.isSafeInteger(d) && d >= 0)) {
       throw invalid('bad-header', "NPY header 'shape' is not a tuple of non-negative integers");
@@ -222,7 +234,10 @@ export async function parseNpyFile(options: ParseOptions, fileSize: number): Pro
     throw invalid('no-snapshots', `NPY array has shape ${shapeText}: it holds no values`);
   }
   if (elements < 2) {
-    throw invalid('too-few-elements', `NPY array has shape ${shapeText}: 1 element per snapshot; an array needs at least 2`);
+    throw invalid(
+      'too-few-elements',
+      `NPY array has shape ${shapeText}: 1 element per snapshot; an array needs at least 2`,
+    );
   }
   checkValueCount(snapshots, elements, options);
 
@@ -290,6 +305,12 @@ export async function parseNpyFile(options: ParseOptions, fileSize: number): Pro
     snapshots,
     re,
     im,
-    details: { kind: 'npy', version: `${h.major}.${h.minor}`, dtype: h.descr, fortranOrder: h.fortranOrder, shape: h.shape },
+    details: {
+      kind: 'npy',
+      version: `${h.major}.${h.minor}`,
+      dtype: h.descr,
+      fortranOrder: h.fortranOrder,
+      shape: h.shape,
+    },
   };
 }

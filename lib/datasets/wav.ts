@@ -65,7 +65,8 @@ async function readWavHeader(path: string, fileSize: number): Promise<WavHeader>
     const prefix = await readPrefix(path, length);
     if (prefix.length >= 4) {
       const tag = String.fromCharCode(prefix[0], prefix[1], prefix[2], prefix[3]);
-      if (tag === 'RF64') throw unsupported('unsupported-format', 'RF64 WAV files are not supported: use a RIFF WAV file');
+      if (tag === 'RF64')
+        throw unsupported('unsupported-format', 'RF64 WAV files are not supported: use a RIFF WAV file');
       if (tag !== 'RIFF' && tag !== 'RIFX') {
         throw invalid('bad-magic', "not a WAV file: it does not start with 'RIFF'");
       }
@@ -79,7 +80,12 @@ async function readWavHeader(path: string, fileSize: number): Promise<WavHeader>
     }
     const dataChunk = failure ? null : findDataChunk(wav, prefix);
     if (!failure && dataChunk) {
-      return { container: wav.container, fmt: wav.fmt as FmtChunk, dataStart: dataChunk.start, dataSize: dataChunk.size };
+      return {
+        container: wav.container,
+        fmt: wav.fmt as FmtChunk,
+        dataStart: dataChunk.start,
+        dataSize: dataChunk.size,
+      };
     }
     if (length >= fileSize || length >= MAX_PREFIX) {
       const reason = failure instanceof Error ? failure.message : 'no "data" chunk';
@@ -113,7 +119,12 @@ function findDataChunk(wav: WaveFile, prefix: Uint8Array): { start: number; size
   return null;
 }
 
-function checkOptions(options: ParseOptions): { fftLength: number; hop: number; window: StftWindow; frequencyHz: number } {
+function checkOptions(options: ParseOptions): {
+  fftLength: number;
+  hop: number;
+  window: StftWindow;
+  frequencyHz: number;
+} {
   const fftLength = options.fftLength ?? DEFAULT_FFT_LENGTH;
   if (!Number.isInteger(fftLength) || fftLength < 2 || fftLength > 65536 || (fftLength & (fftLength - 1)) !== 0) {
     throw invalid('bad-option', `FFT length ${String(fftLength)} is not allowed: use a power of two from 2 to 65536`);
@@ -131,7 +142,10 @@ function checkOptions(options: ParseOptions): { fftLength: number; hop: number; 
     throw invalid('missing-frequency', 'a WAV file needs an analysis frequency (frequencyHz) to form snapshots');
   }
   if (typeof frequencyHz !== 'number' || !Number.isFinite(frequencyHz) || frequencyHz <= 0) {
-    throw invalid('bad-option', `analysis frequency ${String(frequencyHz)} Hz is not allowed: use a positive number of hertz`);
+    throw invalid(
+      'bad-option',
+      `analysis frequency ${String(frequencyHz)} Hz is not allowed: use a positive number of hertz`,
+    );
   }
   return { fftLength, hop, window, frequencyHz };
 }
@@ -148,9 +162,15 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
   if (formatTag === WAVE_FORMAT_PCM && (bits === 16 || bits === 24 || bits === 32)) sampleFormat = 'pcm';
   else if (formatTag === WAVE_FORMAT_IEEE_FLOAT && bits === 32) sampleFormat = 'float';
   else if (formatTag === WAVE_FORMAT_PCM) {
-    throw unsupported('unsupported-sample-format', `WAV ${bits}-bit PCM is not supported: use 16-, 24- or 32-bit PCM or 32-bit float`);
+    throw unsupported(
+      'unsupported-sample-format',
+      `WAV ${bits}-bit PCM is not supported: use 16-, 24- or 32-bit PCM or 32-bit float`,
+    );
   } else if (formatTag === WAVE_FORMAT_IEEE_FLOAT) {
-    throw unsupported('unsupported-sample-format', `WAV ${bits}-bit float is not supported: use 16-, 24- or 32-bit PCM or 32-bit float`);
+    throw unsupported(
+      'unsupported-sample-format',
+      `WAV ${bits}-bit float is not supported: use 16-, 24- or 32-bit PCM or 32-bit float`,
+    );
   } else {
     throw unsupported(
       'unsupported-sample-format',
@@ -158,16 +178,23 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
     );
   }
   if (!Number.isInteger(channels) || channels < 2) {
-    throw invalid('too-few-channels', `WAV has ${channels} channel${channels === 1 ? '' : 's'}; an array needs at least 2`);
+    throw invalid(
+      'too-few-channels',
+      `WAV has ${channels} channel${channels === 1 ? '' : 's'}; an array needs at least 2`,
+    );
   }
   const opts = checkOptions(options);
   const bytesPerSample = bits / 8;
   const block = channels * bytesPerSample;
   if (fmt.blockAlign !== block) {
-    throw invalid('corrupt', `WAV block align is ${fmt.blockAlign} bytes; ${channels} channels of ${bits} bits need ${block}`);
+    throw invalid(
+      'corrupt',
+      `WAV block align is ${fmt.blockAlign} bytes; ${channels} channels of ${bits} bits need ${block}`,
+    );
   }
   const sampleRate = fmt.sampleRate;
-  if (!Number.isFinite(sampleRate) || sampleRate <= 0) throw invalid('corrupt', `WAV sample rate ${sampleRate} Hz is not valid`);
+  if (!Number.isFinite(sampleRate) || sampleRate <= 0)
+    throw invalid('corrupt', `WAV sample rate ${sampleRate} Hz is not valid`);
   if (opts.frequencyHz > sampleRate / 2) {
     throw invalid(
       'frequency-above-nyquist',

@@ -12,7 +12,10 @@ import { initModels } from '@/models';
 type Holder = { sequelize?: Sequelize; ready?: Promise<Sequelize> };
 // Kept on globalThis so development hot reloads reuse the connection; keyed
 // by file so tests with their own temporary database never share one.
-const holders = ((globalThis as Record<string, unknown>).__steerwiseDb ??= new Map<string, Holder>()) as Map<string, Holder>;
+const holders = ((globalThis as Record<string, unknown>).__steerwiseDb ??= new Map<string, Holder>()) as Map<
+  string,
+  Holder
+>;
 
 function holderFor(file: string): Holder {
   let h = holders.get(file);

@@ -98,28 +98,55 @@ export const demoArrayPlans: Plan[] = [
 ];
 
 /** Adds the demo arrays to the team unless an array of that name is already there (idempotent). */
-export async function seedDemoArrays({ teamId, users, transaction, now = Date.now() }: { teamId: number; users: Record<string, number>; transaction?: Transaction; now?: number }): Promise<number> {
+export async function seedDemoArrays({
+  teamId,
+  users,
+  transaction,
+  now = Date.now(),
+}: {
+  teamId: number;
+  users: Record<string, number>;
+  transaction?: Transaction;
+  now?: number;
+}): Promise<number> {
   let added = 0;
   for (const plan of demoArrayPlans) {
     const name = plan[0].config.name;
     if (await ArrayDesign.findOne({ where: { teamId, name }, transaction })) continue;
     const first = plan[0];
     const array = await ArrayDesign.create(
-      { teamId, name, latestRevision: plan.length, createdById: users[first.author] ?? null, createdAt: new Date(now - first.daysAgo * day) },
+      {
+        teamId,
+        name,
+        latestRevision: plan.length,
+        createdById: users[first.author] ?? null,
+        createdAt: new Date(now - first.daysAgo * day),
+      },
       { transaction },
     );
     for (const [i, step] of plan.entries()) {
       const { input, geometry } = validateArrayInput(step.config);
       const at = new Date(now - step.daysAgo * day);
       const authorId = users[step.author] ?? null;
-      await ArrayRevision.create({ arrayId: array.id, revision: i + 1, authorId, createdAt: at, ...revisionColumns(input, geometry) }, { transaction });
+      await ArrayRevision.create(
+        { arrayId: array.id, revision: i + 1, authorId, createdAt: at, ...revisionColumns(input, geometry) },
+        { transaction },
+      );
       await AuditEvent.create(
         {
           teamId,
           userId: authorId,
           action: i === 0 ? 'array.created' : 'array.revised',
           target: name,
-          detail: { arrayId: array.id, revision: i + 1, ...(i === 0 ? { elements: input.elements, spacingWavelengths: geometry.spacingWavelengths } : i === 1 ? { changed: ['taper', 'elementStates'], note: 'hydrophone 7 flooded' } : { changed: ['elementStates'], note: 'hydrophone 7 replaced' }) },
+          detail: {
+            arrayId: array.id,
+            revision: i + 1,
+            ...(i === 0
+              ? { elements: input.elements, spacingWavelengths: geometry.spacingWavelengths }
+              : i === 1
+                ? { changed: ['taper', 'elementStates'], note: 'hydrophone 7 flooded' }
+                : { changed: ['elementStates'], note: 'hydrophone 7 replaced' }),
+          },
           createdAt: at,
         },
         { transaction },

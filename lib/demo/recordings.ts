@@ -103,7 +103,9 @@ export const DEMO_RECORDINGS: Recording[] = [
     snapshots: 250,
     correlation: 1,
     seed: 4104,
-    comments: ['# Direct path and quay-wall reflection of the ferry Coldharbour: coherent arrivals (invented demo data)'],
+    comments: [
+      '# Direct path and quay-wall reflection of the ferry Coldharbour: coherent arrivals (invented demo data)',
+    ],
   },
 ];
 
@@ -150,7 +152,15 @@ function npyBytes(x: ComplexMatrix): Buffer {
 }
 
 /** Writes and records the demo recordings for one team. Returns how many were added. */
-export async function seedRecordings({ teamId, uploadedById, transaction }: { teamId: number; uploadedById: number | null; transaction?: Transaction }): Promise<number> {
+export async function seedRecordings({
+  teamId,
+  uploadedById,
+  transaction,
+}: {
+  teamId: number;
+  uploadedById: number | null;
+  transaction?: Transaction;
+}): Promise<number> {
   let added = 0;
   for (const r of DEMO_RECORDINGS) {
     const existing = await Dataset.findOne({ where: { teamId, name: r.name }, transaction });
@@ -186,7 +196,11 @@ export async function seedRecordings({ teamId, uploadedById, transaction }: { te
         storagePath: rel,
         arrayId: null,
         options: null,
-        details: { ...(parsed.details as unknown as Record<string, unknown>), summary: summarise(parsed), demo: { simulated: true, seed: r.seed, trueBearingsDeg: r.bearingsDeg, correlation: r.correlation } },
+        details: {
+          ...(parsed.details as unknown as Record<string, unknown>),
+          summary: summarise(parsed),
+          demo: { simulated: true, seed: r.seed, trueBearingsDeg: r.bearingsDeg, correlation: r.correlation },
+        },
         uploadedById,
       },
       { transaction },

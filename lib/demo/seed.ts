@@ -46,7 +46,10 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
       transaction,
     });
     const users: Record<string, number> = {};
-    for (const [t, list] of [[team, demoUsers], [other, otherUsers]] as const) {
+    for (const [t, list] of [
+      [team, demoUsers],
+      [other, otherUsers],
+    ] as const) {
       for (const u of list) {
         const [row] = await User.findOrCreate({
           where: { email: u.email },
@@ -60,14 +63,49 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
       const admin = users['admin@steerwise.test'];
       const day = 24 * 60 * 60 * 1000;
       const t0 = Date.now() - 6 * day;
-      const events: { action: string; target: string; detail: Record<string, unknown>; at: number; userId: number }[] = [
-        { action: 'team.created', target: team.name, detail: { site: 'Port Alder harbour wall, hut 3' }, at: t0, userId: admin },
-        ...demoUsers.slice(1).map((u, i) => ({ action: 'member.added', target: u.email, detail: { role: u.role }, at: t0 + (i + 1) * 3_600_000, userId: admin })),
-        { action: 'team.updated', target: team.name, detail: { note: 'Viewers may not download datasets' }, at: t0 + 2 * day, userId: admin },
-        { action: 'invitation.created', target: 'harbour-hydrographer@steerwise.test', detail: { role: 'viewer' }, at: t0 + 5 * day, userId: admin },
-      ];
+      const events: { action: string; target: string; detail: Record<string, unknown>; at: number; userId: number }[] =
+        [
+          {
+            action: 'team.created',
+            target: team.name,
+            detail: { site: 'Port Alder harbour wall, hut 3' },
+            at: t0,
+            userId: admin,
+          },
+          ...demoUsers.slice(1).map((u, i) => ({
+            action: 'member.added',
+            target: u.email,
+            detail: { role: u.role },
+            at: t0 + (i + 1) * 3_600_000,
+            userId: admin,
+          })),
+          {
+            action: 'team.updated',
+            target: team.name,
+            detail: { note: 'Viewers may not download datasets' },
+            at: t0 + 2 * day,
+            userId: admin,
+          },
+          {
+            action: 'invitation.created',
+            target: 'harbour-hydrographer@steerwise.test',
+            detail: { role: 'viewer' },
+            at: t0 + 5 * day,
+            userId: admin,
+          },
+        ];
       for (const e of events) {
-        await AuditEvent.create({ teamId: team.id, userId: e.userId, action: e.action, target: e.target, detail: e.detail, createdAt: new Date(e.at) }, { transaction });
+        await AuditEvent.create(
+          {
+            teamId: team.id,
+            userId: e.userId,
+            action: e.action,
+            target: e.target,
+            detail: e.detail,
+            createdAt: new Date(e.at),
+          },
+          { transaction },
+        );
       }
       // A pending invitation (its link was never mailed, so it cannot be used).
       await AuthLink.create(
@@ -86,7 +124,13 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
     }
     if (otherCreated) {
       await AuditEvent.create(
-        { teamId: other.id, userId: users['range-admin@steerwise.test'], action: 'team.created', target: other.name, detail: { site: 'Gannet Point, north butt' } },
+        {
+          teamId: other.id,
+          userId: users['range-admin@steerwise.test'],
+          action: 'team.created',
+          target: other.name,
+          detail: { site: 'Gannet Point, north butt' },
+        },
         { transaction },
       );
     }

@@ -23,7 +23,15 @@ export const DEMO_STUDY_SPEC: StudySpec = {
   seed: 1717,
 };
 
-export async function seedDemoStudy({ teamId, createdById, transaction }: { teamId: number; createdById: number | null; transaction?: Transaction }): Promise<boolean> {
+export async function seedDemoStudy({
+  teamId,
+  createdById,
+  transaction,
+}: {
+  teamId: number;
+  createdById: number | null;
+  transaction?: Transaction;
+}): Promise<boolean> {
   const existing = await Study.findOne({ where: { teamId, name: DEMO_STUDY_NAME }, transaction });
   if (existing) return false;
   const result = await runStudy(DEMO_STUDY_SPEC);
@@ -44,7 +52,11 @@ export async function seedDemoStudy({ teamId, createdById, transaction }: { team
       status: 'done',
       progress: 1,
       arrayRevisionId: null,
-      inputs: { request, spec: DEMO_STUDY_SPEC, array: { elements: DEMO_STUDY_SPEC.elements, spacingWavelengths: DEMO_STUDY_SPEC.spacingWavelengths } } as unknown as Record<string, unknown>,
+      inputs: {
+        request,
+        spec: DEMO_STUDY_SPEC,
+        array: { elements: DEMO_STUDY_SPEC.elements, spacingWavelengths: DEMO_STUDY_SPEC.spacingWavelengths },
+      } as unknown as Record<string, unknown>,
       result: result as unknown as Record<string, unknown>,
       error: null,
       softwareVersion: packageJson.version,

@@ -17,7 +17,13 @@ import {
   rayleighGap,
   type ArrayMetrics,
 } from '@/lib/doa/design/array-figures';
-import { pairResolvability, separationVersusAperture, statisticalResolutionLimit, type PairResolvability, type SeparationChart } from '@/lib/doa/bounds';
+import {
+  pairResolvability,
+  separationVersusAperture,
+  statisticalResolutionLimit,
+  type PairResolvability,
+  type SeparationChart,
+} from '@/lib/doa/bounds';
 import { MAX_ELEMENTS, resolveArrayGeometry, type ResolvedGeometry } from '@/lib/validations/array';
 import type { DesignerDraft } from './state';
 
@@ -25,7 +31,10 @@ const DEG = Math.PI / 180;
 
 /** Taper, enabled flags and calibration of a draft, as the engine takes them. */
 export function elementOptions(draft: DesignerDraft): ElementOptions {
-  const taper: TaperSpec = draft.taper.kind === 'chebyshev' ? { kind: 'chebyshev', sidelobeDb: draft.taper.sidelobeDb } : { kind: draft.taper.kind };
+  const taper: TaperSpec =
+    draft.taper.kind === 'chebyshev'
+      ? { kind: 'chebyshev', sidelobeDb: draft.taper.sidelobeDb }
+      : { kind: draft.taper.kind };
   return {
     taper,
     enabled: draft.elementStates.map((e) => e.enabled),
@@ -214,18 +223,37 @@ export interface PairAdvice {
 const fmt = (v: number, digits = 2) => v.toFixed(digits);
 
 /** Smallest snapshot count (doubling search, up to 1e7) at which the pair clears Smith's limit; null if none. */
-function snapshotsNeeded(draft: DesignerDraft, d: number, centerDeg: number, powers: [number, number], separationDeg: number): number | null {
+function snapshotsNeeded(
+  draft: DesignerDraft,
+  d: number,
+  centerDeg: number,
+  powers: [number, number],
+  separationDeg: number,
+): number | null {
   let n = Math.max(1, draft.snapshots);
   for (let step = 0; step < 30 && n <= 1e7; step++) {
     n *= 2;
-    const lim = statisticalResolutionLimit({ elements: draft.elements, spacingWavelengths: d, centerDeg, sourcePowers: powers, noisePower: 1, snapshots: Math.round(n) });
+    const lim = statisticalResolutionLimit({
+      elements: draft.elements,
+      spacingWavelengths: d,
+      centerDeg,
+      sourcePowers: powers,
+      noisePower: 1,
+      snapshots: Math.round(n),
+    });
     if (lim.deltaDeg !== null && lim.deltaDeg <= separationDeg) return Math.round(n);
   }
   return null;
 }
 
 /** SNR increase (dB, in 1 dB steps up to +40) at which the pair clears Smith's limit; null if none. */
-function snrIncreaseNeeded(draft: DesignerDraft, d: number, centerDeg: number, powers: [number, number], separationDeg: number): number | null {
+function snrIncreaseNeeded(
+  draft: DesignerDraft,
+  d: number,
+  centerDeg: number,
+  powers: [number, number],
+  separationDeg: number,
+): number | null {
   for (let extra = 1; extra <= 40; extra++) {
     const f = Math.pow(10, extra / 10);
     const lim = statisticalResolutionLimit({
@@ -310,18 +338,33 @@ export function pairAdvice(draft: DesignerDraft): PairAdvice[] {
         } else {
           outcome = `${label} are ${fmt(sepU, 4)} apart in u, below the Rayleigh gap ${fmt(verdict.rayleighGapU, 4)} and below the statistical limit (${verdict.statisticalLimitDeg === null ? 'none in view' : fmt(verdict.statisticalLimitDeg, 3) + '°'}) for this SNR and snapshot count: every method will likely report one source, or two with large errors.`;
         }
-        if (needM <= MAX_ELEMENTS) fixes.push(`More elements: ${needM} at this spacing puts the pair above the Rayleigh gap (now ${m}).`);
+        if (needM <= MAX_ELEMENTS)
+          fixes.push(`More elements: ${needM} at this spacing puts the pair above the Rayleigh gap (now ${m}).`);
         else fixes.push(`More elements alone cannot do it within the ${MAX_ELEMENTS}-element limit at this spacing.`);
         const needD = 1 / (m * sepU);
-        if (needD <= maxD) fixes.push(`Wider spacing: ${fmt(needD, 3)} λ with ${m} elements clears the gap and stays free of grating lobes over ±${fmt(draft.scanSectorDeg, 0)}° (limit ${fmt(maxD, 3)} λ).`);
-        else fixes.push(`Wider spacing would need ${fmt(needD, 3)} λ, beyond the grating-lobe limit of ${fmt(maxD, 3)} λ for a ±${fmt(draft.scanSectorDeg, 0)}° scan sector.`);
+        if (needD <= maxD)
+          fixes.push(
+            `Wider spacing: ${fmt(needD, 3)} λ with ${m} elements clears the gap and stays free of grating lobes over ±${fmt(draft.scanSectorDeg, 0)}° (limit ${fmt(maxD, 3)} λ).`,
+          );
+        else
+          fixes.push(
+            `Wider spacing would need ${fmt(needD, 3)} λ, beyond the grating-lobe limit of ${fmt(maxD, 3)} λ for a ±${fmt(draft.scanSectorDeg, 0)}° scan sector.`,
+          );
         if (verdict.verdict === 'unresolvable') {
           const center = (Math.max(-89.999, Math.min(89.999, a)) + Math.max(-89.999, Math.min(89.999, b))) / 2;
           const sep = verdict.separationDeg;
           const n = snapshotsNeeded(draft, d, center, powers, sep);
-          fixes.push(n !== null ? `More snapshots: about ${n} (now ${draft.snapshots}) brings the statistical limit below this separation.` : 'More snapshots alone will not do it (tried up to 10 million).');
+          fixes.push(
+            n !== null
+              ? `More snapshots: about ${n} (now ${draft.snapshots}) brings the statistical limit below this separation.`
+              : 'More snapshots alone will not do it (tried up to 10 million).',
+          );
           const extra = snrIncreaseNeeded(draft, d, center, powers, sep);
-          fixes.push(extra !== null ? `Higher SNR: about +${extra} dB on both sources brings the statistical limit below this separation.` : 'Higher SNR alone will not do it (tried up to +40 dB).');
+          fixes.push(
+            extra !== null
+              ? `Higher SNR: about +${extra} dB on both sources brings the statistical limit below this separation.`
+              : 'Higher SNR alone will not do it (tried up to +40 dB).',
+          );
         }
       }
       out.push({

@@ -39,9 +39,11 @@ export function patternCsv(pattern: CsvPattern, meta: Record<string, string | nu
 export function columnsCsv(columns: Record<string, ArrayLike<number>>): string {
   const names = Object.keys(columns);
   const len = names.length ? columns[names[0]].length : 0;
-  for (const n of names) if (columns[n].length !== len) throw new RangeError(`column ${n} has ${columns[n].length} values, expected ${len}`);
+  for (const n of names)
+    if (columns[n].length !== len) throw new RangeError(`column ${n} has ${columns[n].length} values, expected ${len}`);
   const lines = [names.map(csvField).join(',')];
-  for (let i = 0; i < len; i++) lines.push(names.map((n) => (Number.isFinite(columns[n][i]) ? String(columns[n][i]) : '')).join(','));
+  for (let i = 0; i < len; i++)
+    lines.push(names.map((n) => (Number.isFinite(columns[n][i]) ? String(columns[n][i]) : '')).join(','));
   return lines.join('\n') + '\n';
 }
 

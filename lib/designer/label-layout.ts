@@ -5,7 +5,10 @@
  * `bottom` are moved back up as a block. Coordinates are SVG user units
  * (y grows downwards). Returns the label y per input, in input order.
  */
-export function spreadLabels(ys: readonly number[], { minGap, top = -Infinity, bottom = Infinity }: { minGap: number; top?: number; bottom?: number }): number[] {
+export function spreadLabels(
+  ys: readonly number[],
+  { minGap, top = -Infinity, bottom = Infinity }: { minGap: number; top?: number; bottom?: number },
+): number[] {
   if (!(minGap >= 0)) throw new RangeError(`spreadLabels: minGap must be ≥ 0, got ${minGap}`);
   const order = ys.map((y, i) => ({ y, i })).sort((a, b) => a.y - b.y || a.i - b.i);
   const placed = order.map((o) => Math.min(Math.max(o.y, top), bottom));

@@ -60,7 +60,11 @@ function mediumSpeed(medium: MediumInput): number | undefined {
  * medium is given (the medium is the source of the speed in the designer).
  */
 export function normalizeDraft(input: ArrayInput): DesignerDraft {
-  const medium: MediumInput = input.medium ?? (input.propagationSpeedMps !== undefined ? { kind: 'custom', speedMps: input.propagationSpeedMps } : { kind: 'radio' });
+  const medium: MediumInput =
+    input.medium ??
+    (input.propagationSpeedMps !== undefined
+      ? { kind: 'custom', speedMps: input.propagationSpeedMps }
+      : { kind: 'radio' });
   const states = (input.elementStates ?? []).slice(0, input.elements).map((s) => ({ ...s }));
   while (states.length < input.elements) states.push(defaultElementState());
   const speed = mediumSpeed(medium);
@@ -135,7 +139,11 @@ export function designerReducer(state: DesignerDraft, action: DesignerAction): D
       if (state.elements >= MAX_ELEMENTS) return state;
       const at = action.at === undefined ? state.elements : action.at;
       if (!Number.isInteger(at) || at < 0 || at > state.elements) return state;
-      const elementStates = [...state.elementStates.slice(0, at), defaultElementState(), ...state.elementStates.slice(at)];
+      const elementStates = [
+        ...state.elementStates.slice(0, at),
+        defaultElementState(),
+        ...state.elementStates.slice(at),
+      ];
       return { ...state, elements: state.elements + 1, elementStates };
     }
     case 'removeElement': {
@@ -155,12 +163,14 @@ export function designerReducer(state: DesignerDraft, action: DesignerAction): D
     }
     case 'setSpacing': {
       if (!finite(action.value) || action.value <= 0) return state;
-      if (action.unit !== 'wavelength' && (state.frequencyHz === undefined || state.propagationSpeedMps === undefined)) return state;
+      if (action.unit !== 'wavelength' && (state.frequencyHz === undefined || state.propagationSpeedMps === undefined))
+        return state;
       return { ...state, spacing: { value: action.value, unit: action.unit } };
     }
     case 'dragElement': {
       // Element 0 is the reference at x = 0; it cannot set the spacing.
-      if (!okIndex(action.index, state.elements) || action.index === 0 || !finite(action.positionWavelengths)) return state;
+      if (!okIndex(action.index, state.elements) || action.index === 0 || !finite(action.positionWavelengths))
+        return state;
       const raw = action.positionWavelengths / action.index;
       const d = clamp(Math.round(raw * 1e4) / 1e4, MIN_DRAG_SPACING_WAVELENGTHS, MAX_DRAG_SPACING_WAVELENGTHS);
       return withSpacingWavelengths(state, d);
@@ -175,12 +185,18 @@ export function designerReducer(state: DesignerDraft, action: DesignerAction): D
     case 'setElementGain': {
       if (!okIndex(action.index, state.elements) || !finite(action.gainDb)) return state;
       const gainDb = clamp(action.gainDb, -60, 60);
-      return { ...state, elementStates: state.elementStates.map((e, i) => (i === action.index ? { ...e, gainDb } : e)) };
+      return {
+        ...state,
+        elementStates: state.elementStates.map((e, i) => (i === action.index ? { ...e, gainDb } : e)),
+      };
     }
     case 'setElementPhase': {
       if (!okIndex(action.index, state.elements) || !finite(action.phaseDeg)) return state;
       const phaseDeg = clamp(action.phaseDeg, -360, 360);
-      return { ...state, elementStates: state.elementStates.map((e, i) => (i === action.index ? { ...e, phaseDeg } : e)) };
+      return {
+        ...state,
+        elementStates: state.elementStates.map((e, i) => (i === action.index ? { ...e, phaseDeg } : e)),
+      };
     }
     case 'addSource': {
       if (state.plannedSources.length >= MAX_PLANNED_SOURCES || !finite(action.bearingDeg)) return state;
@@ -192,7 +208,10 @@ export function designerReducer(state: DesignerDraft, action: DesignerAction): D
       if (!okIndex(action.index, state.plannedSources.length) || !finite(action.bearingDeg)) return state;
       const bearingDeg = clamp(action.bearingDeg, -90, 90);
       if (state.plannedSources[action.index].bearingDeg === bearingDeg) return state;
-      return { ...state, plannedSources: state.plannedSources.map((s, i) => (i === action.index ? { ...s, bearingDeg } : s)) };
+      return {
+        ...state,
+        plannedSources: state.plannedSources.map((s, i) => (i === action.index ? { ...s, bearingDeg } : s)),
+      };
     }
     case 'removeSource': {
       if (!okIndex(action.index, state.plannedSources.length)) return state;
@@ -210,9 +229,13 @@ export function designerReducer(state: DesignerDraft, action: DesignerAction): D
       return { ...state, medium: { ...action.medium }, propagationSpeedMps: speed };
     }
     case 'setFrequency':
-      return finite(action.frequencyHz) && action.frequencyHz > 0 ? { ...state, frequencyHz: action.frequencyHz } : state;
+      return finite(action.frequencyHz) && action.frequencyHz > 0
+        ? { ...state, frequencyHz: action.frequencyHz }
+        : state;
     case 'setSnapshots':
-      return Number.isInteger(action.snapshots) && action.snapshots >= 1 && action.snapshots <= 1e7 ? { ...state, snapshots: action.snapshots } : state;
+      return Number.isInteger(action.snapshots) && action.snapshots >= 1 && action.snapshots <= 1e7
+        ? { ...state, snapshots: action.snapshots }
+        : state;
     case 'setSnr':
       return finite(action.snrDb) ? { ...state, snrDb: clamp(action.snrDb, -60, 100) } : state;
     default:

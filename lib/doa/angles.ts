@@ -14,7 +14,10 @@ export const RAD_PER_DEG = Math.PI / 180;
 
 export function assertSpacing(spacingWavelengths: number, where = 'spacingWavelengths'): void {
   if (typeof spacingWavelengths !== 'number' || !Number.isFinite(spacingWavelengths) || spacingWavelengths <= 0) {
-    throw new DoaInputError('bad-spacing', `${where} must be a finite number of wavelengths > 0, got ${spacingWavelengths}`);
+    throw new DoaInputError(
+      'bad-spacing',
+      `${where} must be a finite number of wavelengths > 0, got ${spacingWavelengths}`,
+    );
   }
 }
 
@@ -24,7 +27,10 @@ export function electricalAngle(bearingDeg: number, spacingWavelengths: number):
 }
 
 /** θ = asin(clip(μ/(2π·d), −1, 1)) in degrees, and whether the clip was active. */
-export function electricalAngleToBearing(mu: number, spacingWavelengths: number): { bearingDeg: number; clipped: boolean } {
+export function electricalAngleToBearing(
+  mu: number,
+  spacingWavelengths: number,
+): { bearingDeg: number; clipped: boolean } {
   const u = mu / (2 * Math.PI * spacingWavelengths);
   const clipped = u > 1 || u < -1;
   const c = u > 1 ? 1 : u < -1 ? -1 : u;
@@ -32,7 +38,10 @@ export function electricalAngleToBearing(mu: number, spacingWavelengths: number)
 }
 
 /** Maps electrical angles to bearings sorted ascending; counts the clipped ones. */
-export function bearingsFromElectricalAngles(mus: ArrayLike<number>, spacingWavelengths: number): { bearingsDeg: number[]; clippedCount: number } {
+export function bearingsFromElectricalAngles(
+  mus: ArrayLike<number>,
+  spacingWavelengths: number,
+): { bearingsDeg: number[]; clippedCount: number } {
   const bearingsDeg: number[] = [];
   let clippedCount = 0;
   for (let i = 0; i < mus.length; i++) {

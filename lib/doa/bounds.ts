@@ -73,22 +73,32 @@ interface Checked {
 }
 
 function checkInput(input: BoundsInput): Checked {
-  if (input === null || typeof input !== 'object') throw new DoaInputError('bad-option', 'the bound needs an input object');
+  if (input === null || typeof input !== 'object')
+    throw new DoaInputError('bad-option', 'the bound needs an input object');
   const m = requireElementCount(input.elements);
   const d = requireSpacing(input.spacingWavelengths);
   const bearings = requireFiniteArray(input.bearingsDeg, 'bearingsDeg');
   const k = bearings.length;
   if (k < 1) throw new DoaInputError('bad-source-count', 'bearingsDeg must hold at least one bearing');
-  if (k >= m) throw new DoaInputError('bad-source-count', `bearingsDeg has ${k} sources; the bound needs fewer sources than elements (${m})`);
+  if (k >= m)
+    throw new DoaInputError(
+      'bad-source-count',
+      `bearingsDeg has ${k} sources; the bound needs fewer sources than elements (${m})`,
+    );
   const powers = requireFiniteArray(input.sourcePowers, 'sourcePowers', k);
-  for (let i = 0; i < k; i++) if (!(powers[i] > 0)) throw new DoaInputError('bad-value', `sourcePowers[${i}] must be greater than 0, got ${powers[i]}`);
+  for (let i = 0; i < k; i++)
+    if (!(powers[i] > 0))
+      throw new DoaInputError('bad-value', `sourcePowers[${i}] must be greater than 0, got ${powers[i]}`);
   const noise = requirePositive(input.noisePower, 'noisePower');
   const n = requirePositiveInteger(input.snapshots, 'snapshots');
   const theta = new Float64Array(k);
   for (let i = 0; i < k; i++) {
     const b = bearings[i];
     if (b <= -90 || b >= 90) {
-      throw new DoaInputError('bad-value', `bearingsDeg[${i}] = ${b} must lie strictly inside (−90, 90); at endfire the bound is unbounded`);
+      throw new DoaInputError(
+        'bad-value',
+        `bearingsDeg[${i}] = ${b} must lie strictly inside (−90, 90); at endfire the bound is unbounded`,
+      );
     }
     theta[i] = b * DEG;
   }
@@ -119,7 +129,10 @@ function invertReal(a: Float64Array, k: number): Float64Array {
     let piv = col;
     for (let r = col + 1; r < k; r++) if (Math.abs(w[r * k + col]) > Math.abs(w[piv * k + col])) piv = r;
     if (!(Math.abs(w[piv * k + col]) > scale * k * 1e-15)) {
-      throw new DoaNumericalError('singular-matrix', 'the Fisher information matrix is singular: the sources cannot be told apart');
+      throw new DoaNumericalError(
+        'singular-matrix',
+        'the Fisher information matrix is singular: the sources cannot be told apart',
+      );
     }
     if (piv !== col) {
       for (let c = 0; c < k; c++) {
@@ -263,7 +276,11 @@ function crbFromChecked(c: Checked, kind: BoundKind): CrbResult {
   const stdDeg = new Float64Array(k);
   for (let i = 0; i < k; i++) {
     const v = cov[i * k + i];
-    if (!(v > 0)) throw new DoaNumericalError('singular-matrix', `the bound for source ${i} is not positive (${v}); the sources are too close to separate numerically`);
+    if (!(v > 0))
+      throw new DoaNumericalError(
+        'singular-matrix',
+        `the bound for source ${i} is not positive (${v}); the sources are too close to separate numerically`,
+      );
     stdDeg[i] = Math.sqrt(v) / DEG;
   }
   return { stdDeg, covarianceRad2: cov, sources: k };
@@ -281,7 +298,8 @@ export function deterministicCrb(input: BoundsInput): CrbResult {
 
 /** Either bound by name (default stochastic). */
 export function cramerRaoBound(input: BoundsInput, kind: BoundKind = 'stochastic'): CrbResult {
-  if (kind !== 'stochastic' && kind !== 'deterministic') throw new DoaInputError('bad-option', `bound must be 'stochastic' or 'deterministic', got ${String(kind)}`);
+  if (kind !== 'stochastic' && kind !== 'deterministic')
+    throw new DoaInputError('bad-option', `bound must be 'stochastic' or 'deterministic', got ${String(kind)}`);
   return crbFromChecked(checkInput(input), kind);
 }
 
@@ -319,17 +337,22 @@ function separationStdRad(c: Checked, kind: BoundKind, i: number, j: number): nu
 
 /** Smith's statistical resolution limit for two sources centred at `centerDeg`. */
 export function statisticalResolutionLimit(input: ResolutionLimitInput): ResolutionLimit {
-  if (input === null || typeof input !== 'object') throw new DoaInputError('bad-option', 'the resolution limit needs an input object');
+  if (input === null || typeof input !== 'object')
+    throw new DoaInputError('bad-option', 'the resolution limit needs an input object');
   const m = requireElementCount(input.elements);
   const d = requireSpacing(input.spacingWavelengths);
   const center = requireBearing(input.centerDeg, 'centerDeg');
-  if (Math.abs(center) >= 90) throw new DoaInputError('bad-value', `centerDeg = ${center} must lie strictly inside (−90, 90)`);
+  if (Math.abs(center) >= 90)
+    throw new DoaInputError('bad-value', `centerDeg = ${center} must lie strictly inside (−90, 90)`);
   const powers = requireFiniteArray(input.sourcePowers, 'sourcePowers', 2);
-  for (let i = 0; i < 2; i++) if (!(powers[i] > 0)) throw new DoaInputError('bad-value', `sourcePowers[${i}] must be greater than 0, got ${powers[i]}`);
+  for (let i = 0; i < 2; i++)
+    if (!(powers[i] > 0))
+      throw new DoaInputError('bad-value', `sourcePowers[${i}] must be greater than 0, got ${powers[i]}`);
   const noise = requirePositive(input.noisePower, 'noisePower');
   const n = requirePositiveInteger(input.snapshots, 'snapshots');
   const kind = input.bound ?? 'stochastic';
-  if (kind !== 'stochastic' && kind !== 'deterministic') throw new DoaInputError('bad-option', `bound must be 'stochastic' or 'deterministic', got ${String(kind)}`);
+  if (kind !== 'stochastic' && kind !== 'deterministic')
+    throw new DoaInputError('bad-option', `bound must be 'stochastic' or 'deterministic', got ${String(kind)}`);
   if (m < 3) return { deltaDeg: null, deltaU: null, criterion: SMITH_CRITERION };
   const thetaC = center * DEG;
   const maxDelta = 2 * (Math.PI / 2 - Math.abs(thetaC)) * (1 - 1e-9);
@@ -408,7 +431,8 @@ export interface PairResolvability {
 export function pairResolvability(input: BoundsInput, options: { bound?: BoundKind } = {}): PairResolvability[] {
   const c = checkInput(input);
   const kind = options.bound ?? 'stochastic';
-  if (kind !== 'stochastic' && kind !== 'deterministic') throw new DoaInputError('bad-option', `bound must be 'stochastic' or 'deterministic', got ${String(kind)}`);
+  if (kind !== 'stochastic' && kind !== 'deterministic')
+    throw new DoaInputError('bad-option', `bound must be 'stochastic' or 'deterministic', got ${String(kind)}`);
   const crb = crbFromChecked(c, kind);
   const k = crb.sources;
   const gapU = 1 / (c.m * c.d);
@@ -486,10 +510,12 @@ export interface SeparationChart {
  * direction so both curves and planned pairs share one definition of separation.
  */
 export function separationVersusAperture(input: SeparationChartInput): SeparationChart {
-  if (input === null || typeof input !== 'object') throw new DoaInputError('bad-option', 'the chart needs an input object');
+  if (input === null || typeof input !== 'object')
+    throw new DoaInputError('bad-option', 'the chart needs an input object');
   const d = requireSpacing(input.spacingWavelengths);
   const look = requireBearing(input.lookDeg ?? 0, 'lookDeg');
-  if (Math.abs(look) >= 90) throw new DoaInputError('bad-value', `lookDeg = ${look} must lie strictly inside (−90, 90)`);
+  if (Math.abs(look) >= 90)
+    throw new DoaInputError('bad-value', `lookDeg = ${look} must lie strictly inside (−90, 90)`);
   const snrDb = requireFinite(input.snrDb, 'snrDb');
   const n = requirePositiveInteger(input.snapshots, 'snapshots');
   let counts: Float64Array;
@@ -499,7 +525,8 @@ export function separationVersusAperture(input: SeparationChartInput): Separatio
   } else {
     counts = requireFiniteArray(input.elementCounts, 'elementCounts');
     if (counts.length === 0) throw new DoaInputError('bad-size', 'elementCounts must not be empty');
-    if (counts.length > 1024) throw new DoaInputError('bad-size', `elementCounts has ${counts.length} entries; at most 1024 are allowed`);
+    if (counts.length > 1024)
+      throw new DoaInputError('bad-size', `elementCounts has ${counts.length} entries; at most 1024 are allowed`);
     for (let i = 0; i < counts.length; i++) requireElementCount(counts[i], `elementCounts[${i}]`);
   }
   const snr = Math.pow(10, snrDb / 10);
@@ -521,7 +548,8 @@ export function separationVersusAperture(input: SeparationChartInput): Separatio
     out.rayleighGapU[idx] = gapU;
     const arg = gapU / (2 * cos0);
     const delta = arg <= 1 ? 2 * Math.asin(arg) : NaN;
-    out.rayleighGapDeg[idx] = Number.isFinite(delta) && Math.abs(look * DEG) + delta / 2 < Math.PI / 2 ? delta / DEG : NaN;
+    out.rayleighGapDeg[idx] =
+      Number.isFinite(delta) && Math.abs(look * DEG) + delta / 2 < Math.PI / 2 ? delta / DEG : NaN;
     const lim = statisticalResolutionLimit({
       elements: m,
       spacingWavelengths: d,
@@ -560,8 +588,10 @@ export interface BoundsAnswer {
  * |sin θi − sin θj| and the docs/conventions.md §5 gap test.
  */
 export function bounds(request: BoundsRequest): BoundsAnswer {
-  if (request === null || typeof request !== 'object') throw new DoaInputError('bad-option', 'the request must be an object');
-  if (request.array === null || typeof request.array !== 'object') throw new DoaInputError('bad-option', 'array must be an object with elements and spacingWavelengths');
+  if (request === null || typeof request !== 'object')
+    throw new DoaInputError('bad-option', 'the request must be an object');
+  if (request.array === null || typeof request.array !== 'object')
+    throw new DoaInputError('bad-option', 'array must be an object with elements and spacingWavelengths');
   const input: BoundsInput = {
     elements: request.array.elements,
     spacingWavelengths: request.array.spacingWavelengths,

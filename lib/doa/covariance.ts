@@ -59,7 +59,10 @@ export class CovarianceAccumulator {
   /** Adds N_b snapshots given in file layout: an N_b × M matrix, one snapshot per row. */
   addRows(rows: ComplexMatrix): void {
     if (rows.cols !== this.elements) {
-      throw new DoaInputError('bad-size', `snapshot rows have ${rows.cols} columns but the array has ${this.elements} elements`);
+      throw new DoaInputError(
+        'bad-size',
+        `snapshot rows have ${rows.cols} columns but the array has ${this.elements} elements`,
+      );
     }
     const m = this.elements;
     const b = this.blockSize;
@@ -70,7 +73,10 @@ export class CovarianceAccumulator {
         const xr = rows.re[src + i];
         const xi = rows.im[src + i];
         if (!Number.isFinite(xr) || !Number.isFinite(xi)) {
-          throw new DoaInputError('not-finite', `snapshot row ${n} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`);
+          throw new DoaInputError(
+            'not-finite',
+            `snapshot row ${n} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`,
+          );
         }
         this.bufRe[i * b + col] = xr;
         this.bufIm[i * b + col] = xi;
@@ -82,7 +88,10 @@ export class CovarianceAccumulator {
   /** Adds the N snapshots of an M × N snapshot matrix (one snapshot per column). */
   addSnapshots(x: ComplexMatrix): void {
     if (x.rows !== this.elements) {
-      throw new DoaInputError('bad-size', `snapshot matrix has ${x.rows} rows but the array has ${this.elements} elements`);
+      throw new DoaInputError(
+        'bad-size',
+        `snapshot matrix has ${x.rows} rows but the array has ${this.elements} elements`,
+      );
     }
     const m = this.elements;
     const n = x.cols;
@@ -97,7 +106,10 @@ export class CovarianceAccumulator {
           const xr = x.re[src + t];
           const xi = x.im[src + t];
           if (!Number.isFinite(xr) || !Number.isFinite(xi)) {
-            throw new DoaInputError('not-finite', `snapshot ${start + t} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`);
+            throw new DoaInputError(
+              'not-finite',
+              `snapshot ${start + t} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`,
+            );
           }
           this.bufRe[dst + t] = xr;
           this.bufIm[dst + t] = xi;
@@ -112,7 +124,8 @@ export class CovarianceAccumulator {
   /** R = X·Xᴴ / N over everything added so far (the accumulator stays usable). */
   covariance(): ComplexMatrix {
     this.flush();
-    if (this.total === 0) throw new DoaInputError('bad-size', 'no snapshots were given: the covariance needs at least one');
+    if (this.total === 0)
+      throw new DoaInputError('bad-size', 'no snapshots were given: the covariance needs at least one');
     const m = this.elements;
     const p = this.padded;
     const out = zeros(m, m);
@@ -151,7 +164,14 @@ export class CovarianceAccumulator {
       for (let k = i; k < p; k += 2) {
         const q0 = k * b;
         const q1 = q0 + b;
-        let r00 = 0, j00 = 0, r01 = 0, j01 = 0, r10 = 0, j10 = 0, r11 = 0, j11 = 0;
+        let r00 = 0,
+          j00 = 0,
+          r01 = 0,
+          j01 = 0,
+          r10 = 0,
+          j10 = 0,
+          r11 = 0,
+          j11 = 0;
         for (let t = 0; t < count; t++) {
           const a0r = br[o0 + t];
           const a0i = bi[o0 + t];
@@ -208,7 +228,10 @@ export function spatialSmoothing(r: ComplexMatrix, subarray: number): ComplexMat
   assertSquare(r, 'spatialSmoothing');
   const m = r.rows;
   if (!Number.isInteger(subarray) || subarray < 2 || subarray > m) {
-    throw new DoaInputError('bad-option', `smoothing subarray ${subarray} must be an integer from 2 to the ${m} elements`);
+    throw new DoaInputError(
+      'bad-option',
+      `smoothing subarray ${subarray} must be an integer from 2 to the ${m} elements`,
+    );
   }
   const l = subarray;
   const blocks = m - l + 1;
@@ -258,6 +281,9 @@ export function defaultSingleSnapshotSubarray(elements: number): number {
  * which is the smoothed x·xᴴ, so this computes spatialSmoothing(sampleCovariance(x), L)
  * (the identity is checked in the tests and in fixtures/doa/generate.py).
  */
-export function singleSnapshotCovariance(x: ComplexMatrix, subarray = defaultSingleSnapshotSubarray(x.rows)): ComplexMatrix {
+export function singleSnapshotCovariance(
+  x: ComplexMatrix,
+  subarray = defaultSingleSnapshotSubarray(x.rows),
+): ComplexMatrix {
   return spatialSmoothing(sampleCovariance(x), subarray);
 }

@@ -9,13 +9,7 @@
  * could not proceed (a singular matrix, an eigen-solver that did not converge).
  */
 export type DoaInputErrorCode =
-  | 'bad-size'
-  | 'not-finite'
-  | 'too-few-elements'
-  | 'bad-spacing'
-  | 'bad-source-count'
-  | 'bad-option'
-  | 'bad-value';
+  'bad-size' | 'not-finite' | 'too-few-elements' | 'bad-spacing' | 'bad-source-count' | 'bad-option' | 'bad-value';
 
 export type DoaNumericalErrorCode = 'singular-matrix' | 'no-convergence';
 

@@ -20,17 +20,19 @@
  * message naming the option and the value.
  */
 import { ComplexMatrix } from './linalg/complex';
-import {
-  CovarianceAccumulator,
-  defaultSingleSnapshotSubarray,
-  forwardBackward,
-  spatialSmoothing,
-} from './covariance';
+import { CovarianceAccumulator, defaultSingleSnapshotSubarray, forwardBackward, spatialSmoothing } from './covariance';
 import { DoaInputError } from './errors';
 import { assertSpacing } from './angles';
 import { hermitianEigen } from './linalg/hermitian-eigen';
 import { conditionNumber, MVDR_CONDITION_LIMIT } from './methods/beamformers';
-import { DOA_METHODS, DoaMethod, ESPRIT_METHODS, METHOD_RUNNERS, isDoaMethod, recommendedSmoothingSubarray } from './methods/registry';
+import {
+  DOA_METHODS,
+  DoaMethod,
+  ESPRIT_METHODS,
+  METHOD_RUNNERS,
+  isDoaMethod,
+  recommendedSmoothingSubarray,
+} from './methods/registry';
 import { SpectrumKind } from './methods/types';
 import { musicSpectrumValues } from './methods/music';
 import { SourceCountRule, sourceCountCriteria } from './methods/source-count';
@@ -85,7 +87,8 @@ export const NEAR_LIMIT_NOISE_DIMENSIONS = 2;
 export const ESPRIT_EFFICIENCY_ELEMENTS = 12;
 
 export function estimateBearings(options: EstimateBearingsOptions): EstimateBearingsResult {
-  if (options === null || typeof options !== 'object') throw new DoaInputError('bad-option', 'estimateBearings: options must be an object');
+  if (options === null || typeof options !== 'object')
+    throw new DoaInputError('bad-option', 'estimateBearings: options must be an object');
   const method = options.method;
   if (!isDoaMethod(method)) {
     throw new DoaInputError('bad-option', `method "${String(method)}" is not one of ${DOA_METHODS.join(', ')}`);
@@ -98,7 +101,8 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
   const grid = options.grid ?? DEFAULT_GRID;
   validateGrid(grid);
   const rule = options.sourceCountRule ?? 'mdl';
-  if (rule !== 'mdl' && rule !== 'aic') throw new DoaInputError('bad-option', `sourceCountRule "${String(rule)}" is neither "mdl" nor "aic"`);
+  if (rule !== 'mdl' && rule !== 'aic')
+    throw new DoaInputError('bad-option', `sourceCountRule "${String(rule)}" is neither "mdl" nor "aic"`);
 
   // Data and its size.
   const { snapshots, rows } = options;
@@ -131,9 +135,13 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
   const l = size;
   const given = options.sourceCount;
   if (given !== undefined) {
-    if (!Number.isInteger(given) || given < 0) throw new DoaInputError('bad-source-count', `sourceCount ${given} is not an integer ≥ 0`);
+    if (!Number.isInteger(given) || given < 0)
+      throw new DoaInputError('bad-source-count', `sourceCount ${given} is not an integer ≥ 0`);
     if (given >= l) {
-      throw new DoaInputError('bad-source-count', `sourceCount ${given} must be below the ${l} effective elements (K < L)`);
+      throw new DoaInputError(
+        'bad-source-count',
+        `sourceCount ${given} must be below the ${l} effective elements (K < L)`,
+      );
     }
   }
 
@@ -144,7 +152,8 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
   const sample = acc.covariance();
   let trace = 0;
   for (let i = 0; i < m; i++) trace += sample.re[i * m + i];
-  if (!(trace > 0)) throw new DoaInputError('bad-value', 'the snapshots are all zero: there is nothing to estimate from');
+  if (!(trace > 0))
+    throw new DoaInputError('bad-value', 'the snapshots are all zero: there is nothing to estimate from');
   let r = sample;
   if (singleL !== undefined) r = spatialSmoothing(r, singleL);
   if (smoothL !== undefined) r = spatialSmoothing(r, smoothL);
@@ -166,14 +175,23 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
 
   const warnings: DoaWarning[] = [];
   if (!single && n < m) {
-    warnings.push({ code: 'few-snapshots', message: `${n} snapshot(s) for ${m} elements: the sample covariance is rank-deficient; use more snapshots, smoothing or the single-snapshot option` });
+    warnings.push({
+      code: 'few-snapshots',
+      message: `${n} snapshot(s) for ${m} elements: the sample covariance is rank-deficient; use more snapshots, smoothing or the single-snapshot option`,
+    });
   }
   if (k >= 1 && l - k <= NEAR_LIMIT_NOISE_DIMENSIONS) {
-    warnings.push({ code: 'source-count-near-limit', message: `${k} source(s) on ${l} effective elements leaves ${l - k} noise dimension(s); estimates become unreliable near K = L − 1` });
+    warnings.push({
+      code: 'source-count-near-limit',
+      message: `${k} source(s) on ${l} effective elements leaves ${l - k} noise dimension(s); estimates become unreliable near K = L − 1`,
+    });
   }
   const cond = conditionNumber(eig.values);
   if (method !== 'mvdr' && !(cond <= MVDR_CONDITION_LIMIT)) {
-    warnings.push({ code: 'ill-conditioned-covariance', message: `cond(R) = ${cond.toExponential(3)} exceeds 1e13: the covariance is nearly singular (noise-free or rank-deficient data)` });
+    warnings.push({
+      code: 'ill-conditioned-covariance',
+      message: `cond(R) = ${cond.toExponential(3)} exceeds 1e13: the covariance is nearly singular (noise-free or rank-deficient data)`,
+    });
   }
   if (ESPRIT_METHODS.has(method) && m >= ESPRIT_EFFICIENCY_ELEMENTS && smoothL === undefined && !single) {
     const advice = recommendedSmoothingSubarray(m);
@@ -191,7 +209,12 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
   let spectrum: EstimateBearingsResult['spectrum'];
   if (includeSpectrum) {
     const values = out.spectrum?.values ?? musicSpectrumValues(eig.vectors, k, d, gridAngles(grid));
-    spectrum = { kind: out.spectrum?.kind ?? 'music', startDeg: grid.startDeg, stepDeg: grid.stepDeg, valuesDb: toDecibels(values) };
+    spectrum = {
+      kind: out.spectrum?.kind ?? 'music',
+      startDeg: grid.startDeg,
+      stepDeg: grid.stepDeg,
+      valuesDb: toDecibels(values),
+    };
   }
 
   return {
@@ -213,7 +236,13 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
  * sources after forward–backward smoothing at ⌈2M/3⌉ than in the covariance
  * used, a rank deficit that smoothing fixes is likely.
  */
-function coherenceCheck(sample: ComplexMatrix, fbUsed: boolean, n: number, mdlUsed: number, m: number): DoaWarning | null {
+function coherenceCheck(
+  sample: ComplexMatrix,
+  fbUsed: boolean,
+  n: number,
+  mdlUsed: number,
+  m: number,
+): DoaWarning | null {
   const ls = recommendedSmoothingSubarray(m);
   const smoothed = forwardBackward(spatialSmoothing(sample, ls));
   const values = hermitianEigen(smoothed, { vectors: false }).values;
@@ -228,7 +257,8 @@ function coherenceCheck(sample: ComplexMatrix, fbUsed: boolean, n: number, mdlUs
 
 function optionalBoolean(value: unknown, name: string): boolean {
   if (value === undefined) return false;
-  if (typeof value !== 'boolean') throw new DoaInputError('bad-option', `${name} must be true or false, got ${String(value)}`);
+  if (typeof value !== 'boolean')
+    throw new DoaInputError('bad-option', `${name} must be true or false, got ${String(value)}`);
   return value;
 }
 
@@ -239,10 +269,19 @@ function checkSubarray(value: number, available: number, name: string): void {
 }
 
 function checkMatrixShape(a: ComplexMatrix, name: string): void {
-  if (!a || !Number.isInteger(a.rows) || !Number.isInteger(a.cols) || !(a.re instanceof Float64Array) || !(a.im instanceof Float64Array)) {
+  if (
+    !a ||
+    !Number.isInteger(a.rows) ||
+    !Number.isInteger(a.cols) ||
+    !(a.re instanceof Float64Array) ||
+    !(a.im instanceof Float64Array)
+  ) {
     throw new DoaInputError('bad-size', `${name} must be a ComplexMatrix with Float64Array re and im`);
   }
   if (a.re.length !== a.rows * a.cols || a.im.length !== a.rows * a.cols) {
-    throw new DoaInputError('bad-size', `${name}: ${a.rows} × ${a.cols} needs ${a.rows * a.cols} entries, re has ${a.re.length} and im ${a.im.length}`);
+    throw new DoaInputError(
+      'bad-size',
+      `${name}: ${a.rows} × ${a.cols} needs ${a.rows * a.cols} entries, re has ${a.re.length} and im ${a.im.length}`,
+    );
   }
 }

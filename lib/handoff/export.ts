@@ -82,11 +82,16 @@ export interface BundleRunJson {
 }
 
 const iso = (d: Date | string) => new Date(d).toISOString();
-const parseJson = <T,>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
+const parseJson = <T>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
 
 /** A file name: lower-case letters, digits and hyphens. */
 export function slug(text: string, fallback = 'array'): string {
-  const s = text.normalize('NFKD').toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 60);
+  const s = text
+    .normalize('NFKD')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-+|-+$/g, '')
+    .slice(0, 60);
   return s || fallback;
 }
 
@@ -102,12 +107,15 @@ export function calibrationCsv(draft: DesignerDraft, spacingWavelengths: number,
   const lines = ['element,position_wavelengths,position_m,enabled,gain_db,phase_deg'];
   draft.elementStates.forEach((e, m) => {
     const pos = m * spacingWavelengths;
-    lines.push([m, pos, wavelengthM !== undefined ? pos * wavelengthM : '', e.enabled ? 1 : 0, e.gainDb, e.phaseDeg].join(','));
+    lines.push(
+      [m, pos, wavelengthM !== undefined ? pos * wavelengthM : '', e.enabled ? 1 : 0, e.gainDb, e.phaseDeg].join(','),
+    );
   });
   return lines.join('\n') + '\n';
 }
 
-const f = (v: number | null | undefined, digits = 3, unit = '') => (v === null || v === undefined || !Number.isFinite(v) ? '—' : `${v.toFixed(digits)}${unit}`);
+const f = (v: number | null | undefined, digits = 3, unit = '') =>
+  v === null || v === undefined || !Number.isFinite(v) ? '—' : `${v.toFixed(digits)}${unit}`;
 
 function mediumText(draft: DesignerDraft): string {
   const m = draft.medium;
@@ -156,64 +164,114 @@ export function summaryText({
   const L: string[] = [];
   L.push(`STEERWISE HAND-OFF: ${arrayName}, revision ${revision}`);
   L.push('='.repeat(Math.min(78, L[0].length)));
-  L.push(`Revision saved ${createdAt} by ${author}. Bundle written ${new Date().toISOString()} by ${exportedBy} (${SOFTWARE_VERSION}).`);
+  L.push(
+    `Revision saved ${createdAt} by ${author}. Bundle written ${new Date().toISOString()} by ${exportedBy} (${SOFTWARE_VERSION}).`,
+  );
   L.push('');
   L.push('ARRAY');
-  L.push(`  Uniform linear array of ${draft.elements} elements, spacing ${draft.spacing.value} ${draft.spacing.unit === 'wavelength' ? 'λ' : draft.spacing.unit} = ${fig.spacingWavelengths.toPrecision(6)} λ.`);
-  if (draft.frequencyHz !== undefined) L.push(`  Analysis frequency ${draft.frequencyHz} Hz; medium ${mediumText(draft)}; wavelength ${f(fig.geometry.wavelengthM, 6, ' m')}.`);
+  L.push(
+    `  Uniform linear array of ${draft.elements} elements, spacing ${draft.spacing.value} ${draft.spacing.unit === 'wavelength' ? 'λ' : draft.spacing.unit} = ${fig.spacingWavelengths.toPrecision(6)} λ.`,
+  );
+  if (draft.frequencyHz !== undefined)
+    L.push(
+      `  Analysis frequency ${draft.frequencyHz} Hz; medium ${mediumText(draft)}; wavelength ${f(fig.geometry.wavelengthM, 6, ' m')}.`,
+    );
   else L.push('  No analysis frequency: the spacing is known in wavelengths only.');
-  L.push(`  Steering ${draft.steerDeg}°, scan sector ±${draft.scanSectorDeg}°, taper ${draft.taper.kind === 'chebyshev' ? `Chebyshev ${draft.taper.sidelobeDb} dB` : draft.taper.kind}.`);
-  L.push(`  Elements disabled: ${disabled.length ? disabled.join(', ') : 'none'}; elements with gain/phase calibration: ${calibrated} (see array/calibration.csv).`);
+  L.push(
+    `  Steering ${draft.steerDeg}°, scan sector ±${draft.scanSectorDeg}°, taper ${draft.taper.kind === 'chebyshev' ? `Chebyshev ${draft.taper.sidelobeDb} dB` : draft.taper.kind}.`,
+  );
+  L.push(
+    `  Elements disabled: ${disabled.length ? disabled.join(', ') : 'none'}; elements with gain/phase calibration: ${calibrated} (see array/calibration.csv).`,
+  );
   L.push('');
   L.push('FIGURES (computed by the Steerwise engine; angles in degrees from broadside)');
-  L.push(`  Aperture                      ${f(fig.apertureWavelengths, 3, ' λ')}${fig.apertureM !== undefined ? ` (${f(fig.apertureM, 4, ' m')})` : ''}`);
-  L.push(`  Half-power beamwidth          ${f(fig.halfPowerBeamwidthDeg, 3, '°')}${fig.halfPowerClipped ? ' (clipped at endfire)' : ''}`);
-  L.push(`  First-null beamwidth          ${f(fig.firstNullBeamwidthDeg, 3, '°')}${fig.firstNullClipped ? ' (clipped at endfire)' : ''}`);
-  L.push(`  Peak sidelobe                 ${f(fig.peakSidelobeDb, 2, ' dB')}${fig.peakSidelobeAtDeg !== null ? ` at ${f(fig.peakSidelobeAtDeg, 2, '°')}` : ''}`);
+  L.push(
+    `  Aperture                      ${f(fig.apertureWavelengths, 3, ' λ')}${fig.apertureM !== undefined ? ` (${f(fig.apertureM, 4, ' m')})` : ''}`,
+  );
+  L.push(
+    `  Half-power beamwidth          ${f(fig.halfPowerBeamwidthDeg, 3, '°')}${fig.halfPowerClipped ? ' (clipped at endfire)' : ''}`,
+  );
+  L.push(
+    `  First-null beamwidth          ${f(fig.firstNullBeamwidthDeg, 3, '°')}${fig.firstNullClipped ? ' (clipped at endfire)' : ''}`,
+  );
+  L.push(
+    `  Peak sidelobe                 ${f(fig.peakSidelobeDb, 2, ' dB')}${fig.peakSidelobeAtDeg !== null ? ` at ${f(fig.peakSidelobeAtDeg, 2, '°')}` : ''}`,
+  );
   L.push(`  Grating-lobe-free scan        ±${f(fig.gratingLobeFreeScanDeg, 2, '°')}`);
-  L.push(`  Rayleigh gap (broadside)      ${f(fig.rayleighGapDegAtBroadside, 3, '°')} (Δu = ${fig.rayleighGapU.toPrecision(4)})`);
+  L.push(
+    `  Rayleigh gap (broadside)      ${f(fig.rayleighGapDegAtBroadside, 3, '°')} (Δu = ${fig.rayleighGapU.toPrecision(4)})`,
+  );
   L.push(`  Planning case                 ${draft.snrDb} dB SNR per element, ${draft.snapshots} snapshots`);
   L.push('');
   L.push('CAUTIONS');
   const cautions: string[] = [];
   if (fig.beamError) cautions.push(`The beam figures could not be computed: ${fig.beamError}.`);
-  if (fig.scanExceedsGratingFree) cautions.push(`The scan sector ±${draft.scanSectorDeg}° exceeds the grating-lobe-free scan ±${f(fig.gratingLobeFreeScanDeg, 2, '°')}: grating lobes enter visible space. Reduce the spacing to at most ${f(fig.maxSpacingForScanWavelengths, 3, ' λ')}.`);
-  if (disabled.length) cautions.push(`${disabled.length} element(s) are disabled: the array is no longer uniform, so ESPRIT-family methods (which need shift invariance) and root-MUSIC cannot use it as is.`);
+  if (fig.scanExceedsGratingFree)
+    cautions.push(
+      `The scan sector ±${draft.scanSectorDeg}° exceeds the grating-lobe-free scan ±${f(fig.gratingLobeFreeScanDeg, 2, '°')}: grating lobes enter visible space. Reduce the spacing to at most ${f(fig.maxSpacingForScanWavelengths, 3, ' λ')}.`,
+    );
+  if (disabled.length)
+    cautions.push(
+      `${disabled.length} element(s) are disabled: the array is no longer uniform, so ESPRIT-family methods (which need shift invariance) and root-MUSIC cannot use it as is.`,
+    );
   for (const w of fig.geometry.warnings) if (w.code !== 'no-frequency') cautions.push(w.message);
-  for (const p of pairs) if (p.verdict !== 'resolvable') cautions.push(`${p.outcome}${p.fixes.length ? ` Fixes: ${p.fixes.join(' ')}` : ''}`);
-  cautions.push('Estimates are advisory: the Cramér–Rao bound limits the variance of unbiased estimators and guarantees nothing for one estimate; calibration errors, coupling, near-field, wideband or coherent sources break the model. A line array measures a cone angle and cannot tell left from right.');
+  for (const p of pairs)
+    if (p.verdict !== 'resolvable')
+      cautions.push(`${p.outcome}${p.fixes.length ? ` Fixes: ${p.fixes.join(' ')}` : ''}`);
+  cautions.push(
+    'Estimates are advisory: the Cramér–Rao bound limits the variance of unbiased estimators and guarantees nothing for one estimate; calibration errors, coupling, near-field, wideband or coherent sources break the model. A line array measures a cone angle and cannot tell left from right.',
+  );
   for (const c of cautions) L.push(`  - ${c}`);
   L.push('');
   if (pairs.length) {
     L.push('PLANNED SOURCE PAIRS');
-    for (const p of pairs) L.push(`  - sources ${p.i + 1}/${p.j + 1} at ${p.bearingsDeg[0]}° and ${p.bearingsDeg[1]}°: ${p.verdict}`);
+    for (const p of pairs)
+      L.push(`  - sources ${p.i + 1}/${p.j + 1} at ${p.bearingsDeg[0]}° and ${p.bearingsDeg[1]}°: ${p.verdict}`);
     L.push('');
   }
   L.push('SIGN-OFF');
-  if (signOffs.length) for (const s of signOffs) L.push(`  Approved by ${s.by} at ${s.at}${s.note ? `: "${s.note}"` : ''}`);
+  if (signOffs.length)
+    for (const s of signOffs) L.push(`  Approved by ${s.by} at ${s.at}${s.note ? `: "${s.note}"` : ''}`);
   else L.push('  This revision had no sign-off when the bundle was written.');
   L.push('');
   L.push('DATASETS');
-  if (datasets.length) for (const d of datasets) L.push(`  - ${d.file}: "${d.name}", ${d.fileFormat}, ${d.elements} elements × ${d.snapshots} snapshots, SHA-256 ${d.sha256}`);
-  else L.push(datasetsLeftOut ? '  Dataset files were left out: your role may not export them in this team.' : '  None included.');
+  if (datasets.length)
+    for (const d of datasets)
+      L.push(
+        `  - ${d.file}: "${d.name}", ${d.fileFormat}, ${d.elements} elements × ${d.snapshots} snapshots, SHA-256 ${d.sha256}`,
+      );
+  else
+    L.push(
+      datasetsLeftOut
+        ? '  Dataset files were left out: your role may not export them in this team.'
+        : '  None included.',
+    );
   L.push('');
   L.push('ESTIMATE RUNS');
   if (runs.length === 0) L.push('  None included.');
   for (const r of runs) {
     let results: string;
     try {
-      results = storedResults(r.result).map((m) => `${m.method}: ${m.bearingsDeg.map((b) => b.toFixed(4) + '°').join(', ') || 'no bearings'}`).join('; ');
+      results = storedResults(r.result)
+        .map((m) => `${m.method}: ${m.bearingsDeg.map((b) => b.toFixed(4) + '°').join(', ') || 'no bearings'}`)
+        .join('; ');
     } catch (err) {
       results = `(result not readable: ${(err as Error).message})`;
     }
-    L.push(`  - run ${r.originalId} (${r.createdAt}, ${r.softwareVersion})${r.dataset ? ` on ${r.dataset}` : ''}: ${results}`);
+    L.push(
+      `  - run ${r.originalId} (${r.createdAt}, ${r.softwareVersion})${r.dataset ? ` on ${r.dataset}` : ''}: ${results}`,
+    );
   }
   L.push('');
   L.push('CHECKING THE FILES WITHOUT STEERWISE');
   L.push('  manifest.json lists every file with its SHA-256 and size. On a Unix shell:');
   L.push('    sha256sum array/revision.json   # compare with the manifest entry');
-  L.push('  Charts are plain SVG (open in a browser); calibration and datasets are CSV or the uploaded file as received.');
-  L.push('  Import the whole bundle in Steerwise (Hand-off page) to get a new array in your team and re-run the estimates.');
+  L.push(
+    '  Charts are plain SVG (open in a browser); calibration and datasets are CSV or the uploaded file as received.',
+  );
+  L.push(
+    '  Import the whole bundle in Steerwise (Hand-off page) to get a new array in your team and re-run the estimates.',
+  );
   return L.join('\n') + '\n';
 }
 
@@ -235,11 +293,19 @@ export async function buildArrayBundle({
   if (!array) throw new ApiError('not_found', `No array with id ${arrayId} in your team.`);
   const revisionNumber = selection.revision ?? array.latestRevision;
   const rev = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: revisionNumber } });
-  if (!rev) throw new ApiError('not_found', `Array "${array.name}" has no revision ${revisionNumber} (latest is ${array.latestRevision}).`, { fields: { revision: [`no revision ${revisionNumber}`] } });
+  if (!rev)
+    throw new ApiError(
+      'not_found',
+      `Array "${array.name}" has no revision ${revisionNumber} (latest is ${array.latestRevision}).`,
+      { fields: { revision: [`no revision ${revisionNumber}`] } },
+    );
 
   const config = parseJson<Record<string, unknown>>(rev.config);
   const parsedConfig = arrayInputSchema.safeParse(config);
-  if (!parsedConfig.success) throw new Error(`stored config of array ${array.id} revision ${rev.revision} does not validate: ${parsedConfig.error.message}`);
+  if (!parsedConfig.success)
+    throw new Error(
+      `stored config of array ${array.id} revision ${rev.revision} does not validate: ${parsedConfig.error.message}`,
+    );
   const input: ArrayInput = parsedConfig.data;
   const draft = normalizeDraft(input);
   const fig = designFigures(draft);
@@ -248,29 +314,66 @@ export async function buildArrayBundle({
   const runIds = [...new Set(selection.runIds ?? [])];
   const datasetsAllowed = await mayExportDatasets(caller);
   if (datasetIds.length && !datasetsAllowed) {
-    throw new ApiError('forbidden', 'Your role (viewer) cannot export dataset files in this team: an admin can allow it in the team settings. Export without datasets instead.');
+    throw new ApiError(
+      'forbidden',
+      'Your role (viewer) cannot export dataset files in this team: an admin can allow it in the team settings. Export without datasets instead.',
+    );
   }
 
-  const runs = runIds.length ? await EstimateRun.findAll({ where: { id: { [Op.in]: runIds }, teamId: caller.teamId } }) : [];
-  for (const id of runIds) if (!runs.some((r) => r.id === id)) throw new ApiError('not_found', `No estimate run with id ${id} in your team.`, { fields: { runs: [`no run ${id}`] } });
+  const runs = runIds.length
+    ? await EstimateRun.findAll({ where: { id: { [Op.in]: runIds }, teamId: caller.teamId } })
+    : [];
+  for (const id of runIds)
+    if (!runs.some((r) => r.id === id))
+      throw new ApiError('not_found', `No estimate run with id ${id} in your team.`, {
+        fields: { runs: [`no run ${id}`] },
+      });
   for (const r of runs) {
-    if (r.status !== 'done') throw new ApiError('validation_failed', `Estimate run ${r.id} is ${r.status}; only finished runs go into a bundle.`, { fields: { runs: [`run ${r.id} is ${r.status}`] } });
+    if (r.status !== 'done')
+      throw new ApiError(
+        'validation_failed',
+        `Estimate run ${r.id} is ${r.status}; only finished runs go into a bundle.`,
+        { fields: { runs: [`run ${r.id} is ${r.status}`] } },
+      );
     if (r.arrayRevisionId !== rev.id) {
       const used = r.arrayRevisionId ? await ArrayRevision.findByPk(r.arrayRevisionId as number) : null;
-      const what = used ? (used.arrayId === array.id ? `revision ${used.revision} of this array` : 'another array') : 'an inline array';
-      throw new ApiError('validation_failed', `Estimate run ${r.id} used ${what}, not revision ${rev.revision}; export the revision it used.`, { fields: { runs: [`run ${r.id} used ${what}`] } });
+      const what = used
+        ? used.arrayId === array.id
+          ? `revision ${used.revision} of this array`
+          : 'another array'
+        : 'an inline array';
+      throw new ApiError(
+        'validation_failed',
+        `Estimate run ${r.id} used ${what}, not revision ${rev.revision}; export the revision it used.`,
+        { fields: { runs: [`run ${r.id} used ${what}`] } },
+      );
     }
   }
   // Runs bring their datasets along when the caller may export data.
   const wanted = new Set(datasetIds);
   if (datasetsAllowed) for (const r of runs) if (r.datasetId) wanted.add(r.datasetId as number);
-  const datasets = wanted.size ? await Dataset.findAll({ where: { id: { [Op.in]: [...wanted] }, teamId: caller.teamId }, order: [['id', 'ASC']] }) : [];
-  for (const id of datasetIds) if (!datasets.some((d) => d.id === id)) throw new ApiError('not_found', `No dataset with id ${id} in your team.`, { fields: { datasets: [`no dataset ${id}`] } });
+  const datasets = wanted.size
+    ? await Dataset.findAll({ where: { id: { [Op.in]: [...wanted] }, teamId: caller.teamId }, order: [['id', 'ASC']] })
+    : [];
+  for (const id of datasetIds)
+    if (!datasets.some((d) => d.id === id))
+      throw new ApiError('not_found', `No dataset with id ${id} in your team.`, {
+        fields: { datasets: [`no dataset ${id}`] },
+      });
 
   const author = rev.authorId ? await User.findByPk(rev.authorId as number) : null;
-  const approvals = await Review.findAll({ where: { teamId: caller.teamId, arrayRevisionId: rev.id, kind: 'approval' }, order: [['createdAt', 'ASC']] });
-  const approvers = await User.findAll({ where: { id: { [Op.in]: approvals.map((a) => a.authorId as number).filter(Boolean) } } });
-  const signOffs = approvals.map((a) => ({ by: approvers.find((u) => u.id === a.authorId)?.name ?? 'a former member', at: iso(a.createdAt), note: a.body }));
+  const approvals = await Review.findAll({
+    where: { teamId: caller.teamId, arrayRevisionId: rev.id, kind: 'approval' },
+    order: [['createdAt', 'ASC']],
+  });
+  const approvers = await User.findAll({
+    where: { id: { [Op.in]: approvals.map((a) => a.authorId as number).filter(Boolean) } },
+  });
+  const signOffs = approvals.map((a) => ({
+    by: approvers.find((u) => u.id === a.authorId)?.name ?? 'a former member',
+    at: iso(a.createdAt),
+    note: a.body,
+  }));
 
   const revisionJson: BundleRevisionJson = {
     format: 'steerwise-array-revision',
@@ -288,7 +391,11 @@ export async function buildArrayBundle({
 
   const files: BundleFileInput[] = [
     { path: REVISION_PATH, kind: 'array-revision', data: JSON.stringify(revisionJson, null, 2) + '\n' },
-    { path: CALIBRATION_PATH, kind: 'calibration', data: calibrationCsv(draft, fig.spacingWavelengths, fig.geometry.wavelengthM) },
+    {
+      path: CALIBRATION_PATH,
+      kind: 'calibration',
+      data: calibrationCsv(draft, fig.spacingWavelengths, fig.geometry.wavelengthM),
+    },
     { path: BEAM_CHART_PATH, kind: 'chart', data: beamPatternSvg(draft) },
     { path: SEPARATION_CHART_PATH, kind: 'chart', data: separationChartSvg(draft) },
   ];
@@ -376,8 +483,21 @@ export async function buildArrayBundle({
       userId: caller.id,
       action: 'bundle.exported',
       target: array.name,
-      detail: { arrayId: array.id, revision: rev.revision, datasets: datasets.map((d) => d.id), runs: runs.map((r) => r.id), bytes: zip.byteLength, sha256 },
+      detail: {
+        arrayId: array.id,
+        revision: rev.revision,
+        datasets: datasets.map((d) => d.id),
+        runs: runs.map((r) => r.id),
+        bytes: zip.byteLength,
+        sha256,
+      },
     });
   }
-  return { zip, fileName: `${slug(array.name)}-r${rev.revision}.steerwise.zip`, manifest, revision: rev.revision, sha256 };
+  return {
+    zip,
+    fileName: `${slug(array.name)}-r${rev.revision}.steerwise.zip`,
+    manifest,
+    revision: rev.revision,
+    sha256,
+  };
 }

@@ -40,20 +40,35 @@ export function maxBundleBytes(): number {
   return Number.isFinite(raw) && raw > 0 ? Math.floor(raw) : DEFAULT_MAX_BUNDLE_BYTES;
 }
 
-const tooLarge = (limit: number) => new ApiError('too_large', `The bundle is larger than the limit of ${limit} bytes (STEERWISE_MAX_BUNDLE_BYTES).`, { fields: { file: [`larger than ${limit} bytes`] } });
+const tooLarge = (limit: number) =>
+  new ApiError('too_large', `The bundle is larger than the limit of ${limit} bytes (STEERWISE_MAX_BUNDLE_BYTES).`, {
+    fields: { file: [`larger than ${limit} bytes`] },
+  });
 
 /** Reads the multipart `file` field into memory under the size limit (a bundle is read whole anyway). */
-export async function receiveBundle(req: Request, maxBytes = maxBundleBytes()): Promise<{ bytes: Uint8Array; fileName: string }> {
+export async function receiveBundle(
+  req: Request,
+  maxBytes = maxBundleBytes(),
+): Promise<{ bytes: Uint8Array; fileName: string }> {
   const type = req.headers.get('content-type') ?? '';
   if (!/^multipart\/form-data\b/i.test(type) || !/boundary=/i.test(type)) {
-    throw new ApiError('unsupported_format', `Send the bundle as multipart/form-data with a "file" field (got ${type.split(';')[0] || 'no content type'}).`);
+    throw new ApiError(
+      'unsupported_format',
+      `Send the bundle as multipart/form-data with a "file" field (got ${type.split(';')[0] || 'no content type'}).`,
+    );
   }
   const declared = Number(req.headers.get('content-length') ?? NaN);
   if (Number.isFinite(declared) && declared > maxBytes + 64 * 1024) throw tooLarge(maxBytes);
-  if (!req.body) throw new ApiError('validation_failed', 'The request has no body: send a "file" field.', { fields: { file: ['a file is required'] } });
+  if (!req.body)
+    throw new ApiError('validation_failed', 'The request has no body: send a "file" field.', {
+      fields: { file: ['a file is required'] },
+    });
   let bb: busboy.Busboy;
   try {
-    bb = busboy({ headers: { 'content-type': type }, limits: { files: 1, fileSize: maxBytes, fields: 10, fieldSize: 2000, parts: 11 } });
+    bb = busboy({
+      headers: { 'content-type': type },
+      limits: { files: 1, fileSize: maxBytes, fields: 10, fieldSize: 2000, parts: 11 },
+    });
   } catch (err) {
     throw new ApiError('unsupported_format', `The multipart body cannot be read: ${(err as Error).message}.`);
   }
@@ -68,7 +83,14 @@ export async function receiveBundle(req: Request, maxBytes = maxBundleBytes()): 
     bb.on('file', (name, stream, info) => {
       if (name !== 'file' || seen) {
         stream.resume();
-        if (name !== 'file') fail(new ApiError('validation_failed', `Unexpected file field "${name}": send the bundle in a field named "file".`, { fields: { file: ['a file is required'] } }));
+        if (name !== 'file')
+          fail(
+            new ApiError(
+              'validation_failed',
+              `Unexpected file field "${name}": send the bundle in a field named "file".`,
+              { fields: { file: ['a file is required'] } },
+            ),
+          );
         return;
       }
       seen = true;
@@ -81,11 +103,24 @@ export async function receiveBundle(req: Request, maxBytes = maxBundleBytes()): 
         chunks.length = 0;
       });
     });
-    bb.on('filesLimit', () => fail(new ApiError('validation_failed', 'Send one bundle per upload.', { fields: { file: ['only one file per upload'] } })));
-    bb.on('error', (err: Error) => reject(failure ?? new ApiError('validation_failed', `The upload could not be read: ${err.message}.`)));
+    bb.on('filesLimit', () =>
+      fail(
+        new ApiError('validation_failed', 'Send one bundle per upload.', {
+          fields: { file: ['only one file per upload'] },
+        }),
+      ),
+    );
+    bb.on('error', (err: Error) =>
+      reject(failure ?? new ApiError('validation_failed', `The upload could not be read: ${err.message}.`)),
+    );
     bb.on('close', () => {
       if (failure) return reject(failure);
-      if (!seen) return reject(new ApiError('validation_failed', 'No file: send the bundle in a multipart field named "file".', { fields: { file: ['a file is required'] } }));
+      if (!seen)
+        return reject(
+          new ApiError('validation_failed', 'No file: send the bundle in a multipart field named "file".', {
+            fields: { file: ['a file is required'] },
+          }),
+        );
       resolve({ bytes: new Uint8Array(Buffer.concat(chunks)), fileName });
     });
     Readable.fromWeb(req.body as import('node:stream/web').ReadableStream<Uint8Array>)
@@ -105,7 +140,10 @@ const revisionJsonSchema = z.object({
   frequencyHz: z.number().positive().nullable(),
   propagationSpeedMps: z.number().positive().nullable(),
   config: z.record(z.string(), z.unknown()),
-  signOffs: z.array(z.object({ by: z.string(), at: z.string(), note: z.string() })).max(100).default([]),
+  signOffs: z
+    .array(z.object({ by: z.string(), at: z.string(), note: z.string() }))
+    .max(100)
+    .default([]),
 });
 
 const datasetJsonSchema = z.object({
@@ -146,7 +184,9 @@ const datasetOptionsSchema = z
   .partial();
 
 function refuse(message: string, where?: string): never {
-  throw new ApiError('validation_failed', where ? `${where}: ${message}` : message, { fields: { file: [where ? `${where}: ${message}` : message] } });
+  throw new ApiError('validation_failed', where ? `${where}: ${message}` : message, {
+    fields: { file: [where ? `${where}: ${message}` : message] },
+  });
 }
 
 function parseJsonFile<T extends z.ZodType>(files: Map<string, Uint8Array>, p: string, schema: T): z.infer<T> {
@@ -167,7 +207,10 @@ function parseJsonFile<T extends z.ZodType>(files: Map<string, Uint8Array>, p: s
 }
 
 /** The run's inputs with the ids of the source team replaced by the new records' ids. */
-export function remapRunInputs(inputs: Record<string, unknown>, ids: { datasetId: number | null; arrayId: number; arrayRevisionId: number }): Record<string, unknown> {
+export function remapRunInputs(
+  inputs: Record<string, unknown>,
+  ids: { datasetId: number | null; arrayId: number; arrayRevisionId: number },
+): Record<string, unknown> {
   const out: Record<string, unknown> = JSON.parse(JSON.stringify(inputs));
   const fix = (o: Record<string, unknown> | undefined) => {
     if (!o || typeof o !== 'object') return;
@@ -201,7 +244,13 @@ export interface ImportResult {
   name: string;
   revision: number;
   sourceRevision: number;
-  bundle: { title: string; author: BundleManifest['author']; createdAt: string; softwareVersion: string; files: number };
+  bundle: {
+    title: string;
+    author: BundleManifest['author'];
+    createdAt: string;
+    softwareVersion: string;
+    files: number;
+  };
   datasets: { id: number; originalId: number; name: string; sha256: string }[];
   runs: ImportedRun[];
   /** true when every included run was re-executed and reproduced; null when there were no runs to re-run. */
@@ -221,14 +270,19 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
   } catch (err) {
     if (err instanceof BundleError) {
       const notZip = err.code === 'archive' && /not a zip|too short to be a zip/.test(err.message);
-      throw new ApiError(notZip ? 'unsupported_format' : 'validation_failed', `The bundle was refused: ${err.message}.`, { fields: { file: [`${err.code}: ${err.message}`] } });
+      throw new ApiError(
+        notZip ? 'unsupported_format' : 'validation_failed',
+        `The bundle was refused: ${err.message}.`,
+        { fields: { file: [`${err.code}: ${err.message}`] } },
+      );
     }
     throw err;
   }
   const { manifest, files } = bundle;
 
   // The array revision.
-  if (!manifest.files.some((f) => f.path === REVISION_PATH && f.kind === 'array-revision')) refuse(`the manifest lists no ${REVISION_PATH} of kind "array-revision"`);
+  if (!manifest.files.some((f) => f.path === REVISION_PATH && f.kind === 'array-revision'))
+    refuse(`the manifest lists no ${REVISION_PATH} of kind "array-revision"`);
   const revision = parseJsonFile(files, REVISION_PATH, revisionJsonSchema);
   const config = arrayInputSchema.safeParse(revision.config);
   if (!config.success) {
@@ -236,9 +290,13 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
     refuse(`config is not a valid array: ${issue.message}`, REVISION_PATH);
   }
   const geometry = resolveArrayGeometry(config.data);
-  if (config.data.elements !== revision.elements) refuse(`elements is ${revision.elements} but config.elements is ${config.data.elements}`, REVISION_PATH);
+  if (config.data.elements !== revision.elements)
+    refuse(`elements is ${revision.elements} but config.elements is ${config.data.elements}`, REVISION_PATH);
   if (Math.abs(geometry.spacingWavelengths - revision.spacingWavelengths) > 1e-12 * revision.spacingWavelengths) {
-    refuse(`spacingWavelengths ${revision.spacingWavelengths} does not follow from the config (${geometry.spacingWavelengths})`, REVISION_PATH);
+    refuse(
+      `spacingWavelengths ${revision.spacingWavelengths} does not follow from the config (${geometry.spacingWavelengths})`,
+      REVISION_PATH,
+    );
   }
 
   const tmpDir = path.join(dataDir(), 'uploads', 'tmp');
@@ -247,16 +305,24 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
   try {
     // Datasets: re-hash, write to a temp file, re-parse and compare the shape.
     const datasetEntries = manifest.files.filter((f) => f.kind === 'dataset' && f.path.endsWith('/dataset.json'));
-    const datasets: { folder: string; meta: z.infer<typeof datasetJsonSchema>; temp: string; rows: ComplexMatrix }[] = [];
+    const datasets: { folder: string; meta: z.infer<typeof datasetJsonSchema>; temp: string; rows: ComplexMatrix }[] =
+      [];
     for (const entry of datasetEntries) {
       const meta = parseJsonFile(files, entry.path, datasetJsonSchema);
       const folder = entry.path.slice(0, -'/dataset.json'.length);
-      if (!meta.file.startsWith(`${folder}/`)) refuse(`file '${meta.file}' lies outside its folder ${folder}/`, entry.path);
+      if (!meta.file.startsWith(`${folder}/`))
+        refuse(`file '${meta.file}' lies outside its folder ${folder}/`, entry.path);
       const data = files.get(meta.file);
-      if (!data || !manifest.files.some((f) => f.path === meta.file && f.kind === 'dataset')) refuse(`its data file '${meta.file}' is not in the bundle`, entry.path);
+      if (!data || !manifest.files.some((f) => f.path === meta.file && f.kind === 'dataset'))
+        refuse(`its data file '${meta.file}' is not in the bundle`, entry.path);
       const digest = sha256Hex(data);
-      if (digest !== meta.sha256 || data.byteLength !== meta.bytes) refuse(`the data file's SHA-256 ${digest.slice(0, 12)}… (${data.byteLength} bytes) does not match the metadata's ${meta.sha256.slice(0, 12)}… (${meta.bytes} bytes)`, entry.path);
-      if (meta.elements !== config.data.elements) refuse(`the dataset has ${meta.elements} elements but the array has ${config.data.elements}`, entry.path);
+      if (digest !== meta.sha256 || data.byteLength !== meta.bytes)
+        refuse(
+          `the data file's SHA-256 ${digest.slice(0, 12)}… (${data.byteLength} bytes) does not match the metadata's ${meta.sha256.slice(0, 12)}… (${meta.bytes} bytes)`,
+          entry.path,
+        );
+      if (meta.elements !== config.data.elements)
+        refuse(`the dataset has ${meta.elements} elements but the array has ${config.data.elements}`, entry.path);
       const options = datasetOptionsSchema.safeParse(meta.options ?? {});
       if (!options.success) refuse(`options: ${options.error.issues[0].message}`, entry.path);
       await fs.promises.mkdir(tmpDir, { recursive: true });
@@ -266,27 +332,47 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
       await fs.promises.writeFile(temp, data, { flag: 'wx' });
       let parsed;
       try {
-        parsed = await parseSnapshotFile({ path: temp, format: meta.fileFormat as SnapshotFormat, fileName: meta.originalName, maxBytes: Math.max(meta.bytes, 1), ...options.data });
+        parsed = await parseSnapshotFile({
+          path: temp,
+          format: meta.fileFormat as SnapshotFormat,
+          fileName: meta.originalName,
+          maxBytes: Math.max(meta.bytes, 1),
+          ...options.data,
+        });
       } catch (err) {
         if (err instanceof DatasetError) refuse(`the data file does not parse: ${err.message}`, meta.file);
         throw err;
       }
       if (parsed.elements !== meta.elements || parsed.snapshots !== meta.snapshots) {
-        refuse(`the file holds ${parsed.snapshots} snapshots of ${parsed.elements} elements; the metadata says ${meta.snapshots} of ${meta.elements}`, meta.file);
+        refuse(
+          `the file holds ${parsed.snapshots} snapshots of ${parsed.elements} elements; the metadata says ${meta.snapshots} of ${meta.elements}`,
+          meta.file,
+        );
       }
-      datasets.push({ folder, meta, temp, rows: { rows: parsed.snapshots, cols: parsed.elements, re: parsed.re, im: parsed.im } });
+      datasets.push({
+        folder,
+        meta,
+        temp,
+        rows: { rows: parsed.snapshots, cols: parsed.elements, re: parsed.re, im: parsed.im },
+      });
     }
 
     // Runs: check references, then re-execute.
     const runEntries = manifest.files.filter((f) => f.kind === 'estimate-run');
-    const runs: { json: z.infer<typeof runJsonSchema>; dataset: (typeof datasets)[number] | null; comparison: RunComparison | null; note?: string }[] = [];
+    const runs: {
+      json: z.infer<typeof runJsonSchema>;
+      dataset: (typeof datasets)[number] | null;
+      comparison: RunComparison | null;
+      note?: string;
+    }[] = [];
     for (const entry of runEntries) {
       const json = parseJsonFile(files, entry.path, runJsonSchema);
       let dataset: (typeof datasets)[number] | null = null;
       if (json.dataset !== null) {
         dataset = datasets.find((d) => d.folder === json.dataset) ?? null;
         if (!dataset) refuse(`it refers to ${json.dataset}, which the bundle does not hold`, entry.path);
-        if (json.datasetSha256 && json.datasetSha256 !== dataset.meta.sha256) refuse(`its datasetSha256 does not match ${json.dataset}`, entry.path);
+        if (json.datasetSha256 && json.datasetSha256 !== dataset.meta.sha256)
+          refuse(`its datasetSha256 does not match ${json.dataset}`, entry.path);
       }
       let rows = dataset?.rows ?? null;
       let note: string | undefined;
@@ -297,20 +383,37 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
           refuse(`inputs.snapshots: ${(err as Error).message}`, entry.path);
         }
       }
-      if (rows && rows.cols !== config.data.elements) refuse(`its data has ${rows.cols} elements but the array has ${config.data.elements}`, entry.path);
+      if (rows && rows.cols !== config.data.elements)
+        refuse(`its data has ${rows.cols} elements but the array has ${config.data.elements}`, entry.path);
       const runArray = (json.inputs.array ?? null) as { elements?: unknown; spacingWavelengths?: unknown } | null;
-      if (runArray && typeof runArray.spacingWavelengths === 'number' && Math.abs(runArray.spacingWavelengths - geometry.spacingWavelengths) > 1e-12 * geometry.spacingWavelengths) {
-        refuse(`the run used a spacing of ${runArray.spacingWavelengths} λ, not this array's ${geometry.spacingWavelengths} λ`, entry.path);
+      if (
+        runArray &&
+        typeof runArray.spacingWavelengths === 'number' &&
+        Math.abs(runArray.spacingWavelengths - geometry.spacingWavelengths) > 1e-12 * geometry.spacingWavelengths
+      ) {
+        refuse(
+          `the run used a spacing of ${runArray.spacingWavelengths} λ, not this array's ${geometry.spacingWavelengths} λ`,
+          entry.path,
+        );
       }
       let comparison: RunComparison | null = null;
-      if (rows) comparison = reproduceRun({ rows, spacingWavelengths: geometry.spacingWavelengths, inputs: json.inputs, result: json.result });
+      if (rows)
+        comparison = reproduceRun({
+          rows,
+          spacingWavelengths: geometry.spacingWavelengths,
+          inputs: json.inputs,
+          result: json.result,
+        });
       else note = 'not re-run: the bundle holds no data for this run (its datasets were left out)';
       runs.push({ json, dataset, comparison, note });
     }
 
     // Write everything in one transaction; files are renamed into place inside it.
     const created = await db.transaction(async (transaction) => {
-      const array = await ArrayDesign.create({ teamId: caller.teamId, name: config.data.name, latestRevision: 1, createdById: caller.id }, { transaction });
+      const array = await ArrayDesign.create(
+        { teamId: caller.teamId, name: config.data.name, latestRevision: 1, createdById: caller.id },
+        { transaction },
+      );
       const rev = await ArrayRevision.create(
         {
           arrayId: array.id,
@@ -327,7 +430,11 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
       const datasetIds = new Map<string, number>();
       const datasetOut: ImportResult['datasets'] = [];
       for (const d of datasets) {
-        const rel = path.join('datasets', String(caller.teamId), `${randomUUID()}${path.extname(d.meta.file).toLowerCase()}`);
+        const rel = path.join(
+          'datasets',
+          String(caller.teamId),
+          `${randomUUID()}${path.extname(d.meta.file).toLowerCase()}`,
+        );
         const row = await Dataset.create(
           {
             teamId: caller.teamId,
@@ -372,7 +479,13 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
           },
           { transaction },
         );
-        runOut.push({ id: row.id, originalId: r.json.originalId, reproduced: r.comparison ? r.comparison.reproduced : null, comparison: r.comparison, note: r.note });
+        runOut.push({
+          id: row.id,
+          originalId: r.json.originalId,
+          reproduced: r.comparison ? r.comparison.reproduced : null,
+          comparison: r.comparison,
+          note: r.note,
+        });
       }
       const rerun = runOut.filter((r) => r.reproduced !== null);
       const result: ImportResult = {
@@ -380,7 +493,13 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
         name: array.name,
         revision: 1,
         sourceRevision: revision.revision,
-        bundle: { title: manifest.title, author: manifest.author, createdAt: manifest.createdAt, softwareVersion: manifest.softwareVersion, files: manifest.files.length },
+        bundle: {
+          title: manifest.title,
+          author: manifest.author,
+          createdAt: manifest.createdAt,
+          softwareVersion: manifest.softwareVersion,
+          files: manifest.files.length,
+        },
         datasets: datasetOut,
         runs: runOut,
         reproduced: rerun.length ? rerun.every((r) => r.reproduced) : null,
@@ -398,7 +517,12 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
             from: manifest.author.email,
             bundleSha256: sha256Hex(bytes),
             datasets: datasetOut.map((d) => d.id),
-            runs: runOut.map((r) => ({ id: r.id, originalId: r.originalId, reproduced: r.reproduced, maxAbsDifferenceDeg: r.comparison?.methods.map((m) => m.maxAbsDifferenceDeg) ?? null })),
+            runs: runOut.map((r) => ({
+              id: r.id,
+              originalId: r.originalId,
+              reproduced: r.reproduced,
+              maxAbsDifferenceDeg: r.comparison?.methods.map((m) => m.maxAbsDifferenceDeg) ?? null,
+            })),
           },
         },
         transaction,

@@ -7,11 +7,17 @@ const idList = (field: string) =>
     .optional()
     .transform((v, ctx) => {
       if (!v) return [] as number[];
-      const parts = v.split(',').map((p) => p.trim()).filter(Boolean);
+      const parts = v
+        .split(',')
+        .map((p) => p.trim())
+        .filter(Boolean);
       const out: number[] = [];
       for (const p of parts) {
         if (!/^[1-9][0-9]{0,15}$/.test(p)) {
-          ctx.addIssue({ code: 'custom', message: `${field} must be a comma-separated list of ids (got '${p.slice(0, 20)}')` });
+          ctx.addIssue({
+            code: 'custom',
+            message: `${field} must be a comma-separated list of ids (got '${p.slice(0, 20)}')`,
+          });
           return z.NEVER;
         }
         out.push(Number(p));
@@ -43,5 +49,9 @@ export const bundleQuerySchema = z.object({
 
 export function bundleQueryFrom(url: string) {
   const q = new URL(url).searchParams;
-  return bundleQuerySchema.parse({ revision: q.get('revision') ?? undefined, datasets: q.get('datasets') ?? undefined, runs: q.get('runs') ?? undefined });
+  return bundleQuerySchema.parse({
+    revision: q.get('revision') ?? undefined,
+    datasets: q.get('datasets') ?? undefined,
+    runs: q.get('runs') ?? undefined,
+  });
 }

@@ -44,8 +44,10 @@ export interface RunComparison {
   error?: string;
 }
 
-const isMethod = (v: unknown): v is DoaMethod => typeof v === 'string' && (DOA_METHODS as readonly string[]).includes(v);
-const isNumberList = (v: unknown): v is number[] => Array.isArray(v) && v.every((x) => typeof x === 'number' && Number.isFinite(x));
+const isMethod = (v: unknown): v is DoaMethod =>
+  typeof v === 'string' && (DOA_METHODS as readonly string[]).includes(v);
+const isNumberList = (v: unknown): v is number[] =>
+  Array.isArray(v) && v.every((x) => typeof x === 'number' && Number.isFinite(x));
 
 /** The method results stored in a run's `result`; throws a plain Error naming what is missing. */
 export function storedResults(result: unknown): StoredMethodResult[] {
@@ -55,8 +57,12 @@ export function storedResults(result: unknown): StoredMethodResult[] {
   const out: StoredMethodResult[] = [];
   list.forEach((entry, i) => {
     const e = (entry ?? {}) as { method?: unknown; bearingsDeg?: unknown };
-    if (!isMethod(e.method)) throw new Error(`result ${i + 1}: method ${JSON.stringify(e.method ?? null)} is not one of ${DOA_METHODS.join(', ')}`);
-    if (!isNumberList(e.bearingsDeg)) throw new Error(`result ${i + 1} (${e.method}): bearingsDeg is not a list of finite numbers`);
+    if (!isMethod(e.method))
+      throw new Error(
+        `result ${i + 1}: method ${JSON.stringify(e.method ?? null)} is not one of ${DOA_METHODS.join(', ')}`,
+      );
+    if (!isNumberList(e.bearingsDeg))
+      throw new Error(`result ${i + 1} (${e.method}): bearingsDeg is not a list of finite numbers`);
     out.push({ method: e.method, bearingsDeg: e.bearingsDeg });
   });
   if (out.length === 0) throw new Error('the run stores no method results');
@@ -70,7 +76,8 @@ export function rerunOptions(inputs: unknown): RerunOptions {
   // Stored layout: {methods, options:{…}}; flat v1 body: {method, sourceCount, …}.
   const i = (top.options && typeof top.options === 'object' ? top.options : top) as Record<string, unknown>;
   const methods = Array.isArray(top.methods) ? top.methods : top.method !== undefined ? [top.method] : [];
-  if (methods.length === 0 || !methods.every(isMethod)) throw new Error(`inputs.method(s) ${JSON.stringify(i.methods ?? i.method ?? null)} name no known method`);
+  if (methods.length === 0 || !methods.every(isMethod))
+    throw new Error(`inputs.method(s) ${JSON.stringify(i.methods ?? i.method ?? null)} name no known method`);
   const out: RerunOptions = { methods: methods as DoaMethod[] };
   const int = (key: string) => {
     const v = i[key];
@@ -86,7 +93,8 @@ export function rerunOptions(inputs: unknown): RerunOptions {
   };
   out.sourceCount = int('sourceCount');
   if (i.sourceCountRule !== undefined && i.sourceCountRule !== null) {
-    if (i.sourceCountRule !== 'mdl' && i.sourceCountRule !== 'aic') throw new Error('inputs.sourceCountRule must be "mdl" or "aic"');
+    if (i.sourceCountRule !== 'mdl' && i.sourceCountRule !== 'aic')
+      throw new Error('inputs.sourceCountRule must be "mdl" or "aic"');
     out.sourceCountRule = i.sourceCountRule;
   }
   out.forwardBackward = bool('forwardBackward');
@@ -104,12 +112,14 @@ export function inlineSnapshots(inputs: unknown): ComplexMatrix | null {
   if (!s) return null;
   const re = s.re as number[][];
   const im = s.im as number[][];
-  if (!Array.isArray(re) || !Array.isArray(im) || re.length === 0 || re.length !== im.length) throw new Error('inputs.snapshots must hold {re, im} with the same number of rows');
+  if (!Array.isArray(re) || !Array.isArray(im) || re.length === 0 || re.length !== im.length)
+    throw new Error('inputs.snapshots must hold {re, im} with the same number of rows');
   const n = re.length;
   const m = re[0]?.length ?? 0;
   const out: ComplexMatrix = { rows: n, cols: m, re: new Float64Array(m * n), im: new Float64Array(m * n) };
   for (let r = 0; r < n; r++) {
-    if (!isNumberList(re[r]) || !isNumberList(im[r]) || re[r].length !== m || im[r].length !== m) throw new Error(`inputs.snapshots row ${r + 1} is not ${m} finite numbers in re and im`);
+    if (!isNumberList(re[r]) || !isNumberList(im[r]) || re[r].length !== m || im[r].length !== m)
+      throw new Error(`inputs.snapshots row ${r + 1} is not ${m} finite numbers in re and im`);
     for (let c = 0; c < m; c++) {
       out.re[r * m + c] = re[r][c];
       out.im[r * m + c] = im[r][c];
@@ -121,7 +131,12 @@ export function inlineSnapshots(inputs: unknown): ComplexMatrix | null {
 const fmtDeg = (v: number) => (Math.abs(v) < 1e-3 && v !== 0 ? v.toExponential(3) : v.toFixed(6));
 
 /** Compares one method's stored and recomputed bearings. */
-export function compareBearings(method: DoaMethod, stored: number[], recomputed: number[], tolerance = REPRODUCE_TOLERANCE_DEG): MethodComparison {
+export function compareBearings(
+  method: DoaMethod,
+  stored: number[],
+  recomputed: number[],
+  tolerance = REPRODUCE_TOLERANCE_DEG,
+): MethodComparison {
   if (stored.length !== recomputed.length) {
     return {
       method,
@@ -150,7 +165,17 @@ export function compareBearings(method: DoaMethod, stored: number[], recomputed:
 }
 
 /** Re-executes every method of a run on `rows` (N × M, one snapshot per row) and compares with what it stored. */
-export function reproduceRun({ rows, spacingWavelengths, inputs, result }: { rows: ComplexMatrix; spacingWavelengths: number; inputs: unknown; result: unknown }): RunComparison {
+export function reproduceRun({
+  rows,
+  spacingWavelengths,
+  inputs,
+  result,
+}: {
+  rows: ComplexMatrix;
+  spacingWavelengths: number;
+  inputs: unknown;
+  result: unknown;
+}): RunComparison {
   let options: RerunOptions;
   let stored: StoredMethodResult[];
   try {
@@ -167,7 +192,15 @@ export function reproduceRun({ rows, spacingWavelengths, inputs, result }: { row
       const answer = estimateBearings({ rows, spacingWavelengths, method: s.method, ...rest });
       methods.push(compareBearings(s.method, s.bearingsDeg, answer.bearingsDeg));
     } catch (err) {
-      methods.push({ method: s.method, storedDeg: s.bearingsDeg, recomputedDeg: [], differencesDeg: null, maxAbsDifferenceDeg: null, reproduced: false, message: `${s.method}: re-running failed: ${(err as Error).message}` });
+      methods.push({
+        method: s.method,
+        storedDeg: s.bearingsDeg,
+        recomputedDeg: [],
+        differencesDeg: null,
+        maxAbsDifferenceDeg: null,
+        reproduced: false,
+        message: `${s.method}: re-running failed: ${(err as Error).message}`,
+      });
     }
   }
   return { reproduced: methods.length > 0 && methods.every((m) => m.reproduced), methods };

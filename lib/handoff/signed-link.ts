@@ -30,20 +30,37 @@ function sign(payload: string, secret: string): Buffer {
   return createHmac('sha256', secret).update(payload).digest();
 }
 
-export function createSignedToken(options: { purpose: string; subject: string; ttlSeconds: number; secret: string; now?: Date }): string {
+export function createSignedToken(options: {
+  purpose: string;
+  subject: string;
+  ttlSeconds: number;
+  secret: string;
+  now?: Date;
+}): string {
   const { purpose, subject, ttlSeconds, secret } = options;
   if (!secret) throw new Error('createSignedToken needs a non-empty secret');
   if (!(ttlSeconds > 0)) throw new RangeError(`ttlSeconds must be positive, got ${ttlSeconds}`);
   const now = options.now ?? new Date();
-  const claims = { p: purpose, s: subject, e: Math.floor(now.getTime() / 1000) + Math.floor(ttlSeconds), n: randomBytes(9).toString('base64url') };
+  const claims = {
+    p: purpose,
+    s: subject,
+    e: Math.floor(now.getTime() / 1000) + Math.floor(ttlSeconds),
+    n: randomBytes(9).toString('base64url'),
+  };
   const payload = Buffer.from(JSON.stringify(claims)).toString('base64url');
   return `${payload}.${sign(payload, secret).toString('base64url')}`;
 }
 
-export function verifySignedToken(options: { token: string; purpose: string; secret: string; now?: Date }): SignedLinkClaims {
+export function verifySignedToken(options: {
+  token: string;
+  purpose: string;
+  secret: string;
+  now?: Date;
+}): SignedLinkClaims {
   const { token, purpose, secret } = options;
   const parts = token.split('.');
-  if (parts.length !== 2 || !parts[0] || !parts[1]) throw new SignedLinkError('malformed', 'the link is incomplete or malformed');
+  if (parts.length !== 2 || !parts[0] || !parts[1])
+    throw new SignedLinkError('malformed', 'the link is incomplete or malformed');
   const [payload, signature] = parts;
   const expected = sign(payload, secret);
   const given = Buffer.from(signature, 'base64url');
@@ -59,7 +76,8 @@ export function verifySignedToken(options: { token: string; purpose: string; sec
   if (typeof claims.p !== 'string' || typeof claims.s !== 'string' || typeof claims.e !== 'number') {
     throw new SignedLinkError('malformed', 'the link payload is missing fields');
   }
-  if (claims.p !== purpose) throw new SignedLinkError('wrong-purpose', `the link is for '${claims.p}', not '${purpose}'`);
+  if (claims.p !== purpose)
+    throw new SignedLinkError('wrong-purpose', `the link is for '${claims.p}', not '${purpose}'`);
   const now = options.now ?? new Date();
   if (now.getTime() / 1000 >= claims.e) {
     throw new SignedLinkError('expired', `the link expired at ${new Date(claims.e * 1000).toISOString()}`);

@@ -3,16 +3,33 @@ import { emailSchema } from '@/lib/validations/account';
 
 const idList = (field: string) =>
   z
-    .array(z.number({ error: `${field} must list ids` }).int({ error: `${field} must list whole-number ids` }).positive({ error: `${field} must list ids ≥ 1` }), { error: `${field} must be a list of ids` })
+    .array(
+      z
+        .number({ error: `${field} must list ids` })
+        .int({ error: `${field} must list whole-number ids` })
+        .positive({ error: `${field} must list ids ≥ 1` }),
+      { error: `${field} must be a list of ids` },
+    )
     .max(50, { error: `${field}: at most 50 per bundle` })
     .optional();
 
 /** POST /api/handoff: send a bundle of an array revision to a colleague by e-mail. */
 export const handoffSendSchema = z.strictObject({
-  arrayId: z.number({ error: 'arrayId is required' }).int({ error: 'arrayId must be a whole number' }).positive({ error: 'arrayId must be ≥ 1' }),
-  revision: z.number({ error: 'revision must be a whole number' }).int({ error: 'revision must be a whole number' }).positive({ error: 'revision must be ≥ 1' }).optional(),
+  arrayId: z
+    .number({ error: 'arrayId is required' })
+    .int({ error: 'arrayId must be a whole number' })
+    .positive({ error: 'arrayId must be ≥ 1' }),
+  revision: z
+    .number({ error: 'revision must be a whole number' })
+    .int({ error: 'revision must be a whole number' })
+    .positive({ error: 'revision must be ≥ 1' })
+    .optional(),
   recipientEmail: emailSchema,
-  note: z.string({ error: 'note must be text' }).trim().max(2000, { error: 'note must be at most 2000 characters' }).optional(),
+  note: z
+    .string({ error: 'note must be text' })
+    .trim()
+    .max(2000, { error: 'note must be at most 2000 characters' })
+    .optional(),
   datasets: idList('datasets'),
   runs: idList('runs'),
 });
@@ -26,7 +43,11 @@ const queryId = (field: string) =>
     .optional();
 
 /** Query of GET /api/v1/reviews: ?arrayId=&revision= (an array revision) or ?runId= (a run). */
-export const reviewQuerySchema = z.object({ arrayId: queryId('arrayId'), revision: queryId('revision'), runId: queryId('runId') });
+export const reviewQuerySchema = z.object({
+  arrayId: queryId('arrayId'),
+  revision: queryId('revision'),
+  runId: queryId('runId'),
+});
 
 /** POST /api/v1/reviews: a comment, an approval (sign-off) or a request for changes on one array revision or one run. */
 export const reviewCreateSchema = z
@@ -34,13 +55,30 @@ export const reviewCreateSchema = z
     arrayId: z.number({ error: 'arrayId must be a whole number' }).int().positive().optional(),
     revision: z.number({ error: 'revision must be a whole number' }).int().positive().optional(),
     runId: z.number({ error: 'runId must be a whole number' }).int().positive().optional(),
-    kind: z.enum(['comment', 'approval', 'changes-requested'], { error: 'kind must be comment, approval or changes-requested' }),
-    body: z.string({ error: 'body must be text' }).trim().max(4000, { error: 'body must be at most 4000 characters' }).default(''),
+    kind: z.enum(['comment', 'approval', 'changes-requested'], {
+      error: 'kind must be comment, approval or changes-requested',
+    }),
+    body: z
+      .string({ error: 'body must be text' })
+      .trim()
+      .max(4000, { error: 'body must be at most 4000 characters' })
+      .default(''),
   })
   .superRefine((v, ctx) => {
     const onArray = v.arrayId !== undefined;
-    if (onArray === (v.runId !== undefined)) ctx.addIssue({ code: 'custom', path: ['arrayId'], message: 'give arrayId and revision (an array revision) or runId (a run), not both' });
-    if (onArray && v.revision === undefined) ctx.addIssue({ code: 'custom', path: ['revision'], message: 'revision is required with arrayId' });
-    if (v.kind !== 'approval' && !v.body) ctx.addIssue({ code: 'custom', path: ['body'], message: v.kind === 'comment' ? 'body: write the comment' : 'body: say what should change' });
+    if (onArray === (v.runId !== undefined))
+      ctx.addIssue({
+        code: 'custom',
+        path: ['arrayId'],
+        message: 'give arrayId and revision (an array revision) or runId (a run), not both',
+      });
+    if (onArray && v.revision === undefined)
+      ctx.addIssue({ code: 'custom', path: ['revision'], message: 'revision is required with arrayId' });
+    if (v.kind !== 'approval' && !v.body)
+      ctx.addIssue({
+        code: 'custom',
+        path: ['body'],
+        message: v.kind === 'comment' ? 'body: write the comment' : 'body: say what should change',
+      });
   });
 export type ReviewCreateInput = z.infer<typeof reviewCreateSchema>;

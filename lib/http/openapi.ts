@@ -10,10 +10,20 @@ import { datasetCreatedSchema, datasetSchema, datasetUploadFormSchema } from '..
 import { studyRequestSchema } from '../validations/study';
 import { handoffSendSchema, reviewCreateSchema, reviewQuerySchema } from '../handoff/validation';
 import { bundleQuerySchema } from '../handoff/query';
-import { boundsAnswerSchema, boundsRequestSchema, estimateAnswerSchema, estimateRequestSchema, estimateRunSchema } from '../validations/estimate';
+import {
+  boundsAnswerSchema,
+  boundsRequestSchema,
+  estimateAnswerSchema,
+  estimateRequestSchema,
+  estimateRunSchema,
+} from '../validations/estimate';
 
 const errorSchema = z.object({
-  error: z.object({ code: z.string(), message: z.string(), fields: z.record(z.string(), z.array(z.string())).optional() }),
+  error: z.object({
+    code: z.string(),
+    message: z.string(),
+    fields: z.record(z.string(), z.array(z.string())).optional(),
+  }),
 });
 
 const arraySchema = z.object({
@@ -67,11 +77,38 @@ function queryParams(s: z.ZodType) {
 
 const reviewThread = {
   type: 'object',
-  description: 'The thread of one target: every comment and decision, the sign-offs (approvals) with name and time, and the latest decision.',
+  description:
+    'The thread of one target: every comment and decision, the sign-offs (approvals) with name and time, and the latest decision.',
   properties: {
-    target: { type: 'object', description: "{type:'array-revision', arrayId, arrayName, revision} or {type:'run', runId}" },
-    items: { type: 'array', items: { type: 'object', properties: { id: { type: 'integer' }, kind: { type: 'string', enum: ['comment', 'approval', 'changes-requested'] }, body: { type: 'string' }, author: { type: ['object', 'null'] }, createdAt: { type: 'string', format: 'date-time' } } } },
-    signOffs: { type: 'array', items: { type: 'object', properties: { by: { type: 'string' }, role: { type: 'string' }, at: { type: 'string', format: 'date-time' }, note: { type: 'string' } } } },
+    target: {
+      type: 'object',
+      description: "{type:'array-revision', arrayId, arrayName, revision} or {type:'run', runId}",
+    },
+    items: {
+      type: 'array',
+      items: {
+        type: 'object',
+        properties: {
+          id: { type: 'integer' },
+          kind: { type: 'string', enum: ['comment', 'approval', 'changes-requested'] },
+          body: { type: 'string' },
+          author: { type: ['object', 'null'] },
+          createdAt: { type: 'string', format: 'date-time' },
+        },
+      },
+    },
+    signOffs: {
+      type: 'array',
+      items: {
+        type: 'object',
+        properties: {
+          by: { type: 'string' },
+          role: { type: 'string' },
+          at: { type: 'string', format: 'date-time' },
+          note: { type: 'string' },
+        },
+      },
+    },
     status: { type: 'string', enum: ['approved', 'changes-requested', 'open'] },
   },
 };
@@ -88,114 +125,238 @@ export function openApiDocument() {
     servers: [{ url: '/' }],
     security: [{ bearer: [] }],
     paths: {
-      '/api/health': { get: { summary: 'Liveness and database check', security: [], responses: { '200': { description: 'OK', content: json('Health') } } } },
-      '/api/v1/openapi.json': { get: { summary: 'This document', security: [], responses: { '200': { description: 'OpenAPI 3.1' } } } },
+      '/api/health': {
+        get: {
+          summary: 'Liveness and database check',
+          security: [],
+          responses: { '200': { description: 'OK', content: json('Health') } },
+        },
+      },
+      '/api/v1/openapi.json': {
+        get: { summary: 'This document', security: [], responses: { '200': { description: 'OpenAPI 3.1' } } },
+      },
       '/api/v1/arrays': {
-        get: { summary: "The team's arrays", responses: { '200': { description: 'OK', content: { 'application/json': { schema: { type: 'object', properties: { items: { type: 'array', items: ref('Array') } } } } } }, ...errors(401) } },
-        post: { summary: 'Create an array (revision 1)', requestBody: { required: true, content: json('ArrayInput') }, responses: { '201': { description: 'Created', content: json('Array') }, ...errors(400, 401, 403, 422) } },
+        get: {
+          summary: "The team's arrays",
+          responses: {
+            '200': {
+              description: 'OK',
+              content: {
+                'application/json': {
+                  schema: { type: 'object', properties: { items: { type: 'array', items: ref('Array') } } },
+                },
+              },
+            },
+            ...errors(401),
+          },
+        },
+        post: {
+          summary: 'Create an array (revision 1)',
+          requestBody: { required: true, content: json('ArrayInput') },
+          responses: { '201': { description: 'Created', content: json('Array') }, ...errors(400, 401, 403, 422) },
+        },
       },
       '/api/v1/arrays/{id}': {
         parameters: [idParam],
-        get: { summary: 'An array at its latest revision, with metrics', responses: { '200': { description: 'OK', content: json('Array') }, ...errors(401, 404) } },
-        patch: { summary: 'Change an array (revision + 1)', requestBody: { required: true, content: json('ArrayInput') }, responses: { '200': { description: 'OK', content: json('Array') }, ...errors(400, 401, 403, 404, 422) } },
+        get: {
+          summary: 'An array at its latest revision, with metrics',
+          responses: { '200': { description: 'OK', content: json('Array') }, ...errors(401, 404) },
+        },
+        patch: {
+          summary: 'Change an array (revision + 1)',
+          requestBody: { required: true, content: json('ArrayInput') },
+          responses: { '200': { description: 'OK', content: json('Array') }, ...errors(400, 401, 403, 404, 422) },
+        },
       },
       '/api/v1/arrays/{id}/revisions/{rev}': {
         parameters: [idParam, { name: 'rev', in: 'path', required: true, schema: { type: 'integer', minimum: 1 } }],
-        get: { summary: 'An array as saved at one revision, with metrics (same shape as GET /api/v1/arrays/{id})', responses: { '200': { description: 'OK', content: json('Array') }, ...errors(401, 404) } },
+        get: {
+          summary: 'An array as saved at one revision, with metrics (same shape as GET /api/v1/arrays/{id})',
+          responses: { '200': { description: 'OK', content: json('Array') }, ...errors(401, 404) },
+        },
       },
       '/api/v1/arrays/{id}/bundle': {
         parameters: [idParam, ...queryParams(bundleQuerySchema)],
         get: {
           summary: 'The hand-off bundle of an array revision (zip)',
-          description: 'revision defaults to the latest; datasets and runs are comma-separated ids to include. The SHA-256 of the zip is in the x-bundle-sha256 header.',
+          description:
+            'revision defaults to the latest; datasets and runs are comma-separated ids to include. The SHA-256 of the zip is in the x-bundle-sha256 header.',
           responses: { '200': { description: 'The bundle', content: zip }, ...errors(401, 403, 404, 422) },
         },
       },
       '/api/v1/bundles': {
         post: {
           summary: "Import a hand-off bundle into the caller's team",
-          requestBody: { required: true, content: { 'multipart/form-data': { schema: { type: 'object', required: ['file'], properties: { file: { type: 'string', format: 'binary' } } } } } },
-          responses: { '201': { description: 'Imported', content: { 'application/json': { schema: { type: 'object', properties: { arrayId: { type: 'integer' } }, additionalProperties: true } } } }, ...errors(401, 403, 413, 415, 422) },
+          requestBody: {
+            required: true,
+            content: {
+              'multipart/form-data': {
+                schema: {
+                  type: 'object',
+                  required: ['file'],
+                  properties: { file: { type: 'string', format: 'binary' } },
+                },
+              },
+            },
+          },
+          responses: {
+            '201': {
+              description: 'Imported',
+              content: {
+                'application/json': {
+                  schema: { type: 'object', properties: { arrayId: { type: 'integer' } }, additionalProperties: true },
+                },
+              },
+            },
+            ...errors(401, 403, 413, 415, 422),
+          },
         },
       },
       '/api/v1/reviews': {
         get: {
           summary: 'The review thread of one array revision (?arrayId=&revision=) or one run (?runId=)',
           parameters: queryParams(reviewQuerySchema),
-          responses: { '200': { description: 'OK', content: { 'application/json': { schema: reviewThread } } }, ...errors(401, 404, 422) },
+          responses: {
+            '200': { description: 'OK', content: { 'application/json': { schema: reviewThread } } },
+            ...errors(401, 404, 422),
+          },
         },
         post: {
           summary: 'Comment on, approve (sign off) or ask for changes to an array revision or a finished run',
-          description: 'Comments need an engineer, reviewer or admin; approvals and requests for changes a reviewer or admin. The author is told by e-mail. A run that has not finished is 409.',
+          description:
+            'Comments need an engineer, reviewer or admin; approvals and requests for changes a reviewer or admin. The author is told by e-mail. A run that has not finished is 409.',
           requestBody: { required: true, content: json('ReviewRequest') },
-          responses: { '201': { description: 'The thread after the new entry', content: { 'application/json': { schema: reviewThread } } }, ...errors(400, 401, 403, 404, 409, 422) },
+          responses: {
+            '201': {
+              description: 'The thread after the new entry',
+              content: { 'application/json': { schema: reviewThread } },
+            },
+            ...errors(400, 401, 403, 404, 409, 422),
+          },
         },
       },
       '/api/handoff': {
         get: { summary: "The team's sent hand-offs", responses: { '200': { description: 'OK' }, ...errors(401) } },
         post: {
           summary: 'E-mail a hand-off bundle to a colleague',
-          description: 'Sends a signed, expiring download link (GET /api/handoff/{token}) with the note; a recipient who is not yet a member also gets an invitation. Engineers and admins.',
+          description:
+            'Sends a signed, expiring download link (GET /api/handoff/{token}) with the note; a recipient who is not yet a member also gets an invitation. Engineers and admins.',
           requestBody: { required: true, content: json('HandoffSend') },
-          responses: { '201': { description: 'Sent (the link goes only to the recipient)' }, ...errors(400, 401, 403, 404, 422) },
+          responses: {
+            '201': { description: 'Sent (the link goes only to the recipient)' },
+            ...errors(400, 401, 403, 404, 422),
+          },
         },
       },
       '/api/handoff/{token}': {
-        parameters: [{ name: 'token', in: 'path', required: true, description: 'The signed token from the e-mailed link', schema: { type: 'string' } }],
+        parameters: [
+          {
+            name: 'token',
+            in: 'path',
+            required: true,
+            description: 'The signed token from the e-mailed link',
+            schema: { type: 'string' },
+          },
+        ],
         get: {
           summary: 'Download the bundle of an e-mailed hand-off (no sign-in; the signed link is the credential)',
           security: [],
-          responses: { '200': { description: 'The bundle', content: zip }, '404': { description: 'Altered or unknown link', content: json('Error') }, '422': { description: 'Expired link (code link_expired)', content: json('Error') } },
+          responses: {
+            '200': { description: 'The bundle', content: zip },
+            '404': { description: 'Altered or unknown link', content: json('Error') },
+            '422': { description: 'Expired link (code link_expired)', content: json('Error') },
+          },
         },
       },
       '/api/v1/datasets': {
         get: { summary: "The team's datasets", responses: { '200': { description: 'OK' }, ...errors(401) } },
         post: {
           summary: 'Upload a snapshot file',
-          description: 'Streamed to disk while hashed (SHA-256 of the bytes as received), parsed, then stored atomically with its record. Size limit STEERWISE_MAX_UPLOAD_BYTES (default 200 MiB). Reader errors carry `fields.reason` (a stable code) and `fields.location` ("row R, column C", 1-based).',
+          description:
+            'Streamed to disk while hashed (SHA-256 of the bytes as received), parsed, then stored atomically with its record. Size limit STEERWISE_MAX_UPLOAD_BYTES (default 200 MiB). Reader errors carry `fields.reason` (a stable code) and `fields.location` ("row R, column C", 1-based).',
           requestBody: { required: true, content: { 'multipart/form-data': { schema: ref('DatasetUpload') } } },
-          responses: { '201': { description: 'Stored', content: json('DatasetCreated') }, ...errors(401, 403, 404, 413, 415, 422) },
+          responses: {
+            '201': { description: 'Stored', content: json('DatasetCreated') },
+            ...errors(401, 403, 404, 413, 415, 422),
+          },
         },
       },
       '/api/v1/datasets/{id}': {
         parameters: [idParam],
-        get: { summary: 'A dataset with its summary figures', responses: { '200': { description: 'OK', content: json('Dataset') }, ...errors(401, 404) } },
-        delete: { summary: 'Delete a dataset and its stored file', responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) } },
+        get: {
+          summary: 'A dataset with its summary figures',
+          responses: { '200': { description: 'OK', content: json('Dataset') }, ...errors(401, 404) },
+        },
+        delete: {
+          summary: 'Delete a dataset and its stored file',
+          responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
+        },
       },
       '/api/v1/estimates': {
         get: { summary: "The team's estimate runs", responses: { '200': { description: 'OK' }, ...errors(401) } },
         post: {
           summary: 'Estimate bearings',
-          description: 'Waits for the run and answers 201. With `Prefer: respond-async` it answers 202 with the queued run; poll GET /api/v1/estimates/{id}. K ≥ M (or ≥ the smoothed L), mismatched element counts and arrays with disabled elements are 422.',
-          parameters: [{ name: 'Prefer', in: 'header', required: false, schema: { type: 'string', enum: ['respond-async'] } }],
+          description:
+            'Waits for the run and answers 201. With `Prefer: respond-async` it answers 202 with the queued run; poll GET /api/v1/estimates/{id}. K ≥ M (or ≥ the smoothed L), mismatched element counts and arrays with disabled elements are 422.',
+          parameters: [
+            { name: 'Prefer', in: 'header', required: false, schema: { type: 'string', enum: ['respond-async'] } },
+          ],
           requestBody: { required: true, content: json('EstimateRequest') },
-          responses: { '201': { description: 'Done', content: json('Estimate') }, '202': { description: 'Queued', content: json('EstimateRun') }, ...errors(400, 401, 403, 404, 413, 415, 422) },
+          responses: {
+            '201': { description: 'Done', content: json('Estimate') },
+            '202': { description: 'Queued', content: json('EstimateRun') },
+            ...errors(400, 401, 403, 404, 413, 415, 422),
+          },
         },
       },
       '/api/v1/estimates/{id}': {
         parameters: [idParam],
-        get: { summary: 'A run with its inputs, status, progress and per-method results', responses: { '200': { description: 'OK', content: json('EstimateRun') }, ...errors(401, 404) } },
+        get: {
+          summary: 'A run with its inputs, status, progress and per-method results',
+          responses: { '200': { description: 'OK', content: json('EstimateRun') }, ...errors(401, 404) },
+        },
       },
       '/api/v1/estimates/{id}/rerun': {
         parameters: [idParam],
-        post: { summary: 'Repeat a run with its exact inputs and compare the bearings', responses: { '201': { description: 'Done, with `comparison`' }, '202': { description: 'Queued' }, ...errors(401, 403, 404, 409, 422) } },
+        post: {
+          summary: 'Repeat a run with its exact inputs and compare the bearings',
+          responses: {
+            '201': { description: 'Done, with `comparison`' },
+            '202': { description: 'Queued' },
+            ...errors(401, 403, 404, 409, 422),
+          },
+        },
       },
       '/api/v1/studies': {
-        get: { summary: "The team's Monte Carlo studies (without results)", responses: { '200': { description: 'OK' }, ...errors(401) } },
+        get: {
+          summary: "The team's Monte Carlo studies (without results)",
+          responses: { '200': { description: 'OK' }, ...errors(401) },
+        },
         post: {
           summary: 'Start a Monte Carlo accuracy study (RMSE against the stochastic CRB over a sweep of SNR, N or M)',
-          description: 'Answers 202 {id, status} and runs on the job queue; poll GET /api/v1/studies/{id}. A study over the compute budget is 422 with a message saying how to shrink it.',
+          description:
+            'Answers 202 {id, status} and runs on the job queue; poll GET /api/v1/studies/{id}. A study over the compute budget is 422 with a message saying how to shrink it.',
           requestBody: { required: true, content: json('StudyRequest') },
           responses: { '202': { description: 'Queued: {id, status}' }, ...errors(400, 401, 403, 404, 413, 415, 422) },
         },
       },
       '/api/v1/studies/{id}': {
         parameters: [idParam],
-        get: { summary: 'A study: status, progress, inputs and per-point results', responses: { '200': { description: 'OK' }, ...errors(401, 404) } },
-        delete: { summary: 'Delete a study (a running one is stopped)', responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) } },
+        get: {
+          summary: 'A study: status, progress, inputs and per-point results',
+          responses: { '200': { description: 'OK' }, ...errors(401, 404) },
+        },
+        delete: {
+          summary: 'Delete a study (a running one is stopped)',
+          responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
+        },
       },
       '/api/v1/bounds': {
-        post: { summary: 'Stochastic CRB per source and the resolvable-gap test per pair', requestBody: { required: true, content: json('BoundsRequest') }, responses: { '200': { description: 'OK', content: json('Bounds') }, ...errors(400, 401, 422) } },
+        post: {
+          summary: 'Stochastic CRB per source and the resolvable-gap test per pair',
+          requestBody: { required: true, content: json('BoundsRequest') },
+          responses: { '200': { description: 'OK', content: json('Bounds') }, ...errors(400, 401, 422) },
+        },
       },
     },
     components: {

@@ -58,7 +58,10 @@ export interface Uncertainty {
 }
 
 /** The part of the engine's pair verdict a run stores. */
-export type PairFlag = Pick<PairResolvability, 'i' | 'j' | 'separationDeg' | 'separationU' | 'rayleighGapU' | 'belowResolvableGap' | 'verdict'>;
+export type PairFlag = Pick<
+  PairResolvability,
+  'i' | 'j' | 'separationDeg' | 'separationU' | 'rayleighGapU' | 'belowResolvableGap' | 'verdict'
+>;
 
 export interface MethodResult {
   method: DoaMethod;
@@ -81,7 +84,8 @@ export const CI95_FACTOR = 1.96;
 /** The covariance the engine uses for these options (L × L). */
 export function usedCovariance(rows: ComplexMatrix, options: RunOptions): ComplexMatrix {
   let r = sampleCovarianceFromRows(rows);
-  if (options.singleSnapshot) r = spatialSmoothing(r, options.singleSnapshotSubarray ?? defaultSingleSnapshotSubarray(rows.cols));
+  if (options.singleSnapshot)
+    r = spatialSmoothing(r, options.singleSnapshotSubarray ?? defaultSingleSnapshotSubarray(rows.cols));
   if (options.smoothingSubarray !== undefined) r = spatialSmoothing(r, options.smoothingSubarray);
   if (options.forwardBackward) r = forwardBackward(r);
   return r;
@@ -102,7 +106,12 @@ function steering(l: number, d: number, bearingsDeg: number[]): ComplexMatrix {
 }
 
 /** σ² and source powers from the used covariance at the estimated bearings (see the header). */
-export function fitPowers(r: ComplexMatrix, eigenvalues: number[], bearingsDeg: number[], d: number): { noisePower: number; sourcePowers: number[]; raised: boolean } {
+export function fitPowers(
+  r: ComplexMatrix,
+  eigenvalues: number[],
+  bearingsDeg: number[],
+  d: number,
+): { noisePower: number; sourcePowers: number[]; raised: boolean } {
   const l = r.rows;
   const k = bearingsDeg.length;
   const tail = eigenvalues.slice(k);
@@ -188,12 +197,21 @@ export function runMethod({
   if (b.length === 0) {
     out.uncertaintyNote = 'No sources were estimated, so there is no bound to show.';
   } else if (!distinct || !inside) {
-    out.uncertaintyNote = !distinct ? 'Two estimated bearings coincide; the bound is not defined there.' : 'A bearing at ±90° (end-fire) has no finite bound.';
+    out.uncertaintyNote = !distinct
+      ? 'Two estimated bearings coincide; the bound is not defined there.'
+      : 'A bearing at ±90° (end-fire) has no finite bound.';
   } else {
     try {
       const r = covariance ?? usedCovariance(rows, options);
       const fit = fitPowers(r, res.eigenvalues, b, spacingWavelengths);
-      const input = { elements, spacingWavelengths, bearingsDeg: b, sourcePowers: fit.sourcePowers, noisePower: fit.noisePower, snapshots: rows.rows };
+      const input = {
+        elements,
+        spacingWavelengths,
+        bearingsDeg: b,
+        sourcePowers: fit.sourcePowers,
+        noisePower: fit.noisePower,
+        snapshots: rows.rows,
+      };
       const crb = stochasticCrb(input);
       const std = Array.from(crb.stdDeg);
       out.uncertainty = {
@@ -232,7 +250,9 @@ export function v1Fields(r: MethodResult) {
     bearingsDeg: r.bearingsDeg,
     eigenvalues: r.eigenvalues,
     warnings: r.warnings,
-    ...(r.spectrum ? { spectrum: { startDeg: r.spectrum.startDeg, stepDeg: r.spectrum.stepDeg, valuesDb: r.spectrum.valuesDb } } : {}),
+    ...(r.spectrum
+      ? { spectrum: { startDeg: r.spectrum.startDeg, stepDeg: r.spectrum.stepDeg, valuesDb: r.spectrum.valuesDb } }
+      : {}),
   };
 }
 

@@ -20,7 +20,11 @@ interface QueueState {
   running: boolean;
 }
 
-const state = ((globalThis as Record<string, unknown>).__steerwiseJobs ??= { pending: [], active: new Set(), running: false }) as QueueState;
+const state = ((globalThis as Record<string, unknown>).__steerwiseJobs ??= {
+  pending: [],
+  active: new Set(),
+  running: false,
+}) as QueueState;
 
 /** Adds a job; the promise settles with the job's own outcome. */
 export function enqueue<T>(id: string, fn: () => Promise<T>): Promise<T> {

@@ -18,7 +18,8 @@ export function ensureSmtpSink(port = smtpSinkPort()) {
   if (!state.started) {
     state.started = startSmtpSink({ port, store: storeCapturedMail });
     state.started.then(
-      (s) => console.log(`[steerwise] mail sink listening on 127.0.0.1:${s.port}; read captured mail on the Outbox page`),
+      (s) =>
+        console.log(`[steerwise] mail sink listening on 127.0.0.1:${s.port}; read captured mail on the Outbox page`),
       (err: Error) => {
         console.error(`[steerwise] could not start the mail sink on port ${port}: ${err.message}`);
         state.started = undefined;

@@ -13,7 +13,15 @@ function addresses(value: AddressObject | AddressObject[] | undefined): string {
  * parses it with mailparser and hands it to `store`. Used when no SMTP_HOST is
  * configured (development, demo, tests). Never exposed beyond loopback.
  */
-export async function startSmtpSink({ port, store, host = '127.0.0.1' }: { port: number; store: (mail: CapturedMail) => Promise<void>; host?: string }): Promise<{ port: number; close: () => Promise<void> }> {
+export async function startSmtpSink({
+  port,
+  store,
+  host = '127.0.0.1',
+}: {
+  port: number;
+  store: (mail: CapturedMail) => Promise<void>;
+  host?: string;
+}): Promise<{ port: number; close: () => Promise<void> }> {
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ['STARTTLS', 'AUTH'],

@@ -69,4 +69,3 @@ export function summarise(parsed: Pick<ParsedSnapshots, 'elements' | 'snapshots'
   }
   return { channelPowerDb, eigenvalues, mdl, aic, mdlChoice, aicChoice, covarianceMagnitude, preview };
 }
-

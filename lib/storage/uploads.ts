@@ -62,12 +62,21 @@ const MAX_FIELD_BYTES = 2000;
  * whole body has been read and the file flushed to disk. On any failure the
  * temp file is removed before the promise rejects.
  */
-export async function receiveUpload(req: Request, { maxBytes = maxUploadBytes() }: { maxBytes?: number } = {}): Promise<ReceivedUpload> {
+export async function receiveUpload(
+  req: Request,
+  { maxBytes = maxUploadBytes() }: { maxBytes?: number } = {},
+): Promise<ReceivedUpload> {
   const type = req.headers.get('content-type') ?? '';
   if (!/^multipart\/form-data\b/i.test(type) || !/boundary=/i.test(type)) {
-    throw new ApiError('unsupported_format', `Send the dataset as multipart/form-data with a "file" field (got ${type.split(';')[0] || 'no content type'}).`);
+    throw new ApiError(
+      'unsupported_format',
+      `Send the dataset as multipart/form-data with a "file" field (got ${type.split(';')[0] || 'no content type'}).`,
+    );
   }
-  if (!req.body) throw new ApiError('validation_failed', 'The request has no body: send a "file" field.', { fields: { file: ['a file is required'] } });
+  if (!req.body)
+    throw new ApiError('validation_failed', 'The request has no body: send a "file" field.', {
+      fields: { file: ['a file is required'] },
+    });
   // A declared length far above the limit is refused before reading (the form
   // adds a little overhead around the file, hence the margin).
   const declared = Number(req.headers.get('content-length') ?? NaN);
@@ -97,15 +106,33 @@ export async function receiveUpload(req: Request, { maxBytes = maxUploadBytes() 
   };
 
   bb.on('field', (name, value, info) => {
-    if (info.valueTruncated) fail(new ApiError('validation_failed', `The form field "${name}" is longer than ${MAX_FIELD_BYTES} bytes.`, { fields: { [name]: ['too long'] } }));
+    if (info.valueTruncated)
+      fail(
+        new ApiError('validation_failed', `The form field "${name}" is longer than ${MAX_FIELD_BYTES} bytes.`, {
+          fields: { [name]: ['too long'] },
+        }),
+      );
     fields[name] = value;
   });
   bb.on('fieldsLimit', () => fail(new ApiError('validation_failed', `The form has more than ${MAX_FIELDS} fields.`)));
-  bb.on('filesLimit', () => fail(new ApiError('validation_failed', 'Send one file per upload.', { fields: { file: ['only one file per upload'] } })));
+  bb.on('filesLimit', () =>
+    fail(
+      new ApiError('validation_failed', 'Send one file per upload.', {
+        fields: { file: ['only one file per upload'] },
+      }),
+    ),
+  );
   bb.on('file', (name, stream, info) => {
     if (name !== 'file' || fileWrite) {
       stream.resume();
-      if (name !== 'file') fail(new ApiError('validation_failed', `Unexpected file field "${name}": send the dataset in a field named "file".`, { fields: { file: ['a file is required'] } }));
+      if (name !== 'file')
+        fail(
+          new ApiError(
+            'validation_failed',
+            `Unexpected file field "${name}": send the dataset in a field named "file".`,
+            { fields: { file: ['a file is required'] } },
+          ),
+        );
       return;
     }
     originalName = (info.filename ?? '').trim();
@@ -122,7 +149,12 @@ export async function receiveUpload(req: Request, { maxBytes = maxUploadBytes() 
   try {
     const body = Readable.fromWeb(req.body as import('node:stream/web').ReadableStream<Uint8Array>);
     // A client that goes away aborts the request signal: stop reading at once.
-    const onAbort = () => body.destroy(new Error(`the client closed the connection (${String((req.signal.reason as Error)?.message ?? req.signal.reason ?? 'aborted')})`));
+    const onAbort = () =>
+      body.destroy(
+        new Error(
+          `the client closed the connection (${String((req.signal.reason as Error)?.message ?? req.signal.reason ?? 'aborted')})`,
+        ),
+      );
     if (req.signal.aborted) onAbort();
     else req.signal.addEventListener('abort', onAbort, { once: true });
     try {
@@ -146,7 +178,9 @@ export async function receiveUpload(req: Request, { maxBytes = maxUploadBytes() 
     }
     if (failure) throw failure;
     if (!fileWrite || !tap) {
-      throw new ApiError('validation_failed', 'No file was sent: put the dataset in a form field named "file".', { fields: { file: ['a file is required'] } });
+      throw new ApiError('validation_failed', 'No file was sent: put the dataset in a form field named "file".', {
+        fields: { file: ['a file is required'] },
+      });
     }
     const t = tap as Sha256PassThrough;
     if (!originalName) originalName = 'upload';
@@ -166,7 +200,10 @@ export class UploadAborted extends Error {
 }
 
 function tooLarge(maxBytes: number): ApiError {
-  return new ApiError('too_large', `The file is larger than the upload limit of ${formatBytes(maxBytes)} (${maxBytes} bytes).`);
+  return new ApiError(
+    'too_large',
+    `The file is larger than the upload limit of ${formatBytes(maxBytes)} (${maxBytes} bytes).`,
+  );
 }
 
 export function formatBytes(n: number): string {

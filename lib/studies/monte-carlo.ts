@@ -169,7 +169,15 @@ export class StudyAbortedError extends Error {
 
 /** Estimated floating-point operations a study may use (about a minute on this project's 2-core machine). */
 export const STUDY_COST_BUDGET = 1e11;
-export const STUDY_LIMITS = { maxValues: 24, maxTrials: 5000, maxElements: 128, maxSnapshots: 100000, maxSources: 8, maxSnrDb: 60, minSnrDb: -40 } as const;
+export const STUDY_LIMITS = {
+  maxValues: 24,
+  maxTrials: 5000,
+  maxElements: 128,
+  maxSnapshots: 100000,
+  maxSources: 8,
+  maxSnrDb: 60,
+  minSnrDb: -40,
+} as const;
 /** Outlier-rate ceiling for a point to enter the slope fit. */
 export const SLOPE_MAX_OUTLIER_RATE = 0.01;
 
@@ -185,7 +193,10 @@ export function smoothingSubarrayFor(spec: Pick<StudySpec, 'smoothing'>, element
 }
 
 /** Resolved M, N and per-source SNR (dB) at one sweep value. */
-export function pointScenario(spec: StudySpec, value: number): { elements: number; snapshots: number; snrDb: number[] } {
+export function pointScenario(
+  spec: StudySpec,
+  value: number,
+): { elements: number; snapshots: number; snrDb: number[] } {
   const v = spec.sweep.variable;
   return {
     elements: v === 'elements' ? value : spec.elements,
@@ -237,54 +248,79 @@ function isInt(x: unknown): x is number {
 /** Checks every field (throws StudyInputError naming it), then the budget (throws StudyBudgetError). Returns the cost. */
 export function validateStudySpec(spec: StudySpec): number {
   const L = STUDY_LIMITS;
-  if (!isInt(spec.elements) || spec.elements < 2 || spec.elements > L.maxElements) fail('elements', `elements must be a whole number from 2 to ${L.maxElements}, got ${spec.elements}`);
-  if (!(typeof spec.spacingWavelengths === 'number' && spec.spacingWavelengths > 0 && spec.spacingWavelengths <= 100)) fail('spacingWavelengths', `spacingWavelengths must be a number in (0, 100], got ${spec.spacingWavelengths}`);
+  if (!isInt(spec.elements) || spec.elements < 2 || spec.elements > L.maxElements)
+    fail('elements', `elements must be a whole number from 2 to ${L.maxElements}, got ${spec.elements}`);
+  if (!(typeof spec.spacingWavelengths === 'number' && spec.spacingWavelengths > 0 && spec.spacingWavelengths <= 100))
+    fail('spacingWavelengths', `spacingWavelengths must be a number in (0, 100], got ${spec.spacingWavelengths}`);
   const k = spec.bearingsDeg?.length ?? 0;
   if (k < 1 || k > L.maxSources) fail('bearingsDeg', `give 1 to ${L.maxSources} source bearings, got ${k}`);
   spec.bearingsDeg.forEach((b, i) => {
-    if (!(Number.isFinite(b) && b > -90 && b < 90)) fail('bearingsDeg', `bearing ${i + 1} (${b}) must lie strictly inside −90° … 90°`);
+    if (!(Number.isFinite(b) && b > -90 && b < 90))
+      fail('bearingsDeg', `bearing ${i + 1} (${b}) must lie strictly inside −90° … 90°`);
   });
   const sorted = spec.bearingsDeg.slice().sort((a, b) => a - b);
-  for (let i = 1; i < k; i++) if (sorted[i] === sorted[i - 1]) fail('bearingsDeg', `two sources share the bearing ${sorted[i]}°`);
-  if (!Array.isArray(spec.powersDb) || spec.powersDb.length !== k) fail('powersDb', `give one power (dB) per source: ${k} bearing(s), ${spec.powersDb?.length ?? 0} power(s)`);
+  for (let i = 1; i < k; i++)
+    if (sorted[i] === sorted[i - 1]) fail('bearingsDeg', `two sources share the bearing ${sorted[i]}°`);
+  if (!Array.isArray(spec.powersDb) || spec.powersDb.length !== k)
+    fail('powersDb', `give one power (dB) per source: ${k} bearing(s), ${spec.powersDb?.length ?? 0} power(s)`);
   spec.powersDb.forEach((p, i) => {
-    if (!(Number.isFinite(p) && p >= L.minSnrDb && p <= L.maxSnrDb)) fail('powersDb', `power ${i + 1} (${p} dB) must lie in ${L.minSnrDb} … ${L.maxSnrDb} dB`);
+    if (!(Number.isFinite(p) && p >= L.minSnrDb && p <= L.maxSnrDb))
+      fail('powersDb', `power ${i + 1} (${p} dB) must lie in ${L.minSnrDb} … ${L.maxSnrDb} dB`);
   });
   const rho = spec.correlation ?? 0;
   if (!(Number.isFinite(rho) && rho >= 0 && rho <= 1)) fail('correlation', `correlation must lie in 0 … 1, got ${rho}`);
-  if (!isInt(spec.snapshots) || spec.snapshots < 1 || spec.snapshots > L.maxSnapshots) fail('snapshots', `snapshots must be a whole number from 1 to ${L.maxSnapshots}, got ${spec.snapshots}`);
+  if (!isInt(spec.snapshots) || spec.snapshots < 1 || spec.snapshots > L.maxSnapshots)
+    fail('snapshots', `snapshots must be a whole number from 1 to ${L.maxSnapshots}, got ${spec.snapshots}`);
   const sweep = spec.sweep;
-  if (!sweep || !(SWEEP_VARIABLES as readonly string[]).includes(sweep.variable)) fail('sweep.variable', `sweep.variable must be one of ${SWEEP_VARIABLES.join(', ')}`);
-  if (!Array.isArray(sweep.values) || sweep.values.length < 1 || sweep.values.length > L.maxValues) fail('sweep.values', `give 1 to ${L.maxValues} sweep values, got ${sweep.values?.length ?? 0}`);
+  if (!sweep || !(SWEEP_VARIABLES as readonly string[]).includes(sweep.variable))
+    fail('sweep.variable', `sweep.variable must be one of ${SWEEP_VARIABLES.join(', ')}`);
+  if (!Array.isArray(sweep.values) || sweep.values.length < 1 || sweep.values.length > L.maxValues)
+    fail('sweep.values', `give 1 to ${L.maxValues} sweep values, got ${sweep.values?.length ?? 0}`);
   const seen = new Set<number>();
   for (const v of sweep.values) {
     if (seen.has(v)) fail('sweep.values', `the sweep value ${v} appears twice`);
     seen.add(v);
-    if (sweep.variable === 'snr' && !(Number.isFinite(v) && v >= L.minSnrDb && v <= L.maxSnrDb)) fail('sweep.values', `SNR ${v} dB must lie in ${L.minSnrDb} … ${L.maxSnrDb} dB`);
-    if (sweep.variable === 'snapshots' && !(isInt(v) && v >= 1 && v <= L.maxSnapshots)) fail('sweep.values', `snapshot count ${v} must be a whole number from 1 to ${L.maxSnapshots}`);
-    if (sweep.variable === 'elements' && !(isInt(v) && v >= 2 && v <= L.maxElements)) fail('sweep.values', `element count ${v} must be a whole number from 2 to ${L.maxElements}`);
+    if (sweep.variable === 'snr' && !(Number.isFinite(v) && v >= L.minSnrDb && v <= L.maxSnrDb))
+      fail('sweep.values', `SNR ${v} dB must lie in ${L.minSnrDb} … ${L.maxSnrDb} dB`);
+    if (sweep.variable === 'snapshots' && !(isInt(v) && v >= 1 && v <= L.maxSnapshots))
+      fail('sweep.values', `snapshot count ${v} must be a whole number from 1 to ${L.maxSnapshots}`);
+    if (sweep.variable === 'elements' && !(isInt(v) && v >= 2 && v <= L.maxElements))
+      fail('sweep.values', `element count ${v} must be a whole number from 2 to ${L.maxElements}`);
   }
   if (sweep.variable === 'snr') {
     const offsets = spec.powersDb.map((p) => p - spec.powersDb[0]);
-    for (const v of sweep.values) for (const o of offsets) {
-      if (v + o < L.minSnrDb || v + o > L.maxSnrDb) fail('sweep.values', `at ${v} dB a source would be at ${v + o} dB, outside ${L.minSnrDb} … ${L.maxSnrDb} dB`);
-    }
+    for (const v of sweep.values)
+      for (const o of offsets) {
+        if (v + o < L.minSnrDb || v + o > L.maxSnrDb)
+          fail('sweep.values', `at ${v} dB a source would be at ${v + o} dB, outside ${L.minSnrDb} … ${L.maxSnrDb} dB`);
+      }
   }
   if (!Array.isArray(spec.methods) || spec.methods.length < 1) fail('methods', 'choose at least one method');
-  for (const m of spec.methods) if (!(DOA_METHODS as readonly string[]).includes(m)) fail('methods', `method "${m}" is not one of ${DOA_METHODS.join(', ')}`);
+  for (const m of spec.methods)
+    if (!(DOA_METHODS as readonly string[]).includes(m))
+      fail('methods', `method "${m}" is not one of ${DOA_METHODS.join(', ')}`);
   if (new Set(spec.methods).size !== spec.methods.length) fail('methods', 'a method is listed twice');
-  if (!isInt(spec.trials) || spec.trials < 1 || spec.trials > L.maxTrials) fail('trials', `trials must be a whole number from 1 to ${L.maxTrials}, got ${spec.trials}`);
-  if (!isInt(spec.seed) || spec.seed < 0 || spec.seed > 0xffffffff) fail('seed', `seed must be a whole number from 0 to ${0xffffffff}`);
+  if (!isInt(spec.trials) || spec.trials < 1 || spec.trials > L.maxTrials)
+    fail('trials', `trials must be a whole number from 1 to ${L.maxTrials}, got ${spec.trials}`);
+  if (!isInt(spec.seed) || spec.seed < 0 || spec.seed > 0xffffffff)
+    fail('seed', `seed must be a whole number from 0 to ${0xffffffff}`);
   const s = spec.smoothing ?? 'none';
-  if (s !== 'none' && s !== 'auto' && !isInt(s)) fail('smoothing', `smoothing must be 'none', 'auto' or a subarray size`);
-  if (spec.forwardBackward !== undefined && typeof spec.forwardBackward !== 'boolean') fail('forwardBackward', 'forwardBackward must be true or false');
+  if (s !== 'none' && s !== 'auto' && !isInt(s))
+    fail('smoothing', `smoothing must be 'none', 'auto' or a subarray size`);
+  if (spec.forwardBackward !== undefined && typeof spec.forwardBackward !== 'boolean')
+    fail('forwardBackward', 'forwardBackward must be true or false');
   // Sizes at every point: K < L, L ≤ M.
   for (const v of sweep.values) {
     const p = pointScenario(spec, v);
     const l = smoothingSubarrayFor(spec, p.elements) ?? p.elements;
     const where = sweep.variable === 'elements' ? `at M = ${p.elements}` : `with M = ${p.elements}`;
-    if (l < 2 || l > p.elements) fail('smoothing', `the smoothing subarray ${l} must lie in 2 … ${p.elements} ${where}`);
-    if (k >= l) fail(sweep.variable === 'elements' ? 'sweep.values' : 'bearingsDeg', `${k} source(s) need more than ${k} effective elements; ${where} there are ${l}`);
+    if (l < 2 || l > p.elements)
+      fail('smoothing', `the smoothing subarray ${l} must lie in 2 … ${p.elements} ${where}`);
+    if (k >= l)
+      fail(
+        sweep.variable === 'elements' ? 'sweep.values' : 'bearingsDeg',
+        `${k} source(s) need more than ${k} effective elements; ${where} there are ${l}`,
+      );
   }
   const cost = estimateStudyCost(spec);
   if (cost > STUDY_COST_BUDGET) {
@@ -293,7 +329,8 @@ export function validateStudySpec(spec: StudySpec): number {
     const spectral = spec.methods.filter((m) => SPECTRAL.has(m));
     const hints = [`use at most ${maxTrials} trials per point`, 'fewer sweep values', 'fewer methods'];
     if (spectral.length) hints.push(`drop the grid-search methods (${spectral.join(', ')}), which cost the most`);
-    if (sweep.variable === 'elements' || sweep.variable === 'snapshots') hints.push(`smaller ${sweep.variable === 'elements' ? 'element counts' : 'snapshot counts'}`);
+    if (sweep.variable === 'elements' || sweep.variable === 'snapshots')
+      hints.push(`smaller ${sweep.variable === 'elements' ? 'element counts' : 'snapshot counts'}`);
     else hints.push('fewer snapshots or elements');
     throw new StudyBudgetError(
       cost,
@@ -391,7 +428,16 @@ export async function runStudy(spec: StudySpec, options: RunStudyOptions = {}): 
     const n = sc.snapshots;
     const powers = sc.snrDb.map((db) => 10 ** (db / 10));
     const lSmooth = smoothingSubarrayFor(spec, m);
-    const crb = Array.from(stochasticCrb({ elements: m, spacingWavelengths: d, bearingsDeg: truth, sourcePowers: powers, noisePower: 1, snapshots: n }).stdDeg);
+    const crb = Array.from(
+      stochasticCrb({
+        elements: m,
+        spacingWavelengths: d,
+        bearingsDeg: truth,
+        sourcePowers: powers,
+        noisePower: 1,
+        snapshots: n,
+      }).stdDeg,
+    );
     const crbRms = Math.sqrt(crb.reduce((a, s) => a + s * s, 0) / k);
     const outlierU = 1 / (2 * m * d);
     const acc = spec.methods.map(() => ({
@@ -481,7 +527,16 @@ export async function runStudy(spec: StudySpec, options: RunStudyOptions = {}): 
         rmseOverCrb: rmse / crbRms,
       };
     });
-    points.push({ value, elements: m, snapshots: n, snrDb: sc.snrDb, smoothingSubarray: lSmooth, crbStdDeg: crb, crbRmsDeg: crbRms, methods });
+    points.push({
+      value,
+      elements: m,
+      snapshots: n,
+      snrDb: sc.snrDb,
+      smoothingSubarray: lSmooth,
+      crbStdDeg: crb,
+      crbRmsDeg: crbRms,
+      methods,
+    });
   }
   await options.onProgress?.(1);
 
@@ -497,14 +552,20 @@ export async function runStudy(spec: StudySpec, options: RunStudyOptions = {}): 
     const chosen = upper((p) => p.methods[mi].outlierRate <= SLOPE_MAX_OUTLIER_RATE);
     slopes.push({
       method: spec.methods[mi],
-      slope: logLogSlope(chosen.map(({ p }) => sweepAxisValue(variable, p.value)), chosen.map(({ p }) => p.methods[mi].rmseDeg)),
+      slope: logLogSlope(
+        chosen.map(({ p }) => sweepAxisValue(variable, p.value)),
+        chosen.map(({ p }) => p.methods[mi].rmseDeg),
+      ),
       fittedValues: chosen.map(({ p }) => p.value),
     });
   }
   const all = upper(() => true);
   slopes.push({
     method: 'crb',
-    slope: logLogSlope(all.map(({ p }) => sweepAxisValue(variable, p.value)), all.map(({ p }) => p.crbRmsDeg)),
+    slope: logLogSlope(
+      all.map(({ p }) => sweepAxisValue(variable, p.value)),
+      all.map(({ p }) => p.crbRmsDeg),
+    ),
     fittedValues: all.map(({ p }) => p.value),
   });
   return { variable, points, slopes, trials: spec.trials, seed: spec.seed, cost, elapsedMs: Date.now() - started };

@@ -39,11 +39,22 @@ export function validateArrayInput(raw: unknown): { input: ArrayInput; geometry:
   const geometry = resolveArrayGeometry(input);
   const disagreement = geometry.warnings.find((w) => w.code === 'speed-differs-from-medium');
   if (disagreement) {
-    throw validationError({ propagationSpeedMps: [`${disagreement.message.replace('; the given speed is used', '')}: send either propagationSpeedMps or a medium, or make them agree`] });
+    throw validationError({
+      propagationSpeedMps: [
+        `${disagreement.message.replace('; the given speed is used', '')}: send either propagationSpeedMps or a medium, or make them agree`,
+      ],
+    });
   }
   if (!(geometry.spacingWavelengths <= MAX_SPACING_WAVELENGTHS)) {
-    const at = input.spacing.unit === 'wavelength' ? '' : ` (${input.spacing.value} ${input.spacing.unit} at λ = ${geometry.wavelengthM} m)`;
-    throw validationError({ 'spacing.value': [`spacing.value is ${geometry.spacingWavelengths} wavelengths${at}; at most ${MAX_SPACING_WAVELENGTHS} wavelengths are supported`] });
+    const at =
+      input.spacing.unit === 'wavelength'
+        ? ''
+        : ` (${input.spacing.value} ${input.spacing.unit} at λ = ${geometry.wavelengthM} m)`;
+    throw validationError({
+      'spacing.value': [
+        `spacing.value is ${geometry.spacingWavelengths} wavelengths${at}; at most ${MAX_SPACING_WAVELENGTHS} wavelengths are supported`,
+      ],
+    });
   }
   return { input, geometry };
 }
@@ -77,7 +88,15 @@ export function mergeArrayInput(previous: ArrayInput, patch: Record<string, unkn
   if ('propagationSpeedMps' in patch && !('medium' in patch)) delete merged.medium;
   const states = previous.elementStates;
   const n = patch.elements;
-  if ('elements' in patch && !('elementStates' in patch) && states && typeof n === 'number' && Number.isInteger(n) && n >= 0 && n <= MAX_ELEMENTS) {
+  if (
+    'elements' in patch &&
+    !('elementStates' in patch) &&
+    states &&
+    typeof n === 'number' &&
+    Number.isInteger(n) &&
+    n >= 0 &&
+    n <= MAX_ELEMENTS
+  ) {
     const resized = states.slice(0, n).map((s) => ({ ...s }));
     while (resized.length < n) resized.push({ enabled: true, gainDb: 0, phaseDeg: 0 });
     merged.elementStates = resized;
@@ -87,6 +106,7 @@ export function mergeArrayInput(previous: ArrayInput, patch: Record<string, unkn
 
 /** 422 for a body that is not a JSON object. */
 export function requireObjectBody(body: unknown, what: string): Record<string, unknown> {
-  if (typeof body !== 'object' || body === null || Array.isArray(body)) throw validationError({ _: [`the body must be a JSON object ${what}`] });
+  if (typeof body !== 'object' || body === null || Array.isArray(body))
+    throw validationError({ _: [`the body must be a JSON object ${what}`] });
   return body as Record<string, unknown>;
 }

@@ -20,9 +20,11 @@ export const MIN_ELEMENTS = 2;
 export const MAX_ELEMENTS = 512;
 
 const finite = (field: string) =>
-  z.number({ error: (iss) => (iss.input === undefined ? `${field} is required` : `${field} must be a number`) }).refine(Number.isFinite, {
-    error: `${field} must be a finite number`,
-  });
+  z
+    .number({ error: (iss) => (iss.input === undefined ? `${field} is required` : `${field} must be a number`) })
+    .refine(Number.isFinite, {
+      error: `${field} must be a finite number`,
+    });
 
 const positive = (field: string) => finite(field).refine((v) => v > 0, { error: `${field} must be greater than 0` });
 
@@ -50,7 +52,9 @@ export const mediumSchema = z.discriminatedUnion(
     z.object({ kind: z.literal('air'), temperatureC: temperature('medium.temperatureC') }),
     z.object({
       kind: z.literal('custom'),
-      speedMps: positive('medium.speedMps').refine((v) => v <= 1e9, { error: 'medium.speedMps must be at most 1e9 m/s' }),
+      speedMps: positive('medium.speedMps').refine((v) => v <= 1e9, {
+        error: 'medium.speedMps must be at most 1e9 m/s',
+      }),
     }),
   ],
   { error: 'medium.kind must be radio, sea-water, fresh-water, air or custom' },
@@ -74,14 +78,18 @@ export const taperSchema = z.discriminatedUnion(
 
 export const elementStateSchema = z.object({
   enabled: z.boolean({ error: 'elementStates[].enabled must be true or false' }),
-  gainDb: finite('elementStates[].gainDb').refine((v) => Math.abs(v) <= 60, { error: 'elementStates[].gainDb must lie within ±60 dB' }),
+  gainDb: finite('elementStates[].gainDb').refine((v) => Math.abs(v) <= 60, {
+    error: 'elementStates[].gainDb must lie within ±60 dB',
+  }),
   phaseDeg: finite('elementStates[].phaseDeg').refine((v) => Math.abs(v) <= 360, {
     error: 'elementStates[].phaseDeg must lie within ±360°',
   }),
 });
 
 const bearing = (field: string) =>
-  finite(field).refine((v) => v >= -90 && v <= 90, { error: `${field} must lie between −90° and 90° (from broadside)` });
+  finite(field).refine((v) => v >= -90 && v <= 90, {
+    error: `${field} must lie between −90° and 90° (from broadside)`,
+  });
 
 export const plannedSourceSchema = z.object({
   bearingDeg: bearing('plannedSources[].bearingDeg'),
@@ -104,9 +112,12 @@ export const arrayInputSchema = z
       .number({ error: 'elements must be a whole number' })
       .refine(Number.isFinite, { error: 'elements must be a finite whole number' })
       .refine(Number.isInteger, { error: 'elements must be a whole number' })
-      .refine((v) => v >= MIN_ELEMENTS, { error: `elements must be at least ${MIN_ELEMENTS}: a single element has no aperture` })
+      .refine((v) => v >= MIN_ELEMENTS, {
+        error: `elements must be at least ${MIN_ELEMENTS}: a single element has no aperture`,
+      })
       .refine((v) => v <= MAX_ELEMENTS, {
-        error: (iss) => `elements must be at most ${MAX_ELEMENTS}; ${String(iss.input)} is more than the designer supports`,
+        error: (iss) =>
+          `elements must be at most ${MAX_ELEMENTS}; ${String(iss.input)} is more than the designer supports`,
       }),
     spacing: z.object(
       {
@@ -120,7 +131,9 @@ export const arrayInputSchema = z
     medium: mediumSchema.optional(),
     steerDeg: bearing('steerDeg').optional(),
     scanSectorDeg: finite('scanSectorDeg')
-      .refine((v) => v >= 0 && v <= 90, { error: 'scanSectorDeg (half-width of the scan sector) must lie between 0° and 90°' })
+      .refine((v) => v >= 0 && v <= 90, {
+        error: 'scanSectorDeg (half-width of the scan sector) must lie between 0° and 90°',
+      })
       .optional(),
     taper: taperSchema.optional(),
     elementStates: z.array(elementStateSchema, { error: 'elementStates must be a list' }).optional(),
@@ -162,8 +175,16 @@ export const arrayInputSchema = z
         message: `elementStates has ${v.elementStates.length} entries but elements is ${v.elements}; they must match`,
       });
     }
-    if (v.elementStates !== undefined && v.elementStates.length === v.elements && !v.elementStates.some((e) => e.enabled)) {
-      ctx.addIssue({ code: 'custom', path: ['elementStates'], message: 'elementStates: at least one element must stay enabled' });
+    if (
+      v.elementStates !== undefined &&
+      v.elementStates.length === v.elements &&
+      !v.elementStates.some((e) => e.enabled)
+    ) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['elementStates'],
+        message: 'elementStates: at least one element must stay enabled',
+      });
     }
   });
 
@@ -181,8 +202,20 @@ export function toEngineMedium(medium: MediumInput): Medium {
       return { kind: 'radio' };
     case 'sea-water':
       return medium.equation === 'unesco-1983'
-        ? { kind: 'sea-water', equation: 'unesco', temperatureC: medium.temperatureC, salinityPsu: medium.salinityPpt, depthM: medium.depthM }
-        : { kind: 'sea-water', equation: 'mackenzie', temperatureC: medium.temperatureC, salinityPsu: medium.salinityPpt, depthM: medium.depthM };
+        ? {
+            kind: 'sea-water',
+            equation: 'unesco',
+            temperatureC: medium.temperatureC,
+            salinityPsu: medium.salinityPpt,
+            depthM: medium.depthM,
+          }
+        : {
+            kind: 'sea-water',
+            equation: 'mackenzie',
+            temperatureC: medium.temperatureC,
+            salinityPsu: medium.salinityPpt,
+            depthM: medium.depthM,
+          };
     case 'fresh-water':
       return { kind: 'fresh-water', temperatureC: medium.temperatureC };
     case 'air':
@@ -236,19 +269,26 @@ export function resolveArrayGeometry(input: ArrayInput): ResolvedGeometry {
       speedFormula = undefined;
     }
   }
-  const wavelengthM = input.frequencyHz !== undefined && speedMps !== undefined ? speedMps / input.frequencyHz : undefined;
+  const wavelengthM =
+    input.frequencyHz !== undefined && speedMps !== undefined ? speedMps / input.frequencyHz : undefined;
   let spacingWavelengths: number;
   if (input.spacing.unit === 'wavelength') {
     spacingWavelengths = input.spacing.value;
   } else {
     if (wavelengthM === undefined) {
-      throw new RangeError(`spacing in ${input.spacing.unit} needs frequencyHz and propagationSpeedMps (validate with arrayInputSchema first)`);
+      throw new RangeError(
+        `spacing in ${input.spacing.unit} needs frequencyHz and propagationSpeedMps (validate with arrayInputSchema first)`,
+      );
     }
     const metres = input.spacing.unit === 'm' ? input.spacing.value : input.spacing.value / 1000;
     spacingWavelengths = metres / wavelengthM;
   }
   if (input.frequencyHz === undefined && input.spacing.unit === 'wavelength') {
-    warnings.push({ code: 'no-frequency', field: 'frequencyHz', message: 'no analysis frequency: the spacing is known only in wavelengths' });
+    warnings.push({
+      code: 'no-frequency',
+      field: 'frequencyHz',
+      message: 'no analysis frequency: the spacing is known only in wavelengths',
+    });
   }
   return { spacingWavelengths, wavelengthM, speedMps, speedFormula, warnings };
 }

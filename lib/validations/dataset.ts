@@ -35,7 +35,11 @@ export const datasetUploadFieldsSchema = z.object({
   arrayId: optionalNumber('arrayId', (v) => Number.isInteger(v) && v > 0, 'a positive whole number'),
   datasetPath: optionalText('datasetPath', 400),
   frequencyHz: optionalNumber('frequencyHz', (v) => v > 0, 'a number greater than 0'),
-  fftLength: optionalNumber('fftLength', (v) => Number.isInteger(v) && v >= 2 && v <= 65536 && (v & (v - 1)) === 0, 'a power of two from 2 to 65536'),
+  fftLength: optionalNumber(
+    'fftLength',
+    (v) => Number.isInteger(v) && v >= 2 && v <= 65536 && (v & (v - 1)) === 0,
+    'a power of two from 2 to 65536',
+  ),
   hop: optionalNumber('hop', (v) => Number.isInteger(v) && v >= 1 && v <= 1 << 20, 'a whole number of samples ≥ 1'),
   window: z
     .string()
@@ -44,7 +48,10 @@ export const datasetUploadFieldsSchema = z.object({
     .transform((v, ctx) => {
       if (v === undefined || v === '') return undefined;
       if (v === 'hann' || v === 'hamming' || v === 'rectangular') return v;
-      ctx.addIssue({ code: 'custom', message: `window must be hann, hamming or rectangular (got '${v.slice(0, 40)}')` });
+      ctx.addIssue({
+        code: 'custom',
+        message: `window must be hann, hamming or rectangular (got '${v.slice(0, 40)}')`,
+      });
       return z.NEVER;
     }),
 });
@@ -55,12 +62,24 @@ export type DatasetUploadFields = z.infer<typeof datasetUploadFieldsSchema>;
 export const datasetUploadFormSchema = z.object({
   file: z.string().meta({ format: 'binary', description: 'The snapshot file: .csv .txt .npy .h5 .hdf5 .wav' }),
   name: z.string().max(200).optional(),
-  arrayId: z.int().positive().optional().meta({ description: 'An array of your team; its element count must equal the file’s column count' }),
+  arrayId: z
+    .int()
+    .positive()
+    .optional()
+    .meta({ description: 'An array of your team; its element count must equal the file’s column count' }),
   datasetPath: z.string().optional().meta({ description: 'HDF5: path of the dataset inside the file' }),
   frequencyHz: z.number().positive().optional().meta({ description: 'WAV: analysis frequency (required for WAV)' }),
-  fftLength: z.int().min(2).max(65536).optional().meta({ description: 'WAV: FFT length, a power of two (default 1024)' }),
+  fftLength: z
+    .int()
+    .min(2)
+    .max(65536)
+    .optional()
+    .meta({ description: 'WAV: FFT length, a power of two (default 1024)' }),
   hop: z.int().min(1).optional().meta({ description: 'WAV: hop in samples (default = fftLength)' }),
-  window: z.enum(['hann', 'hamming', 'rectangular']).optional().meta({ description: 'WAV: periodic window (default hann)' }),
+  window: z
+    .enum(['hann', 'hamming', 'rectangular'])
+    .optional()
+    .meta({ description: 'WAV: periodic window (default hann)' }),
 });
 
 export const datasetCreatedSchema = z.object({
@@ -91,5 +110,8 @@ export const datasetSchema = datasetCreatedSchema.extend({
       preview: z.object({ re: z.array(z.array(z.number())), im: z.array(z.array(z.number())) }),
     })
     .nullable()
-    .meta({ description: 'Computed at upload: per-channel power, sample-covariance eigenvalues with the MDL/AIC curves, |R| (M ≤ 128) and the first snapshots' }),
+    .meta({
+      description:
+        'Computed at upload: per-channel power, sample-covariance eigenvalues with the MDL/AIC curves, |R| (M ≤ 128) and the first snapshots',
+    }),
 });

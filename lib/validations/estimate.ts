@@ -19,13 +19,20 @@ const positiveInt = (field: string, min = 1) =>
     .min(min, { error: `${field} must be at least ${min}` });
 
 const matrix = (field: string) =>
-  z.array(z.array(z.number({ error: `${field} entries must be finite numbers` }), { error: `${field} must be a list of rows` }), {
-    error: `${field} must be a list of rows (N snapshots of M elements)`,
-  });
+  z.array(
+    z.array(z.number({ error: `${field} entries must be finite numbers` }), {
+      error: `${field} must be a list of rows`,
+    }),
+    {
+      error: `${field} must be a list of rows (N snapshots of M elements)`,
+    },
+  );
 
 export const inlineArraySchema = z.object(
   {
-    elements: positiveInt('array.elements', 2).max(MAX_INLINE_ELEMENTS, { error: `array.elements must be at most ${MAX_INLINE_ELEMENTS}` }),
+    elements: positiveInt('array.elements', 2).max(MAX_INLINE_ELEMENTS, {
+      error: `array.elements must be at most ${MAX_INLINE_ELEMENTS}`,
+    }),
     spacingWavelengths: z
       .number({ error: 'array.spacingWavelengths must be a number' })
       .positive({ error: 'array.spacingWavelengths must be greater than 0' })
@@ -45,21 +52,38 @@ export const inlineSnapshotsSchema = z
       return;
     }
     if (s.re.length !== s.im.length) {
-      ctx.addIssue({ code: 'custom', path: ['im'], message: `snapshots.im has ${s.im.length} rows but snapshots.re has ${s.re.length}` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['im'],
+        message: `snapshots.im has ${s.im.length} rows but snapshots.re has ${s.re.length}`,
+      });
       return;
     }
     const m = s.re[0].length;
     for (let r = 0; r < s.re.length; r++) {
       if (s.re[r].length !== m) {
-        ctx.addIssue({ code: 'custom', path: ['re'], message: `snapshots.re row ${r + 1} has ${s.re[r].length} values, row 1 has ${m}` });
+        ctx.addIssue({
+          code: 'custom',
+          path: ['re'],
+          message: `snapshots.re row ${r + 1} has ${s.re[r].length} values, row 1 has ${m}`,
+        });
         return;
       }
       if (s.im[r].length !== m) {
-        ctx.addIssue({ code: 'custom', path: ['im'], message: `snapshots.im row ${r + 1} has ${s.im[r].length} values, snapshots.re rows have ${m}` });
+        ctx.addIssue({
+          code: 'custom',
+          path: ['im'],
+          message: `snapshots.im row ${r + 1} has ${s.im[r].length} values, snapshots.re rows have ${m}`,
+        });
         return;
       }
     }
-    if (m < 2) ctx.addIssue({ code: 'custom', path: ['re'], message: `snapshots rows have ${m} value(s); an array needs at least 2 elements` });
+    if (m < 2)
+      ctx.addIssue({
+        code: 'custom',
+        path: ['re'],
+        message: `snapshots rows have ${m} value(s); an array needs at least 2 elements`,
+      });
   });
 
 export const doaMethodSchema = z.enum(DOA_METHODS, { error: `method must be one of ${DOA_METHODS.join(', ')}` });
@@ -80,7 +104,11 @@ export const estimateRequestSchema = z
       .max(DOA_METHODS.length, { error: `methods may name at most ${DOA_METHODS.length} methods` })
       .optional()
       .meta({ description: 'Browser extension: several methods in one run (instead of method)' }),
-    sourceCount: z.number({ error: 'sourceCount must be a whole number' }).int({ error: 'sourceCount must be a whole number' }).min(0, { error: 'sourceCount must be at least 0' }).optional(),
+    sourceCount: z
+      .number({ error: 'sourceCount must be a whole number' })
+      .int({ error: 'sourceCount must be a whole number' })
+      .min(0, { error: 'sourceCount must be at least 0' })
+      .optional(),
     sourceCountRule: z.enum(['mdl', 'aic'], { error: 'sourceCountRule must be "mdl" or "aic"' }).optional(),
     forwardBackward: z.boolean({ error: 'forwardBackward must be true or false' }).optional(),
     smoothingSubarray: positiveInt('smoothingSubarray', 2).optional(),
@@ -96,16 +124,28 @@ export const estimateRequestSchema = z
       ctx.addIssue({ code: 'custom', path: ['arrayId'], message: 'give arrayId or array, not both' });
     }
     if (v.arrayRevision !== undefined && v.arrayId === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['arrayRevision'], message: 'arrayRevision pins a revision of arrayId; give arrayId too' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['arrayRevision'],
+        message: 'arrayRevision pins a revision of arrayId; give arrayId too',
+      });
     }
     if ((v.method === undefined) === (v.methods === undefined)) {
-      ctx.addIssue({ code: 'custom', path: ['method'], message: v.method === undefined ? 'method is required' : 'give method or methods, not both' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['method'],
+        message: v.method === undefined ? 'method is required' : 'give method or methods, not both',
+      });
     }
     if (v.methods && new Set(v.methods).size !== v.methods.length) {
       ctx.addIssue({ code: 'custom', path: ['methods'], message: 'methods lists a method twice' });
     }
     if (v.singleSnapshotSubarray !== undefined && !v.singleSnapshot) {
-      ctx.addIssue({ code: 'custom', path: ['singleSnapshotSubarray'], message: 'singleSnapshotSubarray is only used with singleSnapshot: true' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['singleSnapshotSubarray'],
+        message: 'singleSnapshotSubarray is only used with singleSnapshot: true',
+      });
     }
   });
 
@@ -124,28 +164,51 @@ export const estimateAnswerSchema = z.object({
   spectrum: z.object({ startDeg: z.number(), stepDeg: z.number(), valuesDb: z.array(z.number()) }).optional(),
 });
 
-export const estimateRunSchema = estimateAnswerSchema.partial({ method: true, sourceCount: true, sourceCountRule: true, bearingsDeg: true, eigenvalues: true, warnings: true }).extend({
-  status: z.enum(['queued', 'running', 'done', 'failed']),
-  progress: z.number(),
-  error: z.string().nullable(),
-  inputs: z.record(z.string(), z.unknown()),
-  softwareVersion: z.string(),
-  datasetSha256: z.string().nullable(),
-  arrayRevisionId: z.int().nullable(),
-  results: z.array(z.record(z.string(), z.unknown())).meta({ description: 'One entry per method, with CRB uncertainty and pair resolvability' }),
-});
+export const estimateRunSchema = estimateAnswerSchema
+  .partial({
+    method: true,
+    sourceCount: true,
+    sourceCountRule: true,
+    bearingsDeg: true,
+    eigenvalues: true,
+    warnings: true,
+  })
+  .extend({
+    status: z.enum(['queued', 'running', 'done', 'failed']),
+    progress: z.number(),
+    error: z.string().nullable(),
+    inputs: z.record(z.string(), z.unknown()),
+    softwareVersion: z.string(),
+    datasetSha256: z.string().nullable(),
+    arrayRevisionId: z.int().nullable(),
+    results: z
+      .array(z.record(z.string(), z.unknown()))
+      .meta({ description: 'One entry per method, with CRB uncertainty and pair resolvability' }),
+  });
 
-export const boundsRequestSchema = z.object({
-  array: inlineArraySchema,
-  bearingsDeg: z.array(z.number({ error: 'bearingsDeg entries must be numbers' }), { error: 'bearingsDeg must be a list of degrees' }).min(1, { error: 'bearingsDeg must hold at least one bearing' }),
-  sourcePowers: z.array(z.number({ error: 'sourcePowers entries must be numbers' }), { error: 'sourcePowers must be a list' }),
-  noisePower: z.number({ error: 'noisePower must be a number' }),
-  snapshots: positiveInt('snapshots'),
-}).superRefine((v, ctx) => {
-  if (v.sourcePowers.length !== v.bearingsDeg.length) {
-    ctx.addIssue({ code: 'custom', path: ['sourcePowers'], message: `sourcePowers has ${v.sourcePowers.length} entries but bearingsDeg has ${v.bearingsDeg.length}` });
-  }
-});
+export const boundsRequestSchema = z
+  .object({
+    array: inlineArraySchema,
+    bearingsDeg: z
+      .array(z.number({ error: 'bearingsDeg entries must be numbers' }), {
+        error: 'bearingsDeg must be a list of degrees',
+      })
+      .min(1, { error: 'bearingsDeg must hold at least one bearing' }),
+    sourcePowers: z.array(z.number({ error: 'sourcePowers entries must be numbers' }), {
+      error: 'sourcePowers must be a list',
+    }),
+    noisePower: z.number({ error: 'noisePower must be a number' }),
+    snapshots: positiveInt('snapshots'),
+  })
+  .superRefine((v, ctx) => {
+    if (v.sourcePowers.length !== v.bearingsDeg.length) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['sourcePowers'],
+        message: `sourcePowers has ${v.sourcePowers.length} entries but bearingsDeg has ${v.bearingsDeg.length}`,
+      });
+    }
+  });
 
 export const boundsAnswerSchema = z.object({
   crbStdDeg: z.array(z.number()),

@@ -19,7 +19,12 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     name: { type: DataTypes.STRING(120), allowNull: false },
     passwordHash: { type: DataTypes.STRING(100), allowNull: false },
     role: { type: DataTypes.STRING(16), allowNull: false },
-    teamId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'teams', key: 'id' }, onDelete: 'CASCADE' },
+    teamId: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: 'teams', key: 'id' },
+      onDelete: 'CASCADE',
+    },
     createdAt: ts,
     updatedAt: ts,
   });
@@ -27,7 +32,12 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 
   await qi.createTable('api_tokens', {
     id,
-    userId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'users', key: 'id' }, onDelete: 'CASCADE' },
+    userId: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: 'users', key: 'id' },
+      onDelete: 'CASCADE',
+    },
     name: { type: DataTypes.STRING(80), allowNull: false },
     tokenHash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
     prefix: { type: DataTypes.STRING(16), allowNull: false },
@@ -42,9 +52,19 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     purpose: { type: DataTypes.STRING(16), allowNull: false },
     email: { type: DataTypes.STRING(254), allowNull: false },
     tokenHash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
-    teamId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'teams', key: 'id' }, onDelete: 'CASCADE' },
+    teamId: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: 'teams', key: 'id' },
+      onDelete: 'CASCADE',
+    },
     role: { type: DataTypes.STRING(16), allowNull: true },
-    createdById: { type: DataTypes.INTEGER, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+    createdById: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: 'users', key: 'id' },
+      onDelete: 'SET NULL',
+    },
     expiresAt: { type: DataTypes.DATE, allowNull: false },
     usedAt: { type: DataTypes.DATE, allowNull: true },
     revokedAt: { type: DataTypes.DATE, allowNull: true },
@@ -54,8 +74,18 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 
   await qi.createTable('audit_events', {
     id,
-    teamId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'teams', key: 'id' }, onDelete: 'CASCADE' },
-    userId: { type: DataTypes.INTEGER, allowNull: true, references: { model: 'users', key: 'id' }, onDelete: 'SET NULL' },
+    teamId: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: 'teams', key: 'id' },
+      onDelete: 'CASCADE',
+    },
+    userId: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: 'users', key: 'id' },
+      onDelete: 'SET NULL',
+    },
     action: { type: DataTypes.STRING(64), allowNull: false },
     target: { type: DataTypes.STRING(200), allowNull: true },
     detail: { type: DataTypes.JSON, allowNull: true },
@@ -81,7 +111,15 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 }
 
 export async function down({ context: qi }: { context: QueryInterface }): Promise<void> {
-  for (const table of ['rate_limits', 'outbox_messages', 'audit_events', 'auth_links', 'api_tokens', 'users', 'teams']) {
+  for (const table of [
+    'rate_limits',
+    'outbox_messages',
+    'audit_events',
+    'auth_links',
+    'api_tokens',
+    'users',
+    'teams',
+  ]) {
     await qi.dropTable(table);
   }
 }

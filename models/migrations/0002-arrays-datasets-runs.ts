@@ -7,7 +7,12 @@ import { DataTypes, type QueryInterface } from 'sequelize';
 export async function up({ context: qi }: { context: QueryInterface }): Promise<void> {
   const id = { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true, allowNull: false };
   const ts = { type: DataTypes.DATE, allowNull: false };
-  const team = { type: DataTypes.INTEGER, allowNull: false, references: { model: 'teams', key: 'id' }, onDelete: 'CASCADE' };
+  const team = {
+    type: DataTypes.INTEGER,
+    allowNull: false,
+    references: { model: 'teams', key: 'id' },
+    onDelete: 'CASCADE',
+  };
   const user = (allowNull: boolean) => ({
     type: DataTypes.INTEGER,
     allowNull,
@@ -28,7 +33,12 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
 
   await qi.createTable('array_revisions', {
     id,
-    arrayId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'arrays', key: 'id' }, onDelete: 'CASCADE' },
+    arrayId: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: 'arrays', key: 'id' },
+      onDelete: 'CASCADE',
+    },
     revision: { type: DataTypes.INTEGER, allowNull: false },
     authorId: user(true),
     config: { type: DataTypes.JSON, allowNull: false },
@@ -51,7 +61,12 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     bytes: { type: DataTypes.BIGINT, allowNull: false },
     originalName: { type: DataTypes.STRING(255), allowNull: false },
     storagePath: { type: DataTypes.STRING(400), allowNull: false },
-    arrayId: { type: DataTypes.INTEGER, allowNull: true, references: { model: 'arrays', key: 'id' }, onDelete: 'SET NULL' },
+    arrayId: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: 'arrays', key: 'id' },
+      onDelete: 'SET NULL',
+    },
     options: { type: DataTypes.JSON, allowNull: true },
     details: { type: DataTypes.JSON, allowNull: true },
     uploadedById: user(true),
@@ -64,9 +79,19 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     teamId: team,
     status: { type: DataTypes.STRING(12), allowNull: false },
     progress: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
-    datasetId: { type: DataTypes.INTEGER, allowNull: true, references: { model: 'datasets', key: 'id' }, onDelete: 'SET NULL' },
+    datasetId: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: 'datasets', key: 'id' },
+      onDelete: 'SET NULL',
+    },
     datasetSha256: { type: DataTypes.STRING(64), allowNull: true },
-    arrayRevisionId: { type: DataTypes.INTEGER, allowNull: true, references: { model: 'array_revisions', key: 'id' }, onDelete: 'SET NULL' },
+    arrayRevisionId: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: 'array_revisions', key: 'id' },
+      onDelete: 'SET NULL',
+    },
     inputs: { type: DataTypes.JSON, allowNull: false },
     result: { type: DataTypes.JSON, allowNull: true },
     error: { type: DataTypes.TEXT, allowNull: true },
@@ -80,8 +105,18 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.createTable('reviews', {
     id,
     teamId: team,
-    arrayRevisionId: { type: DataTypes.INTEGER, allowNull: true, references: { model: 'array_revisions', key: 'id' }, onDelete: 'CASCADE' },
-    estimateRunId: { type: DataTypes.INTEGER, allowNull: true, references: { model: 'estimate_runs', key: 'id' }, onDelete: 'CASCADE' },
+    arrayRevisionId: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: 'array_revisions', key: 'id' },
+      onDelete: 'CASCADE',
+    },
+    estimateRunId: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: 'estimate_runs', key: 'id' },
+      onDelete: 'CASCADE',
+    },
     authorId: user(true),
     kind: { type: DataTypes.STRING(16), allowNull: false },
     body: { type: DataTypes.TEXT, allowNull: false },
@@ -93,7 +128,12 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.createTable('handoffs', {
     id,
     teamId: team,
-    arrayId: { type: DataTypes.INTEGER, allowNull: false, references: { model: 'arrays', key: 'id' }, onDelete: 'CASCADE' },
+    arrayId: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: 'arrays', key: 'id' },
+      onDelete: 'CASCADE',
+    },
     arrayRevision: { type: DataTypes.INTEGER, allowNull: false },
     options: { type: DataTypes.JSON, allowNull: false },
     recipientEmail: { type: DataTypes.STRING(254), allowNull: false },

@@ -19,28 +19,48 @@ async function create(body: unknown, who: Who = 'engineer') {
   return arrays.POST(req('POST', '/api/v1/arrays', { body, headers: await browserHeaders(who) }), params({}));
 }
 async function get(id: number | string, who: Who = 'viewer') {
-  return arrayById.GET(req('GET', `/api/v1/arrays/${id}`, { headers: await browserHeaders(who) }), params({ id: String(id) }));
+  return arrayById.GET(
+    req('GET', `/api/v1/arrays/${id}`, { headers: await browserHeaders(who) }),
+    params({ id: String(id) }),
+  );
 }
 async function patch(id: number | string, body: unknown, who: Who = 'engineer') {
-  return arrayById.PATCH(req('PATCH', `/api/v1/arrays/${id}`, { body, headers: await browserHeaders(who) }), params({ id: String(id) }));
+  return arrayById.PATCH(
+    req('PATCH', `/api/v1/arrays/${id}`, { body, headers: await browserHeaders(who) }),
+    params({ id: String(id) }),
+  );
 }
 async function counts() {
   return { arrays: await ArrayDesign.count(), revisions: await ArrayRevision.count(), audit: await AuditEvent.count() };
 }
 
-const close = (got: number, want: number, tol: number) => expect(Math.abs(got - want), `${got} vs ${want}`).toBeLessThanOrEqual(tol);
+const close = (got: number, want: number, tol: number) =>
+  expect(Math.abs(got - want), `${got} vs ${want}`).toBeLessThanOrEqual(tol);
 
 describe('create and read, with metrics', () => {
   it('POST answers 201 with the array as GET gives it, and the metrics equal lib/doa and the published values', async () => {
     const res = await create(tenElements);
     expect(res.status).toBe(201);
     const created = await json(res);
-    expect(Object.keys(created).slice(0, 6)).toEqual(['id', 'name', 'revision', 'elements', 'spacingWavelengths', 'metrics']);
+    expect(Object.keys(created).slice(0, 6)).toEqual([
+      'id',
+      'name',
+      'revision',
+      'elements',
+      'spacingWavelengths',
+      'metrics',
+    ]);
     expect(created).toMatchObject({ name: tenElements.name, revision: 1, elements: 10, spacingWavelengths: 0.5 });
     // Neither a frequency nor a speed (nor a medium) was given, so neither is reported.
     expect(created).not.toHaveProperty('frequencyHz');
     expect(created).not.toHaveProperty('propagationSpeedMps');
-    expect(Object.keys(created.metrics).sort()).toEqual(['apertureWavelengths', 'gratingLobeFreeScanDeg', 'halfPowerBeamwidthDeg', 'peakSidelobeDb', 'rayleighGapDeg']);
+    expect(Object.keys(created.metrics).sort()).toEqual([
+      'apertureWavelengths',
+      'gratingLobeFreeScanDeg',
+      'halfPowerBeamwidthDeg',
+      'peakSidelobeDb',
+      'rayleighGapDeg',
+    ]);
     expect(created.metrics).toEqual(arrayMetrics(10, 0.5));
 
     // docs/references.md §3 [computed from the closed-form array factor, numpy]: M = 10, d = λ/2 at broadside:
@@ -58,7 +78,9 @@ describe('create and read, with metrics', () => {
   });
 
   it('M = 16 at λ/2 gives the published HPBW 6.3587°, Rayleigh 7.181° and sidelobe −13.147 dB (docs/references.md §3)', async () => {
-    const body = await json(await create({ name: 'Sixteen', elements: 16, spacing: { value: 0.5, unit: 'wavelength' } }));
+    const body = await json(
+      await create({ name: 'Sixteen', elements: 16, spacing: { value: 0.5, unit: 'wavelength' } }),
+    );
     close(body.metrics.halfPowerBeamwidthDeg, 6.3587, 5e-5);
     close(body.metrics.rayleighGapDeg, 7.181, 5e-4);
     close(body.metrics.peakSidelobeDb, -13.147, 5e-4);
@@ -66,7 +88,13 @@ describe('create and read, with metrics', () => {
 
   it('spacing in millimetres at 10 GHz in radio resolves to wavelengths with c = 299 792 458 m/s', async () => {
     // docs/references.md §1: λ at 10 GHz = 0.0299792 m, so λ/2 = 14.990 mm; 14.9896229 mm is exactly λ/2.
-    const res = await create({ name: 'X-band row', elements: 8, spacing: { value: 14.9896229, unit: 'mm' }, frequencyHz: 10e9, propagationSpeedMps: 299_792_458 });
+    const res = await create({
+      name: 'X-band row',
+      elements: 8,
+      spacing: { value: 14.9896229, unit: 'mm' },
+      frequencyHz: 10e9,
+      propagationSpeedMps: 299_792_458,
+    });
     expect(res.status).toBe(201);
     const body = await json(res);
     expect(body.frequencyHz).toBe(10e9);
@@ -80,11 +108,20 @@ describe('create and read, with metrics', () => {
   it('a sea-water medium stands in for the speed; the revision stores the resolved speed (Mackenzie 1981 check value)', async () => {
     // docs/references.md §2: Mackenzie (1981) at T = 25 °C, S = 35 ppt, D = 1000 m gives 1550.744 m/s (published check value).
     const medium = { kind: 'sea-water', temperatureC: 25, salinityPpt: 35, depthM: 1000, equation: 'mackenzie-1981' };
-    const res = await create({ name: 'Deep line', elements: 12, spacing: { value: 0.25, unit: 'm' }, frequencyHz: 3000, medium });
+    const res = await create({
+      name: 'Deep line',
+      elements: 12,
+      spacing: { value: 0.25, unit: 'm' },
+      frequencyHz: 3000,
+      medium,
+    });
     expect(res.status).toBe(201);
     const body = await json(res);
     close(body.propagationSpeedMps, 1550.744, 5e-4);
-    expect(body.propagationSpeedMps).toBe(propagationSpeed({ kind: 'sea-water', equation: 'mackenzie', temperatureC: 25, salinityPsu: 35, depthM: 1000 }).speedMps);
+    expect(body.propagationSpeedMps).toBe(
+      propagationSpeed({ kind: 'sea-water', equation: 'mackenzie', temperatureC: 25, salinityPsu: 35, depthM: 1000 })
+        .speedMps,
+    );
     close(body.spacingWavelengths, (0.25 * 3000) / body.propagationSpeedMps, 1e-12);
     expect(body.metrics).toEqual(arrayMetrics(12, body.spacingWavelengths));
     const row = await ArrayRevision.findOne({ where: { arrayId: body.id, revision: 1 } });
@@ -101,7 +138,10 @@ describe('create and read, with metrics', () => {
   });
 
   it('GET /api/v1/arrays lists the team’s arrays at their latest revision in {"items": […]}', async () => {
-    const res = await arrays.GET(req('GET', '/api/v1/arrays', { headers: await browserHeaders('reviewer') }), params({}));
+    const res = await arrays.GET(
+      req('GET', '/api/v1/arrays', { headers: await browserHeaders('reviewer') }),
+      params({}),
+    );
     expect(res.status).toBe(200);
     const body = await json(res);
     expect(Array.isArray(body.items)).toBe(true);
@@ -109,20 +149,40 @@ describe('create and read, with metrics', () => {
     expect(names).toContain(tenElements.name);
     // The seeded demo arrays are there too, at their latest revision.
     const portAlder = body.items.find((a: { name: string }) => a.name === 'Port Alder hydrophone line');
-    expect(portAlder).toMatchObject({ revision: 3, latestRevision: 3, elements: 16, author: { name: 'Tobin Hartree' } });
+    expect(portAlder).toMatchObject({
+      revision: 3,
+      latestRevision: 3,
+      elements: 16,
+      author: { name: 'Tobin Hartree' },
+    });
     for (const item of body.items) expect(item.metrics).toEqual(arrayMetrics(item.elements, item.spacingWavelengths));
   });
 });
 
 describe('PATCH makes a new immutable revision', () => {
   it('merges a partial change with the latest config, answers revision + 1, and leaves old revisions as they were', async () => {
-    const created = await json(await create({ ...tenElements, name: 'Revised line', frequencyHz: 1000, medium: { kind: 'custom', speedMps: 1500 } }));
+    const created = await json(
+      await create({
+        ...tenElements,
+        name: 'Revised line',
+        frequencyHz: 1000,
+        medium: { kind: 'custom', speedMps: 1500 },
+      }),
+    );
     const r1Row = (await ArrayRevision.findOne({ where: { arrayId: created.id, revision: 1 } }))!.toJSON();
 
     const res = await patch(created.id, { elements: 12 });
     expect(res.status).toBe(200);
     const r2 = await json(res);
-    expect(r2).toMatchObject({ id: created.id, revision: 2, latestRevision: 2, elements: 12, spacingWavelengths: 0.5, frequencyHz: 1000, propagationSpeedMps: 1500 });
+    expect(r2).toMatchObject({
+      id: created.id,
+      revision: 2,
+      latestRevision: 2,
+      elements: 12,
+      spacingWavelengths: 0.5,
+      frequencyHz: 1000,
+      propagationSpeedMps: 1500,
+    });
     expect(r2.metrics).toEqual(arrayMetrics(12, 0.5));
     expect(r2.config.medium).toEqual({ kind: 'custom', speedMps: 1500 });
 
@@ -133,8 +193,19 @@ describe('PATCH makes a new immutable revision', () => {
 
     // Revision 1 is untouched, row for row, and still readable as it was.
     expect((await ArrayRevision.findOne({ where: { arrayId: created.id, revision: 1 } }))!.toJSON()).toEqual(r1Row);
-    const old = await json(await revisionById.GET(req('GET', `/api/v1/arrays/${created.id}/revisions/1`, { headers: await browserHeaders('viewer') }), params({ id: String(created.id), rev: '1' })));
-    expect(old).toMatchObject({ revision: 1, latestRevision: 3, elements: 10, spacingWavelengths: 0.5, name: 'Revised line' });
+    const old = await json(
+      await revisionById.GET(
+        req('GET', `/api/v1/arrays/${created.id}/revisions/1`, { headers: await browserHeaders('viewer') }),
+        params({ id: String(created.id), rev: '1' }),
+      ),
+    );
+    expect(old).toMatchObject({
+      revision: 1,
+      latestRevision: 3,
+      elements: 10,
+      spacingWavelengths: 0.5,
+      name: 'Revised line',
+    });
     expect(old.metrics).toEqual(arrayMetrics(10, 0.5));
 
     const latest = await json(await get(created.id));
@@ -147,9 +218,21 @@ describe('PATCH makes a new immutable revision', () => {
 
   it('a new element count resizes the per-element states; null removes an optional field', async () => {
     const states = Array.from({ length: 4 }, (_, m) => ({ enabled: m !== 2, gainDb: m, phaseDeg: 0 }));
-    const created = await json(await create({ name: 'States', elements: 4, spacing: { value: 0.5, unit: 'wavelength' }, elementStates: states, frequencyHz: 5000 }));
+    const created = await json(
+      await create({
+        name: 'States',
+        elements: 4,
+        spacing: { value: 0.5, unit: 'wavelength' },
+        elementStates: states,
+        frequencyHz: 5000,
+      }),
+    );
     const grown = await json(await patch(created.id, { elements: 6 }));
-    expect(grown.config.elementStates).toEqual([...states, { enabled: true, gainDb: 0, phaseDeg: 0 }, { enabled: true, gainDb: 0, phaseDeg: 0 }]);
+    expect(grown.config.elementStates).toEqual([
+      ...states,
+      { enabled: true, gainDb: 0, phaseDeg: 0 },
+      { enabled: true, gainDb: 0, phaseDeg: 0 },
+    ]);
     const cleared = await json(await patch(created.id, { frequencyHz: null }));
     expect(cleared.revision).toBe(3);
     expect(cleared).not.toHaveProperty('frequencyHz');
@@ -169,17 +252,86 @@ describe('PATCH makes a new immutable revision', () => {
 
 describe('bad input is refused with 422 naming the field', () => {
   const cases: { what: string; body: unknown; field: string; message: RegExp }[] = [
-    { what: 'negative spacing', body: { name: 'x', elements: 8, spacing: { value: -0.5, unit: 'wavelength' } }, field: 'spacing.value', message: /spacing\.value must be greater than 0/ },
-    { what: 'one element', body: { name: 'x', elements: 1, spacing: { value: 0.5, unit: 'wavelength' } }, field: 'elements', message: /at least 2/ },
-    { what: 'metres without a frequency', body: { name: 'x', elements: 8, spacing: { value: 0.25, unit: 'm' }, propagationSpeedMps: 1500 }, field: 'frequencyHz', message: /frequencyHz is required when the spacing is given in metres/ },
-    { what: 'metres without a speed', body: { name: 'x', elements: 8, spacing: { value: 0.25, unit: 'm' }, frequencyHz: 3000 }, field: 'propagationSpeedMps', message: /propagationSpeedMps \(or a medium\) is required/ },
-    { what: 'a huge element count', body: { name: 'x', elements: 1_000_000, spacing: { value: 0.5, unit: 'wavelength' } }, field: 'elements', message: /at most 512/ },
-    { what: 'a fractional element count', body: { name: 'x', elements: 7.5, spacing: { value: 0.5, unit: 'wavelength' } }, field: 'elements', message: /whole number/ },
-    { what: 'a missing name', body: { elements: 8, spacing: { value: 0.5, unit: 'wavelength' } }, field: 'name', message: /name is required/ },
-    { what: 'an unknown spacing unit', body: { name: 'x', elements: 8, spacing: { value: 0.5, unit: 'furlong' } }, field: 'spacing.unit', message: /wavelength, m or mm/ },
-    { what: 'a spacing of a million wavelengths', body: { name: 'x', elements: 8, spacing: { value: 1e6, unit: 'wavelength' } }, field: 'spacing.value', message: /at most 1000 wavelengths/ },
-    { what: 'a speed that disagrees with the medium', body: { name: 'x', elements: 8, spacing: { value: 0.5, unit: 'wavelength' }, medium: { kind: 'air', temperatureC: 20 }, propagationSpeedMps: 1500 }, field: 'propagationSpeedMps', message: /differs from the medium/ },
-    { what: 'a bad per-element gain', body: { name: 'x', elements: 2, spacing: { value: 0.5, unit: 'wavelength' }, elementStates: [{ enabled: true, gainDb: 0, phaseDeg: 0 }, { enabled: true, gainDb: 99, phaseDeg: 0 }] }, field: 'elementStates.1.gainDb', message: /±60 dB/ },
+    {
+      what: 'negative spacing',
+      body: { name: 'x', elements: 8, spacing: { value: -0.5, unit: 'wavelength' } },
+      field: 'spacing.value',
+      message: /spacing\.value must be greater than 0/,
+    },
+    {
+      what: 'one element',
+      body: { name: 'x', elements: 1, spacing: { value: 0.5, unit: 'wavelength' } },
+      field: 'elements',
+      message: /at least 2/,
+    },
+    {
+      what: 'metres without a frequency',
+      body: { name: 'x', elements: 8, spacing: { value: 0.25, unit: 'm' }, propagationSpeedMps: 1500 },
+      field: 'frequencyHz',
+      message: /frequencyHz is required when the spacing is given in metres/,
+    },
+    {
+      what: 'metres without a speed',
+      body: { name: 'x', elements: 8, spacing: { value: 0.25, unit: 'm' }, frequencyHz: 3000 },
+      field: 'propagationSpeedMps',
+      message: /propagationSpeedMps \(or a medium\) is required/,
+    },
+    {
+      what: 'a huge element count',
+      body: { name: 'x', elements: 1_000_000, spacing: { value: 0.5, unit: 'wavelength' } },
+      field: 'elements',
+      message: /at most 512/,
+    },
+    {
+      what: 'a fractional element count',
+      body: { name: 'x', elements: 7.5, spacing: { value: 0.5, unit: 'wavelength' } },
+      field: 'elements',
+      message: /whole number/,
+    },
+    {
+      what: 'a missing name',
+      body: { elements: 8, spacing: { value: 0.5, unit: 'wavelength' } },
+      field: 'name',
+      message: /name is required/,
+    },
+    {
+      what: 'an unknown spacing unit',
+      body: { name: 'x', elements: 8, spacing: { value: 0.5, unit: 'furlong' } },
+      field: 'spacing.unit',
+      message: /wavelength, m or mm/,
+    },
+    {
+      what: 'a spacing of a million wavelengths',
+      body: { name: 'x', elements: 8, spacing: { value: 1e6, unit: 'wavelength' } },
+      field: 'spacing.value',
+      message: /at most 1000 wavelengths/,
+    },
+    {
+      what: 'a speed that disagrees with the medium',
+      body: {
+        name: 'x',
+        elements: 8,
+        spacing: { value: 0.5, unit: 'wavelength' },
+        medium: { kind: 'air', temperatureC: 20 },
+        propagationSpeedMps: 1500,
+      },
+      field: 'propagationSpeedMps',
+      message: /differs from the medium/,
+    },
+    {
+      what: 'a bad per-element gain',
+      body: {
+        name: 'x',
+        elements: 2,
+        spacing: { value: 0.5, unit: 'wavelength' },
+        elementStates: [
+          { enabled: true, gainDb: 0, phaseDeg: 0 },
+          { enabled: true, gainDb: 99, phaseDeg: 0 },
+        ],
+      },
+      field: 'elementStates.1.gainDb',
+      message: /±60 dB/,
+    },
     { what: 'a list instead of an object', body: [1, 2], field: '_', message: /JSON object/ },
   ];
   for (const c of cases) {
@@ -199,14 +351,20 @@ describe('bad input is refused with 422 naming the field', () => {
     const headers = await browserHeaders('engineer');
     const bad = await arrays.POST(req('POST', '/api/v1/arrays', { body: '{"name": ', headers }), params({}));
     expect(bad.status).toBe(400);
-    const text = await arrays.POST(req('POST', '/api/v1/arrays', { body: 'name=x', headers: { ...headers, 'content-type': 'text/plain' } }), params({}));
+    const text = await arrays.POST(
+      req('POST', '/api/v1/arrays', { body: 'name=x', headers: { ...headers, 'content-type': 'text/plain' } }),
+      params({}),
+    );
     expect(text.status).toBe(415);
   });
 
   it('a non-numeric or unknown id is 404', async () => {
     expect((await get('abc')).status).toBe(404);
     expect((await get(999_999)).status).toBe(404);
-    const res = await revisionById.GET(req('GET', '/api/v1/arrays/1/revisions/99', { headers: await browserHeaders('viewer') }), params({ id: String((await ArrayDesign.findOne())!.id), rev: '99' }));
+    const res = await revisionById.GET(
+      req('GET', '/api/v1/arrays/1/revisions/99', { headers: await browserHeaders('viewer') }),
+      params({ id: String((await ArrayDesign.findOne())!.id), rev: '99' }),
+    );
     expect(res.status).toBe(404);
   });
 });
@@ -250,7 +408,9 @@ describe('role matrix', () => {
       expect(created.status).toBe(want.create);
       if (want.create === 201) {
         const row = await ArrayDesign.findByPk((await json(created)).id);
-        expect(row!.teamId).toBe(who === 'anonymous' ? undefined : (await userOf(who as Exclude<Who, 'anonymous'>)).teamId);
+        expect(row!.teamId).toBe(
+          who === 'anonymous' ? undefined : (await userOf(who as Exclude<Who, 'anonymous'>)).teamId,
+        );
       } else {
         expect(await ArrayDesign.count()).toBe(before.arrays);
       }
@@ -260,7 +420,10 @@ describe('role matrix', () => {
 
   it('an old revision of another team’s array is not found either', async () => {
     const ours = await json(await create({ ...tenElements, name: 'Private line' }));
-    const res = await revisionById.GET(req('GET', `/api/v1/arrays/${ours.id}/revisions/1`, { headers: await browserHeaders('otherAdmin') }), params({ id: String(ours.id), rev: '1' }));
+    const res = await revisionById.GET(
+      req('GET', `/api/v1/arrays/${ours.id}/revisions/1`, { headers: await browserHeaders('otherAdmin') }),
+      params({ id: String(ours.id), rev: '1' }),
+    );
     expect(res.status).toBe(404);
   });
 });
@@ -269,23 +432,55 @@ describe('bearer tokens', () => {
   it('a token acts with its user’s role in its team, needs no CSRF proof, and a revoked one is refused', async () => {
     const engineer = await userOf('engineer');
     const secret = randomSecret('sw_', 24);
-    const token = await ApiToken.create({ userId: engineer.id, name: 'arrays script', tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9) });
+    const token = await ApiToken.create({
+      userId: engineer.id,
+      name: 'arrays script',
+      tokenHash: sha256Hex(secret),
+      prefix: secret.slice(0, 9),
+    });
     const auth = { authorization: `Bearer ${secret}` };
-    const res = await arrays.POST(req('POST', '/api/v1/arrays', { body: { ...tenElements, name: 'From a script' }, headers: auth }), params({}));
+    const res = await arrays.POST(
+      req('POST', '/api/v1/arrays', { body: { ...tenElements, name: 'From a script' }, headers: auth }),
+      params({}),
+    );
     expect(res.status).toBe(201);
     const created = await json(res);
     expect(created.author).toEqual({ id: engineer.id, name: 'Tobin Hartree' });
-    const patched = await arrayById.PATCH(req('PATCH', `/api/v1/arrays/${created.id}`, { body: { elements: 9 }, headers: auth }), params({ id: String(created.id) }));
+    const patched = await arrayById.PATCH(
+      req('PATCH', `/api/v1/arrays/${created.id}`, { body: { elements: 9 }, headers: auth }),
+      params({ id: String(created.id) }),
+    );
     expect(patched.status).toBe(200);
     expect((await json(patched)).revision).toBe(2);
-    expect((await AuditEvent.findOne({ where: { action: 'array.revised', target: 'From a script' } }))!.detail).toMatchObject({ via: 'token', revision: 2 });
+    expect(
+      (await AuditEvent.findOne({ where: { action: 'array.revised', target: 'From a script' } }))!.detail,
+    ).toMatchObject({ via: 'token', revision: 2 });
 
     const viewer = await userOf('viewer');
     const vSecret = randomSecret('sw_', 24);
-    await ApiToken.create({ userId: viewer.id, name: 'viewer script', tokenHash: sha256Hex(vSecret), prefix: vSecret.slice(0, 9) });
+    await ApiToken.create({
+      userId: viewer.id,
+      name: 'viewer script',
+      tokenHash: sha256Hex(vSecret),
+      prefix: vSecret.slice(0, 9),
+    });
     const vAuth = { authorization: `Bearer ${vSecret}` };
-    expect((await arrayById.GET(req('GET', `/api/v1/arrays/${created.id}`, { headers: vAuth }), params({ id: String(created.id) }))).status).toBe(200);
-    expect((await arrayById.PATCH(req('PATCH', `/api/v1/arrays/${created.id}`, { body: { elements: 3 }, headers: vAuth }), params({ id: String(created.id) }))).status).toBe(403);
+    expect(
+      (
+        await arrayById.GET(
+          req('GET', `/api/v1/arrays/${created.id}`, { headers: vAuth }),
+          params({ id: String(created.id) }),
+        )
+      ).status,
+    ).toBe(200);
+    expect(
+      (
+        await arrayById.PATCH(
+          req('PATCH', `/api/v1/arrays/${created.id}`, { body: { elements: 3 }, headers: vAuth }),
+          params({ id: String(created.id) }),
+        )
+      ).status,
+    ).toBe(403);
 
     token.revokedAt = new Date();
     await token.save();
@@ -299,12 +494,24 @@ describe('CSRF', () => {
     const target = await json(await create({ ...tenElements, name: 'CSRF target' }));
     const before = await counts();
     const noCsrf = await browserHeaders('engineer', { csrf: false });
-    const post = await arrays.POST(req('POST', '/api/v1/arrays', { body: { ...tenElements, name: 'Forged create' }, headers: noCsrf }), params({}));
+    const post = await arrays.POST(
+      req('POST', '/api/v1/arrays', { body: { ...tenElements, name: 'Forged create' }, headers: noCsrf }),
+      params({}),
+    );
     expect(post.status).toBe(403);
     expect((await json(post)).error.code).toBe('csrf_failed');
-    const p = await arrayById.PATCH(req('PATCH', `/api/v1/arrays/${target.id}`, { body: { elements: 3 }, headers: noCsrf }), params({ id: String(target.id) }));
+    const p = await arrayById.PATCH(
+      req('PATCH', `/api/v1/arrays/${target.id}`, { body: { elements: 3 }, headers: noCsrf }),
+      params({ id: String(target.id) }),
+    );
     expect(p.status).toBe(403);
-    const crossSite = await arrayById.PATCH(req('PATCH', `/api/v1/arrays/${target.id}`, { body: { elements: 3 }, headers: { ...(await browserHeaders('engineer')), origin: 'https://evil.example' } }), params({ id: String(target.id) }));
+    const crossSite = await arrayById.PATCH(
+      req('PATCH', `/api/v1/arrays/${target.id}`, {
+        body: { elements: 3 },
+        headers: { ...(await browserHeaders('engineer')), origin: 'https://evil.example' },
+      }),
+      params({ id: String(target.id) }),
+    );
     expect(crossSite.status).toBe(403);
     expect(await counts()).toEqual(before);
     expect(await ArrayDesign.count({ where: { name: 'Forged create' } })).toBe(0);
@@ -322,9 +529,17 @@ describe('demo seed', () => {
     expect(await counts()).toEqual(before);
     const line = await ArrayDesign.findOne({ where: { name: 'Port Alder hydrophone line' } });
     expect(line!.latestRevision).toBe(3);
-    const [r1, r2, r3] = await Promise.all([1, 2, 3].map((revision) => ArrayRevision.findOne({ where: { arrayId: line!.id, revision } })));
+    const [r1, r2, r3] = await Promise.all(
+      [1, 2, 3].map((revision) => ArrayRevision.findOne({ where: { arrayId: line!.id, revision } })),
+    );
     // Mackenzie (1981) at 9 °C, 34 ppt, 40 m; d = 0.25 m at 3 kHz.
-    const c = propagationSpeed({ kind: 'sea-water', equation: 'mackenzie', temperatureC: 9, salinityPsu: 34, depthM: 40 }).speedMps;
+    const c = propagationSpeed({
+      kind: 'sea-water',
+      equation: 'mackenzie',
+      temperatureC: 9,
+      salinityPsu: 34,
+      depthM: 40,
+    }).speedMps;
     close(r1!.spacingWavelengths, (0.25 * 3000) / c, 1e-12);
     expect(r2!.spacingWavelengths).toBe(r1!.spacingWavelengths);
     expect((r2!.config as { elementStates: { enabled: boolean }[] }).elementStates[6].enabled).toBe(false);

@@ -47,23 +47,65 @@ type Case = {
   expect: Record<Who, number>;
 };
 
-const all = (anonymous: number, signedIn: number): Record<Who, number> => ({ anonymous, viewer: signedIn, reviewer: signedIn, engineer: signedIn, admin: signedIn, otherAdmin: signedIn });
+const all = (anonymous: number, signedIn: number): Record<Who, number> => ({
+  anonymous,
+  viewer: signedIn,
+  reviewer: signedIn,
+  engineer: signedIn,
+  admin: signedIn,
+  otherAdmin: signedIn,
+});
 /** Readable by every member of the demo team; another team's admin gets 404. */
-const teamRead = (ok: number): Record<Who, number> => ({ anonymous: 401, viewer: ok, reviewer: ok, engineer: ok, admin: ok, otherAdmin: 404 });
+const teamRead = (ok: number): Record<Who, number> => ({
+  anonymous: 401,
+  viewer: ok,
+  reviewer: ok,
+  engineer: ok,
+  admin: ok,
+  otherAdmin: 404,
+});
 /** Engineers and admins (any team, acting in their own); viewers and reviewers 403. */
-const editors = (ok: number): Record<Who, number> => ({ anonymous: 401, viewer: 403, reviewer: 403, engineer: ok, admin: ok, otherAdmin: ok });
-const adminOnly = (ok: number, otherAdmin: number): Record<Who, number> => ({ anonymous: 401, viewer: 403, reviewer: 403, engineer: 403, admin: ok, otherAdmin });
+const editors = (ok: number): Record<Who, number> => ({
+  anonymous: 401,
+  viewer: 403,
+  reviewer: 403,
+  engineer: ok,
+  admin: ok,
+  otherAdmin: ok,
+});
+const adminOnly = (ok: number, otherAdmin: number): Record<Who, number> => ({
+  anonymous: 401,
+  viewer: 403,
+  reviewer: 403,
+  engineer: 403,
+  admin: ok,
+  otherAdmin,
+});
 
 let counter = 0;
 async function freshMember(): Promise<User> {
   counter += 1;
   const admin = await userOf('admin');
-  return User.create({ email: `matrix-${counter}@steerwise.test`, name: `Matrix Member ${counter}`, role: 'viewer', passwordHash: 'x', teamId: admin.teamId as number });
+  return User.create({
+    email: `matrix-${counter}@steerwise.test`,
+    name: `Matrix Member ${counter}`,
+    role: 'viewer',
+    passwordHash: 'x',
+    teamId: admin.teamId as number,
+  });
 }
 async function freshInvitation(): Promise<AuthLink> {
   counter += 1;
   const admin = await userOf('admin');
-  return AuthLink.create({ purpose: 'invite', email: `invitee-${counter}@steerwise.test`, role: 'viewer', teamId: admin.teamId as number, createdById: admin.id, tokenHash: sha256Hex(randomSecret('', 16)), expiresAt: new Date(Date.now() + 3600_000) });
+  return AuthLink.create({
+    purpose: 'invite',
+    email: `invitee-${counter}@steerwise.test`,
+    role: 'viewer',
+    teamId: admin.teamId as number,
+    createdById: admin.id,
+    tokenHash: sha256Hex(randomSecret('', 16)),
+    expiresAt: new Date(Date.now() + 3600_000),
+  });
 }
 async function demoArrayId(): Promise<string> {
   const admin = await userOf('admin');
@@ -77,7 +119,12 @@ async function demoStudyId(): Promise<string> {
 }
 async function engineerToken(): Promise<ApiToken> {
   const engineer = await userOf('engineer');
-  return ApiToken.create({ userId: engineer.id, name: `matrix ${++counter}`, tokenHash: sha256Hex(randomSecret('sw_', 16)), prefix: 'sw_matrix' });
+  return ApiToken.create({
+    userId: engineer.id,
+    name: `matrix ${++counter}`,
+    tokenHash: sha256Hex(randomSecret('sw_', 16)),
+    prefix: 'sw_matrix',
+  });
 }
 
 let sink: { port: number; close: () => Promise<void> };
@@ -86,7 +133,14 @@ let demoMailId = 0;
 beforeAll(async () => {
   sink = await startSmtpSink({ port: 0, store: storeCapturedMail });
   process.env.SMTP_SINK_PORT = String(sink.port);
-  const mail = await OutboxMessage.create({ to: 'engineer@steerwise.test', from: 'Steerwise <no-reply@steerwise.test>', subject: 'Reset your Steerwise password', text: 'demo', html: null, receivedAt: new Date() });
+  const mail = await OutboxMessage.create({
+    to: 'engineer@steerwise.test',
+    from: 'Steerwise <no-reply@steerwise.test>',
+    subject: 'Reset your Steerwise password',
+    text: 'demo',
+    html: null,
+    receivedAt: new Date(),
+  });
   demoMailId = mail.id;
   // Every user's password is the demo password, so the password-change case can succeed for each role.
   const hash = await hashPassword(DEMO_PASSWORD);
@@ -98,9 +152,28 @@ afterAll(async () => {
 });
 
 const cases: Case[] = [
-  { name: 'GET /api/health', method: 'GET', path: () => '/api/health', handler: () => health.GET(), expect: all(200, 200) },
-  { name: 'GET /api/account', method: 'GET', path: () => '/api/account', handler: account.GET as Handler, expect: all(401, 200) },
-  { name: 'PATCH /api/account', method: 'PATCH', path: () => '/api/account', handler: account.PATCH as Handler, prepare: async () => ({ body: { name: 'Renamed Person' } }), expect: all(401, 200) },
+  {
+    name: 'GET /api/health',
+    method: 'GET',
+    path: () => '/api/health',
+    handler: () => health.GET(),
+    expect: all(200, 200),
+  },
+  {
+    name: 'GET /api/account',
+    method: 'GET',
+    path: () => '/api/account',
+    handler: account.GET as Handler,
+    expect: all(401, 200),
+  },
+  {
+    name: 'PATCH /api/account',
+    method: 'PATCH',
+    path: () => '/api/account',
+    handler: account.PATCH as Handler,
+    prepare: async () => ({ body: { name: 'Renamed Person' } }),
+    expect: all(401, 200),
+  },
   {
     name: 'POST /api/account/password',
     method: 'POST',
@@ -109,8 +182,21 @@ const cases: Case[] = [
     prepare: async () => ({ body: { currentPassword: DEMO_PASSWORD, newPassword: DEMO_PASSWORD } }),
     expect: all(401, 204),
   },
-  { name: 'GET /api/account/tokens', method: 'GET', path: () => '/api/account/tokens', handler: tokens.GET as Handler, expect: all(401, 200) },
-  { name: 'POST /api/account/tokens', method: 'POST', path: () => '/api/account/tokens', handler: tokens.POST as Handler, prepare: async () => ({ body: { name: 'matrix' } }), expect: all(401, 201) },
+  {
+    name: 'GET /api/account/tokens',
+    method: 'GET',
+    path: () => '/api/account/tokens',
+    handler: tokens.GET as Handler,
+    expect: all(401, 200),
+  },
+  {
+    name: 'POST /api/account/tokens',
+    method: 'POST',
+    path: () => '/api/account/tokens',
+    handler: tokens.POST as Handler,
+    prepare: async () => ({ body: { name: 'matrix' } }),
+    expect: all(401, 201),
+  },
   {
     name: "DELETE /api/account/tokens/{id} (the engineer's token)",
     method: 'DELETE',
@@ -119,9 +205,28 @@ const cases: Case[] = [
     prepare: async () => ({ params: { id: String((await engineerToken()).id) } }),
     expect: { anonymous: 401, viewer: 404, reviewer: 404, engineer: 200, admin: 404, otherAdmin: 404 },
   },
-  { name: 'GET /api/team', method: 'GET', path: () => '/api/team', handler: team.GET as Handler, expect: all(401, 200) },
-  { name: 'PATCH /api/team', method: 'PATCH', path: () => '/api/team', handler: team.PATCH as Handler, prepare: async () => ({ body: { allowViewerDatasetExport: false } }), expect: adminOnly(200, 200) },
-  { name: 'GET /api/team/members', method: 'GET', path: () => '/api/team/members', handler: members.GET as Handler, expect: all(401, 200) },
+  {
+    name: 'GET /api/team',
+    method: 'GET',
+    path: () => '/api/team',
+    handler: team.GET as Handler,
+    expect: all(401, 200),
+  },
+  {
+    name: 'PATCH /api/team',
+    method: 'PATCH',
+    path: () => '/api/team',
+    handler: team.PATCH as Handler,
+    prepare: async () => ({ body: { allowViewerDatasetExport: false } }),
+    expect: adminOnly(200, 200),
+  },
+  {
+    name: 'GET /api/team/members',
+    method: 'GET',
+    path: () => '/api/team/members',
+    handler: members.GET as Handler,
+    expect: all(401, 200),
+  },
   {
     name: 'PATCH /api/team/members/{id}',
     method: 'PATCH',
@@ -138,7 +243,13 @@ const cases: Case[] = [
     prepare: async () => ({ params: { id: String((await freshMember()).id) } }),
     expect: adminOnly(204, 404),
   },
-  { name: 'GET /api/team/invitations', method: 'GET', path: () => '/api/team/invitations', handler: invitations.GET as Handler, expect: adminOnly(200, 200) },
+  {
+    name: 'GET /api/team/invitations',
+    method: 'GET',
+    path: () => '/api/team/invitations',
+    handler: invitations.GET as Handler,
+    expect: adminOnly(200, 200),
+  },
   {
     name: 'POST /api/team/invitations',
     method: 'POST',
@@ -155,21 +266,62 @@ const cases: Case[] = [
     prepare: async () => ({ params: { id: String((await freshInvitation()).id) } }),
     expect: adminOnly(200, 404),
   },
-  { name: 'GET /api/outbox', method: 'GET', path: () => '/api/outbox', handler: outbox.GET as Handler, expect: adminOnly(200, 200) },
-  { name: 'GET /api/outbox/{id}', method: 'GET', path: (p) => `/api/outbox/${p.id}`, handler: outboxById.GET as Handler, prepare: async () => ({ params: { id: String(demoMailId) } }), expect: adminOnly(200, 404) },
-  { name: 'GET /api/audit', method: 'GET', path: () => '/api/audit', handler: audit.GET as Handler, expect: adminOnly(200, 200) },
+  {
+    name: 'GET /api/outbox',
+    method: 'GET',
+    path: () => '/api/outbox',
+    handler: outbox.GET as Handler,
+    expect: adminOnly(200, 200),
+  },
+  {
+    name: 'GET /api/outbox/{id}',
+    method: 'GET',
+    path: (p) => `/api/outbox/${p.id}`,
+    handler: outboxById.GET as Handler,
+    prepare: async () => ({ params: { id: String(demoMailId) } }),
+    expect: adminOnly(200, 404),
+  },
+  {
+    name: 'GET /api/audit',
+    method: 'GET',
+    path: () => '/api/audit',
+    handler: audit.GET as Handler,
+    expect: adminOnly(200, 200),
+  },
   // Anonymous by design: the answer never depends on who asks.
-  { name: 'POST /api/password-reset', method: 'POST', path: () => '/api/password-reset', handler: passwordReset.POST as Handler, prepare: async (who) => ({ body: { email: `nobody-${who}@steerwise.test` } }), expect: all(202, 202) },
-  { name: 'GET /api/v1/arrays', method: 'GET', path: () => '/api/v1/arrays', handler: arrays.GET as Handler, expect: all(401, 200) },
+  {
+    name: 'POST /api/password-reset',
+    method: 'POST',
+    path: () => '/api/password-reset',
+    handler: passwordReset.POST as Handler,
+    prepare: async (who) => ({ body: { email: `nobody-${who}@steerwise.test` } }),
+    expect: all(202, 202),
+  },
+  {
+    name: 'GET /api/v1/arrays',
+    method: 'GET',
+    path: () => '/api/v1/arrays',
+    handler: arrays.GET as Handler,
+    expect: all(401, 200),
+  },
   {
     name: 'POST /api/v1/arrays',
     method: 'POST',
     path: () => '/api/v1/arrays',
     handler: arrays.POST as Handler,
-    prepare: async (who) => ({ body: { name: `Matrix line ${who}`, elements: 8, spacing: { value: 0.5, unit: 'wavelength' } } }),
+    prepare: async (who) => ({
+      body: { name: `Matrix line ${who}`, elements: 8, spacing: { value: 0.5, unit: 'wavelength' } },
+    }),
     expect: editors(201),
   },
-  { name: 'GET /api/v1/arrays/{id}', method: 'GET', path: (p) => `/api/v1/arrays/${p.id}`, handler: arrayById.GET as Handler, prepare: async () => ({ params: { id: await demoArrayId() } }), expect: teamRead(200) },
+  {
+    name: 'GET /api/v1/arrays/{id}',
+    method: 'GET',
+    path: (p) => `/api/v1/arrays/${p.id}`,
+    handler: arrayById.GET as Handler,
+    prepare: async () => ({ params: { id: await demoArrayId() } }),
+    expect: teamRead(200),
+  },
   {
     name: 'GET /api/v1/arrays/{id}/revisions/{rev}',
     method: 'GET',
@@ -178,11 +330,38 @@ const cases: Case[] = [
     prepare: async () => ({ params: { id: await demoArrayId(), rev: '1' } }),
     expect: teamRead(200),
   },
-  { name: 'GET /api/v1/studies', method: 'GET', path: () => '/api/v1/studies', handler: studies.GET as Handler, expect: all(401, 200) },
+  {
+    name: 'GET /api/v1/studies',
+    method: 'GET',
+    path: () => '/api/v1/studies',
+    handler: studies.GET as Handler,
+    expect: all(401, 200),
+  },
   // an empty body: the permission is checked before the body, so editors get 422 and nothing is queued
-  { name: 'POST /api/v1/studies (empty body)', method: 'POST', path: () => '/api/v1/studies', handler: studies.POST as Handler, prepare: async () => ({ body: {} }), expect: editors(422) },
-  { name: 'GET /api/v1/studies/{id}', method: 'GET', path: (p) => `/api/v1/studies/${p.id}`, handler: studyById.GET as Handler, prepare: async () => ({ params: { id: await demoStudyId() } }), expect: teamRead(200) },
-  { name: 'POST /api/links/complete (unknown token)', method: 'POST', path: () => '/api/links/complete', handler: linksComplete.POST as Handler, prepare: async () => ({ body: { token: 'x'.repeat(43), password: 'long enough password' } }), expect: all(404, 404) },
+  {
+    name: 'POST /api/v1/studies (empty body)',
+    method: 'POST',
+    path: () => '/api/v1/studies',
+    handler: studies.POST as Handler,
+    prepare: async () => ({ body: {} }),
+    expect: editors(422),
+  },
+  {
+    name: 'GET /api/v1/studies/{id}',
+    method: 'GET',
+    path: (p) => `/api/v1/studies/${p.id}`,
+    handler: studyById.GET as Handler,
+    prepare: async () => ({ params: { id: await demoStudyId() } }),
+    expect: teamRead(200),
+  },
+  {
+    name: 'POST /api/links/complete (unknown token)',
+    method: 'POST',
+    path: () => '/api/links/complete',
+    handler: linksComplete.POST as Handler,
+    prepare: async () => ({ body: { token: 'x'.repeat(43), password: 'long enough password' } }),
+    expect: all(404, 404),
+  },
 ];
 
 describe('authorization matrix: every route × every caller', () => {
@@ -191,7 +370,10 @@ describe('authorization matrix: every route × every caller', () => {
       it(`${c.name} as ${who} → ${c.expect[who]}`, async () => {
         const prepared = (await c.prepare?.(who)) ?? {};
         const headers = await browserHeaders(who);
-        const res = await c.handler(req(c.method, c.path(prepared.params ?? {}), { body: prepared.body, headers }), params(prepared.params ?? {}));
+        const res = await c.handler(
+          req(c.method, c.path(prepared.params ?? {}), { body: prepared.body, headers }),
+          params(prepared.params ?? {}),
+        );
         const body = await json(res);
         expect(res.status, JSON.stringify(body)).toBe(c.expect[who]);
         if (res.status >= 400) {
@@ -208,10 +390,21 @@ describe('the same routes answer a bearer token like the session', () => {
   it('a viewer token reads the team but is refused the audit log with a clear message', async () => {
     const viewer = await userOf('viewer');
     const secret = randomSecret('sw_', 32);
-    await ApiToken.create({ userId: viewer.id, name: 'matrix bearer', tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9) });
-    const ok = await members.GET(req('GET', '/api/team/members', { headers: { authorization: `Bearer ${secret}` } }), params({}));
+    await ApiToken.create({
+      userId: viewer.id,
+      name: 'matrix bearer',
+      tokenHash: sha256Hex(secret),
+      prefix: secret.slice(0, 9),
+    });
+    const ok = await members.GET(
+      req('GET', '/api/team/members', { headers: { authorization: `Bearer ${secret}` } }),
+      params({}),
+    );
     expect(ok.status).toBe(200);
-    const refused = await audit.GET(req('GET', '/api/audit', { headers: { authorization: `Bearer ${secret}` } }), params({}));
+    const refused = await audit.GET(
+      req('GET', '/api/audit', { headers: { authorization: `Bearer ${secret}` } }),
+      params({}),
+    );
     expect(refused.status).toBe(403);
     expect((await json(refused)).error.message).toBe('Your role (viewer) cannot read the audit log.');
   });

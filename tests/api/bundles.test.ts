@@ -34,14 +34,20 @@ beforeAll(async () => {
 });
 
 async function exportBundle(who: Who, query = '') {
-  return bundleRoute.GET(req('GET', `/api/v1/arrays/${arrayId}/bundle${query}`, { headers: await browserHeaders(who) }), params({ id: String(arrayId) }));
+  return bundleRoute.GET(
+    req('GET', `/api/v1/arrays/${arrayId}/bundle${query}`, { headers: await browserHeaders(who) }),
+    params({ id: String(arrayId) }),
+  );
 }
 
 async function upload(who: Who, bytes: Uint8Array, name = 'bundle.zip') {
   const form = new FormData();
   form.append('file', new Blob([Buffer.from(bytes)], { type: 'application/zip' }), name);
   const headers = await browserHeaders(who);
-  return bundlesRoute.POST(new Request(`${ORIGIN}/api/v1/bundles`, { method: 'POST', body: form, headers }), params({}));
+  return bundlesRoute.POST(
+    new Request(`${ORIGIN}/api/v1/bundles`, { method: 'POST', body: form, headers }),
+    params({}),
+  );
 }
 
 async function counts() {
@@ -80,20 +86,43 @@ describe('export', () => {
     const res = await exportBundle('engineer', `?runs=${runId}`);
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toBe('application/zip');
-    expect(res.headers.get('content-disposition')).toMatch(/^attachment; filename="port-alder-inshore-line-r1\.steerwise\.zip"$/);
+    expect(res.headers.get('content-disposition')).toMatch(
+      /^attachment; filename="port-alder-inshore-line-r1\.steerwise\.zip"$/,
+    );
     const bytes = new Uint8Array(await res.arrayBuffer());
     expect(res.headers.get('x-bundle-sha256')).toBe(sha256Hex(bytes));
     const { manifest, files } = readBundle(bytes);
-    expect(manifest).toMatchObject({ format: 'steerwise-bundle', schemaVersion: 1, author: { email: 'engineer@steerwise.test' }, title: 'Port Alder inshore line, revision 1' });
+    expect(manifest).toMatchObject({
+      format: 'steerwise-bundle',
+      schemaVersion: 1,
+      author: { email: 'engineer@steerwise.test' },
+      title: 'Port Alder inshore line, revision 1',
+    });
     expect(manifest.files.map((f) => f.path).sort()).toEqual(
-      ['array/calibration.csv', 'array/revision.json', 'charts/beam-pattern.svg', 'charts/separation-vs-aperture.svg', `datasets/${datasetId}/data.csv`, `datasets/${datasetId}/dataset.json`, `runs/${runId}.json`, 'summary.txt'].sort(),
+      [
+        'array/calibration.csv',
+        'array/revision.json',
+        'charts/beam-pattern.svg',
+        'charts/separation-vs-aperture.svg',
+        `datasets/${datasetId}/data.csv`,
+        `datasets/${datasetId}/dataset.json`,
+        `runs/${runId}.json`,
+        'summary.txt',
+      ].sort(),
     );
     const revision = JSON.parse(Buffer.from(files.get('array/revision.json')!).toString());
     expect(revision.config).toEqual(arrayInputSchema.parse(baseConfig));
     // Calibration: header + one row per element; element 3 carries its gain and phase.
     const csv = Buffer.from(files.get('array/calibration.csv')!).toString().trim().split('\n');
     expect(csv).toHaveLength(9);
-    expect(csv[4].split(',')).toEqual(['3', String(3 * revision.spacingWavelengths), expect.any(String), '1', '0.4', '-2.5']);
+    expect(csv[4].split(',')).toEqual([
+      '3',
+      String(3 * revision.spacingWavelengths),
+      expect.any(String),
+      '1',
+      '0.4',
+      '-2.5',
+    ]);
     // Charts are standalone SVG with a drawn curve.
     for (const p of ['charts/beam-pattern.svg', 'charts/separation-vs-aperture.svg']) {
       const svg = Buffer.from(files.get(p)!).toString();
@@ -175,14 +204,21 @@ describe('import', () => {
     expect(body.reproduced).toBe(true);
     const run = body.runs[0];
     expect(run).toMatchObject({ originalId: runId, reproduced: true });
-    expect(run.comparison.methods.map((m: { method: string }) => m.method)).toEqual(storedBearings.map((m) => m.method));
+    expect(run.comparison.methods.map((m: { method: string }) => m.method)).toEqual(
+      storedBearings.map((m) => m.method),
+    );
     for (const m of run.comparison.methods) {
       expect(m.maxAbsDifferenceDeg).toBeLessThanOrEqual(1e-9);
       expect(m.storedDeg).toEqual(storedBearings.find((s) => s.method === m.method)!.bearingsDeg);
       expect(m.recomputedDeg).toHaveLength(2);
     }
     const newRun = (await EstimateRun.findByPk(run.id))!;
-    expect(newRun).toMatchObject({ teamId: other.teamId, datasetId: ds.id, arrayRevisionId: newRev.id, status: 'done' });
+    expect(newRun).toMatchObject({
+      teamId: other.teamId,
+      datasetId: ds.id,
+      arrayRevisionId: newRev.id,
+      status: 'done',
+    });
     expect((newRun.inputs as { dataset: { id: number } }).dataset.id).toBe(ds.id);
     const after = await counts();
     expect(after.arrays).toBe(before.arrays + 1);
@@ -234,7 +270,14 @@ describe('hostile archives are refused with a clear message and nothing written'
     delete process.env.STEERWISE_MAX_BUNDLE_BYTES;
   });
 
-  const cases: { name: string; status: number; message: RegExp; bytes: () => Promise<Uint8Array>; fileName?: string; env?: string }[] = [
+  const cases: {
+    name: string;
+    status: number;
+    message: RegExp;
+    bytes: () => Promise<Uint8Array>;
+    fileName?: string;
+    env?: string;
+  }[] = [
     {
       name: 'zip bomb (high compression ratio)',
       status: 422,
@@ -247,8 +290,18 @@ describe('hostile archives are refused with a clear message and nothing written'
       message: /archive has 10000 entries; at most 500 are allowed/,
       bytes: async () => buildZip(Array.from({ length: 10_000 }, (_, i) => ({ name: `f${i}.txt`, data: text('x') }))),
     },
-    { name: '../ path', status: 422, message: /entry name '\.\.\/evil\.txt' is refused: it climbs out of the archive/, bytes: async () => buildZip([{ name: '../evil.txt', data: text('x') }]) },
-    { name: 'absolute path', status: 422, message: /entry name '\/etc\/cron\.d\/x' is refused: it is an absolute path/, bytes: async () => buildZip([{ name: '/etc/cron.d/x', data: text('x') }]) },
+    {
+      name: '../ path',
+      status: 422,
+      message: /entry name '\.\.\/evil\.txt' is refused: it climbs out of the archive/,
+      bytes: async () => buildZip([{ name: '../evil.txt', data: text('x') }]),
+    },
+    {
+      name: 'absolute path',
+      status: 422,
+      message: /entry name '\/etc\/cron\.d\/x' is refused: it is an absolute path/,
+      bytes: async () => buildZip([{ name: '/etc/cron.d/x', data: text('x') }]),
+    },
     {
       name: 'symlink entry',
       status: 422,
@@ -259,13 +312,20 @@ describe('hostile archives are refused with a clear message and nothing written'
       name: 'duplicate names',
       status: 422,
       message: /the name 'summary\.txt' appears twice/,
-      bytes: async () => buildZip([{ name: 'summary.txt', data: text('a') }, { name: 'summary.txt', data: text('b') }]),
+      bytes: async () =>
+        buildZip([
+          { name: 'summary.txt', data: text('a') },
+          { name: 'summary.txt', data: text('b') },
+        ]),
     },
     {
       name: 'tampered checksum',
       status: 422,
       message: /'summary\.txt' (fails its SHA-256 check|has \d+ bytes; the manifest says \d+)/,
-      bytes: () => rebuilt((files) => files.set('summary.txt', text(Buffer.from(files.get('summary.txt')!).toString().replace('ARRAY', 'ARRAX')))),
+      bytes: () =>
+        rebuilt((files) =>
+          files.set('summary.txt', text(Buffer.from(files.get('summary.txt')!).toString().replace('ARRAY', 'ARRAX'))),
+        ),
     },
     {
       name: 'wrong schema version',
@@ -301,14 +361,26 @@ describe('hostile archives are refused with a clear message and nothing written'
           files.set('manifest.json', text(JSON.stringify(m)));
         }),
     },
-    { name: 'truncated zip', status: 422, message: /zip archive is truncated|truncated or corrupt/, bytes: async () => (await good()).subarray(0, Math.floor((await good()).byteLength / 2)) },
-    { name: 'a non-zip file with a .zip name', status: 415, message: /not a zip archive/, bytes: async () => text('id,name\n1,not a zip at all, just a CSV with the wrong name\n'), fileName: 'bundle.zip' },
+    {
+      name: 'truncated zip',
+      status: 422,
+      message: /zip archive is truncated|truncated or corrupt/,
+      bytes: async () => (await good()).subarray(0, Math.floor((await good()).byteLength / 2)),
+    },
+    {
+      name: 'a non-zip file with a .zip name',
+      status: 415,
+      message: /not a zip archive/,
+      bytes: async () => text('id,name\n1,not a zip at all, just a CSV with the wrong name\n'),
+      fileName: 'bundle.zip',
+    },
     { name: 'oversize upload', status: 413, message: /larger than the limit of 2048 bytes/, bytes: good, env: '2048' },
     {
       name: 'a deflate stream that lies about its size',
       status: 422,
       message: /inflates to more than the 10 bytes it declares|holds \d+ bytes but declares 10/,
-      bytes: async () => buildZip([{ name: 'summary.txt', data: new Uint8Array(5000).fill(65), deflate: true, declaredSize: 10 }]),
+      bytes: async () =>
+        buildZip([{ name: 'summary.txt', data: new Uint8Array(5000).fill(65), deflate: true, declaredSize: 10 }]),
     },
   ];
 
@@ -328,10 +400,20 @@ describe('hostile archives are refused with a clear message and nothing written'
     before = await counts();
     const form = new FormData();
     form.append('name', 'x');
-    const res = await bundlesRoute.POST(new Request(`${ORIGIN}/api/v1/bundles`, { method: 'POST', body: form, headers: await browserHeaders('engineer') }), params({}));
+    const res = await bundlesRoute.POST(
+      new Request(`${ORIGIN}/api/v1/bundles`, {
+        method: 'POST',
+        body: form,
+        headers: await browserHeaders('engineer'),
+      }),
+      params({}),
+    );
     expect(res.status).toBe(422);
     expect((await json(res)).error.message).toMatch(/No file: send the bundle in a multipart field named "file"/);
-    const asJson = await bundlesRoute.POST(req('POST', '/api/v1/bundles', { body: { file: 'x' }, headers: await browserHeaders('engineer') }), params({}));
+    const asJson = await bundlesRoute.POST(
+      req('POST', '/api/v1/bundles', { body: { file: 'x' }, headers: await browserHeaders('engineer') }),
+      params({}),
+    );
     expect(asJson.status).toBe(415);
   });
 });

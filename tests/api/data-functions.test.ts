@@ -32,7 +32,10 @@ describe('data functions refuse roles without the permission', () => {
         updateTeam({ caller, input: { name: 'Taken over' } }),
       ];
       for (const attempt of attempts) {
-        const err = await attempt.then(() => null, (e: unknown) => e);
+        const err = await attempt.then(
+          () => null,
+          (e: unknown) => e,
+        );
         expect(err).toBeInstanceOf(ApiError);
         expect((err as ApiError).status).toBe(403);
       }

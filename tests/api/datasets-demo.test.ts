@@ -37,7 +37,12 @@ describe('demo recordings', () => {
 
   it('Marsh Wren and Coldharbour: ESPRIT finds both within 1° of the simulated bearings', async () => {
     const r = DEMO_RECORDINGS[0];
-    const res = await estimate('engineer', { datasetId: (await byName(r.name)).id, array: { elements: r.elements, spacingWavelengths: r.spacingWavelengths }, method: 'esprit-tls', smoothingSubarray: 11 });
+    const res = await estimate('engineer', {
+      datasetId: (await byName(r.name)).id,
+      array: { elements: r.elements, spacingWavelengths: r.spacingWavelengths },
+      method: 'esprit-tls',
+      smoothingSubarray: 11,
+    });
     expect(res.status).toBe(201);
     expect(res.body.sourceCount).toBe(2);
     r.bearingsDeg.forEach((b, i) => expect(Math.abs(res.body.bearingsDeg[i] - b)).toBeLessThan(1));
@@ -45,12 +50,26 @@ describe('demo recordings', () => {
 
   it('the passing pair is below the resolvable gap', async () => {
     const r = DEMO_RECORDINGS[1];
-    const res = await estimate('engineer', { datasetId: (await byName(r.name)).id, array: { elements: r.elements, spacingWavelengths: r.spacingWavelengths }, methods: ['esprit-ls'] });
+    const res = await estimate('engineer', {
+      datasetId: (await byName(r.name)).id,
+      array: { elements: r.elements, spacingWavelengths: r.spacingWavelengths },
+      methods: ['esprit-ls'],
+    });
     expect(res.status).toBe(201);
     const { getEstimateRun } = await import('@/lib/data/estimates');
     const { userOf } = await import('../helpers/api');
     const engineer = await userOf('engineer');
-    const run = await getEstimateRun({ caller: { id: engineer.id, email: engineer.email, name: engineer.name, role: engineer.role, teamId: engineer.teamId as number, via: 'session' }, id: res.body.id });
+    const run = await getEstimateRun({
+      caller: {
+        id: engineer.id,
+        email: engineer.email,
+        name: engineer.name,
+        role: engineer.role,
+        teamId: engineer.teamId as number,
+        via: 'session',
+      },
+      id: res.body.id,
+    });
     expect(run.results[0].bearingsDeg).toHaveLength(2);
     expect(run.results[0].pairs[0].belowResolvableGap).toBe(true); // |sin 7° − sin 4°| = 0.052 < 1/(16·0.5) = 0.125
   });
@@ -62,7 +81,13 @@ describe('demo recordings', () => {
     const plain = await estimate('engineer', { datasetId: id, array, method: 'esprit-ls' });
     expect(plain.status).toBe(201);
     expect(plain.body.warnings.map((w: { code: string }) => w.code)).toContain('coherent-sources-suspected');
-    const smoothed = await estimate('engineer', { datasetId: id, array, method: 'esprit-ls', smoothingSubarray: 8, forwardBackward: true });
+    const smoothed = await estimate('engineer', {
+      datasetId: id,
+      array,
+      method: 'esprit-ls',
+      smoothingSubarray: 8,
+      forwardBackward: true,
+    });
     expect(smoothed.body.sourceCount).toBe(2);
     r.bearingsDeg.forEach((b, i) => expect(Math.abs(smoothed.body.bearingsDeg[i] - b)).toBeLessThan(1));
   });

@@ -13,7 +13,11 @@ export function fixture(rel: string): Buffer {
   return fs.readFileSync(path.join(FIXTURES, rel));
 }
 
-export function multipart(who: Record<string, string>, file: { name: string; bytes: Uint8Array } | null, fields: Record<string, string | number> = {}): Request {
+export function multipart(
+  who: Record<string, string>,
+  file: { name: string; bytes: Uint8Array } | null,
+  fields: Record<string, string | number> = {},
+): Request {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) form.append(k, String(v));
   if (file) form.append('file', new Blob([new Uint8Array(file.bytes)]), file.name);
@@ -26,7 +30,10 @@ export async function upload(who: Who, name: string, bytes: Uint8Array, fields: 
 }
 
 export async function estimate(who: Who, body: unknown, headers: Record<string, string> = {}) {
-  const res = await estimates.POST(req('POST', '/api/v1/estimates', { body, headers: { ...(await browserHeaders(who)), ...headers } }), params({}));
+  const res = await estimates.POST(
+    req('POST', '/api/v1/estimates', { body, headers: { ...(await browserHeaders(who)), ...headers } }),
+    params({}),
+  );
   return { status: res.status, body: await json(res) };
 }
 

@@ -48,10 +48,22 @@ describe('e-mail hand-off', () => {
   let token: string;
 
   it('an engineer sends a bundle with a note; the message reaches the sink with recipient, subject and link', async () => {
-    const res = await send('engineer', { arrayId, runs: [runId], recipientEmail: 'Range-Admin@steerwise.test', note: 'Two contacts near 14°.\nPlease check the TLS run.' });
+    const res = await send('engineer', {
+      arrayId,
+      runs: [runId],
+      recipientEmail: 'Range-Admin@steerwise.test',
+      note: 'Two contacts near 14°.\nPlease check the TLS run.',
+    });
     const body = await json(res);
     expect(res.status, JSON.stringify(body)).toBe(201);
-    expect(body).toMatchObject({ arrayId, revision: 1, recipientEmail: 'range-admin@steerwise.test', runs: [runId], invited: false, downloadCount: 0 });
+    expect(body).toMatchObject({
+      arrayId,
+      revision: 1,
+      recipientEmail: 'range-admin@steerwise.test',
+      runs: [runId],
+      invited: false,
+      downloadCount: 0,
+    });
     expect(body).not.toHaveProperty('link');
     const mails = await mailsTo('range-admin@steerwise.test');
     expect(mails).toHaveLength(1);
@@ -81,10 +93,20 @@ describe('e-mail hand-off', () => {
   it('an altered link is refused with 404, also as a page for a browser', async () => {
     const [payload, signature] = token.split('.');
     const flipped = signature.slice(0, -2) + (signature.at(-2) === 'A' ? 'B' : 'A') + signature.at(-1);
-    for (const bad of [`${payload}.${flipped}`, `${Buffer.from(Buffer.from(payload, 'base64url').toString().replace(/"s":"(\d+)"/, '"s":"$10"')).toString('base64url')}.${signature}`, 'not-a-token']) {
+    for (const bad of [
+      `${payload}.${flipped}`,
+      `${Buffer.from(
+        Buffer.from(payload, 'base64url')
+          .toString()
+          .replace(/"s":"(\d+)"/, '"s":"$10"'),
+      ).toString('base64url')}.${signature}`,
+      'not-a-token',
+    ]) {
       const res = await download(bad);
       expect(res.status).toBe(404);
-      expect((await json(res)).error.message).toMatch(/This hand-off link is not valid: the link (signature does not match: it was altered or is not ours|is incomplete or malformed)/);
+      expect((await json(res)).error.message).toMatch(
+        /This hand-off link is not valid: the link (signature does not match: it was altered or is not ours|is incomplete or malformed)/,
+      );
     }
     const page = await download(`${payload}.${flipped}`, 'text/html,application/xhtml+xml');
     expect(page.status).toBe(404);
@@ -94,10 +116,21 @@ describe('e-mail hand-off', () => {
 
   it('an expired link is refused with 422 link_expired', async () => {
     const handoff = (await Handoff.findOne({ where: { recipientEmail: 'range-admin@steerwise.test' } }))!;
-    const old = createSignedToken({ purpose: 'handoff', subject: String(handoff.id), ttlSeconds: 3600, secret: process.env.NEXTAUTH_SECRET!, now: new Date(Date.now() - 2 * 3600 * 1000) });
+    const old = createSignedToken({
+      purpose: 'handoff',
+      subject: String(handoff.id),
+      ttlSeconds: 3600,
+      secret: process.env.NEXTAUTH_SECRET!,
+      now: new Date(Date.now() - 2 * 3600 * 1000),
+    });
     const res = await download(old);
     expect(res.status).toBe(422);
-    expect((await json(res)).error).toMatchObject({ code: 'link_expired', message: expect.stringMatching(/This hand-off link has expired \(expired at .*\)\. Ask the sender for a new one\./) });
+    expect((await json(res)).error).toMatchObject({
+      code: 'link_expired',
+      message: expect.stringMatching(
+        /This hand-off link has expired \(expired at .*\)\. Ask the sender for a new one\./,
+      ),
+    });
     // The row's own expiry counts too.
     await handoff.update({ expiresAt: new Date(Date.now() - 1000) });
     try {
@@ -114,7 +147,10 @@ describe('e-mail hand-off', () => {
     expect(res.status).toBe(201);
     expect((await json(res)).invited).toBe(true);
     const mails = await mailsTo('harbour.pilot@steerwise.test');
-    expect(mails.map((m) => m.subject)).toEqual(['Tobin Hartree sent you "Port Alder inshore line" revision 1 on Steerwise', 'You are invited to Kestrel Sound Laboratory on Steerwise']);
+    expect(mails.map((m) => m.subject)).toEqual([
+      'Tobin Hartree sent you "Port Alder inshore line" revision 1 on Steerwise',
+      'You are invited to Kestrel Sound Laboratory on Steerwise',
+    ]);
     expect(mails[0].text).toContain('also invited you to Kestrel Sound Laboratory');
     expect(mails[1].text).toMatch(/http:\/\/localhost:3000\/invite\?token=[A-Za-z0-9_-]+/);
     const engineer = await userOf('engineer');
@@ -123,7 +159,8 @@ describe('e-mail hand-off', () => {
   });
 
   it('role matrix and bad input: viewers and reviewers may not send, another team gets 404, bad fields get 422', async () => {
-    for (const who of ['viewer', 'reviewer'] as const) expect((await send(who, { arrayId, recipientEmail: 'x@steerwise.test' })).status).toBe(403);
+    for (const who of ['viewer', 'reviewer'] as const)
+      expect((await send(who, { arrayId, recipientEmail: 'x@steerwise.test' })).status).toBe(403);
     expect((await send('otherAdmin', { arrayId, recipientEmail: 'x@steerwise.test' })).status).toBe(404);
     expect((await send('anonymous', { arrayId, recipientEmail: 'x@steerwise.test' })).status).toBe(401);
     const bad = await send('engineer', { arrayId, recipientEmail: 'not an address' });
@@ -145,6 +182,8 @@ describe('e-mail hand-off', () => {
     } finally {
       process.env.SMTP_SINK_PORT = String(sink.port);
     }
-    expect({ handoffs: await Handoff.count(), links: await AuthLink.count(), audit: await AuditEvent.count() }).toEqual(before);
+    expect({ handoffs: await Handoff.count(), links: await AuthLink.count(), audit: await AuditEvent.count() }).toEqual(
+      before,
+    );
   });
 });

@@ -37,7 +37,13 @@ function linkToken(text: string, path: '/invite' | '/reset'): string {
 
 describe('invitation by e-mail', () => {
   it('admin invites, the mail reaches the sink, the invitee sets a password and joins with the invited role', async () => {
-    const res = await invitations.POST(req('POST', '/api/team/invitations', { body: { email: 'Deckhand.Two@steerwise.test', role: 'engineer' }, headers: await browserHeaders('admin') }), params({}));
+    const res = await invitations.POST(
+      req('POST', '/api/team/invitations', {
+        body: { email: 'Deckhand.Two@steerwise.test', role: 'engineer' },
+        headers: await browserHeaders('admin'),
+      }),
+      params({}),
+    );
     expect(res.status).toBe(201);
     const dto = await json(res);
     expect(dto).toMatchObject({ email: 'deckhand.two@steerwise.test', role: 'engineer', status: 'pending' });
@@ -49,41 +55,84 @@ describe('invitation by e-mail', () => {
     // Only the hash is stored.
     expect(await AuthLink.count({ where: { tokenHash: token } })).toBe(0);
 
-    const done = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'harbour lights 42', name: 'Deck Hand' } }), params({}));
+    const done = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'harbour lights 42', name: 'Deck Hand' } }),
+      params({}),
+    );
     expect(done.status).toBe(200);
     const user = await User.findOne({ where: { email: 'deckhand.two@steerwise.test' } });
     expect(user).toMatchObject({ role: 'engineer', name: 'Deck Hand' });
-    expect(await verifyCredentials({ email: 'deckhand.two@steerwise.test', password: 'harbour lights 42', ip: '10.1.1.1' })).not.toBeNull();
+    expect(
+      await verifyCredentials({ email: 'deckhand.two@steerwise.test', password: 'harbour lights 42', ip: '10.1.1.1' }),
+    ).not.toBeNull();
 
     // The same link again: refused clearly, nothing changes.
-    const again = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'another password 1', name: 'Intruder' } }), params({}));
+    const again = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'another password 1', name: 'Intruder' } }),
+      params({}),
+    );
     expect(again.status).toBe(409);
-    expect((await json(again)).error).toMatchObject({ code: 'link_used', message: expect.stringMatching(/already been used/) });
+    expect((await json(again)).error).toMatchObject({
+      code: 'link_used',
+      message: expect.stringMatching(/already been used/),
+    });
     expect((await User.findOne({ where: { email: 'deckhand.two@steerwise.test' } }))?.name).toBe('Deck Hand');
   });
 
   it('an expired invitation is refused and no account is created', async () => {
-    await invitations.POST(req('POST', '/api/team/invitations', { body: { email: 'late@steerwise.test', role: 'viewer' }, headers: await browserHeaders('admin') }), params({}));
+    await invitations.POST(
+      req('POST', '/api/team/invitations', {
+        body: { email: 'late@steerwise.test', role: 'viewer' },
+        headers: await browserHeaders('admin'),
+      }),
+      params({}),
+    );
     const token = linkToken((await lastMailTo('late@steerwise.test'))!.text, '/invite');
     await AuthLink.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { email: 'late@steerwise.test' } });
-    const res = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'too late anyway', name: 'Late' } }), params({}));
+    const res = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'too late anyway', name: 'Late' } }),
+      params({}),
+    );
     expect(res.status).toBe(422);
-    expect((await json(res)).error).toMatchObject({ code: 'link_expired', message: 'This invitation has expired. Ask for a new one.' });
+    expect((await json(res)).error).toMatchObject({
+      code: 'link_expired',
+      message: 'This invitation has expired. Ask for a new one.',
+    });
     expect(await User.count({ where: { email: 'late@steerwise.test' } })).toBe(0);
   });
 
   it('a revoked invitation no longer works', async () => {
-    const created = await json(await invitations.POST(req('POST', '/api/team/invitations', { body: { email: 'revoked@steerwise.test', role: 'viewer' }, headers: await browserHeaders('admin') }), params({})));
+    const created = await json(
+      await invitations.POST(
+        req('POST', '/api/team/invitations', {
+          body: { email: 'revoked@steerwise.test', role: 'viewer' },
+          headers: await browserHeaders('admin'),
+        }),
+        params({}),
+      ),
+    );
     const token = linkToken((await lastMailTo('revoked@steerwise.test'))!.text, '/invite');
-    const del = await invitationById.DELETE(req('DELETE', `/api/team/invitations/${created.id}`, { headers: await browserHeaders('admin') }), params({ id: String(created.id) }));
+    const del = await invitationById.DELETE(
+      req('DELETE', `/api/team/invitations/${created.id}`, { headers: await browserHeaders('admin') }),
+      params({ id: String(created.id) }),
+    );
     expect((await json(del)).status).toBe('revoked');
-    const res = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'revoked but trying', name: 'R' } }), params({}));
+    const res = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'revoked but trying', name: 'R' } }),
+      params({}),
+    );
     expect(res.status).toBe(404);
     expect(await User.count({ where: { email: 'revoked@steerwise.test' } })).toBe(0);
   });
 
   it('inviting an address that already has an account is 409', async () => {
-    const res = await invitations.POST(req('POST', '/api/team/invitations', { body: { email: 'range-admin@steerwise.test', role: 'viewer' }, headers: await browserHeaders('admin') }), params({}));
+    const res = await invitations.POST(
+      req('POST', '/api/team/invitations', {
+        body: { email: 'range-admin@steerwise.test', role: 'viewer' },
+        headers: await browserHeaders('admin'),
+      }),
+      params({}),
+    );
     expect(res.status).toBe(409);
   });
 
@@ -91,7 +140,13 @@ describe('invitation by e-mail', () => {
     const saved = process.env.SMTP_SINK_PORT;
     process.env.SMTP_SINK_PORT = '1'; // nothing listens there
     try {
-      const res = await invitations.POST(req('POST', '/api/team/invitations', { body: { email: 'unsent@steerwise.test', role: 'viewer' }, headers: await browserHeaders('admin') }), params({}));
+      const res = await invitations.POST(
+        req('POST', '/api/team/invitations', {
+          body: { email: 'unsent@steerwise.test', role: 'viewer' },
+          headers: await browserHeaders('admin'),
+        }),
+        params({}),
+      );
       expect(res.status).toBe(503);
       expect(await AuthLink.count({ where: { email: 'unsent@steerwise.test' } })).toBe(0);
     } finally {
@@ -102,31 +157,56 @@ describe('invitation by e-mail', () => {
 
 describe('password reset by e-mail', () => {
   it('request → mail → new password; the old password stops working; the link works once', async () => {
-    const res = await passwordReset.POST(req('POST', '/api/password-reset', { body: { email: 'viewer@steerwise.test' } }), params({}));
+    const res = await passwordReset.POST(
+      req('POST', '/api/password-reset', { body: { email: 'viewer@steerwise.test' } }),
+      params({}),
+    );
     expect(res.status).toBe(202);
     const mail = await lastMailTo('viewer@steerwise.test');
     expect(mail?.subject).toBe('Reset your Steerwise password');
     const token = linkToken(mail!.text, '/reset');
 
-    const short = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'short' } }), params({}));
+    const short = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'short' } }),
+      params({}),
+    );
     expect(short.status).toBe(422);
     expect((await json(short)).error.fields.password[0]).toMatch(/at least 10/);
 
-    const done = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'fresh tide 2024' } }), params({}));
+    const done = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'fresh tide 2024' } }),
+      params({}),
+    );
     expect(done.status).toBe(200);
-    expect(await verifyCredentials({ email: 'viewer@steerwise.test', password: DEMO_PASSWORD, ip: '10.2.2.2' })).toBeNull();
-    expect(await verifyCredentials({ email: 'viewer@steerwise.test', password: 'fresh tide 2024', ip: '10.2.2.2' })).not.toBeNull();
+    expect(
+      await verifyCredentials({ email: 'viewer@steerwise.test', password: DEMO_PASSWORD, ip: '10.2.2.2' }),
+    ).toBeNull();
+    expect(
+      await verifyCredentials({ email: 'viewer@steerwise.test', password: 'fresh tide 2024', ip: '10.2.2.2' }),
+    ).not.toBeNull();
 
-    const again = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'third time lucky' } }), params({}));
+    const again = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'third time lucky' } }),
+      params({}),
+    );
     expect(again.status).toBe(409);
   });
 
   it('an expired reset link is refused and the password is unchanged', async () => {
-    await passwordReset.POST(req('POST', '/api/password-reset', { body: { email: 'reviewer@steerwise.test' } }), params({}));
+    await passwordReset.POST(
+      req('POST', '/api/password-reset', { body: { email: 'reviewer@steerwise.test' } }),
+      params({}),
+    );
     const token = linkToken((await lastMailTo('reviewer@steerwise.test'))!.text, '/reset');
-    await AuthLink.update({ expiresAt: new Date(Date.now() - 1) }, { where: { email: 'reviewer@steerwise.test', purpose: 'reset' } });
+    await AuthLink.update(
+      { expiresAt: new Date(Date.now() - 1) },
+      { where: { email: 'reviewer@steerwise.test', purpose: 'reset' } },
+    );
     const hashBefore = (await User.findOne({ where: { email: 'reviewer@steerwise.test' } }))!.passwordHash;
-    const res = await complete.POST(req('POST', '/api/links/complete', { body: { token, password: 'should not apply' } }), params({}));
+    const res = await complete.POST(
+      req('POST', '/api/links/complete', { body: { token, password: 'should not apply' } }),
+      params({}),
+    );
     expect(res.status).toBe(422);
     expect((await json(res)).error.message).toBe('This reset link has expired. Ask for a new one.');
     expect((await User.findOne({ where: { email: 'reviewer@steerwise.test' } }))!.passwordHash).toBe(hashBefore);
@@ -134,7 +214,10 @@ describe('password reset by e-mail', () => {
 
   it('an unknown address gets the same 202 answer and no mail', async () => {
     const before = await OutboxMessage.count();
-    const res = await passwordReset.POST(req('POST', '/api/password-reset', { body: { email: 'stranger@steerwise.test' } }), params({}));
+    const res = await passwordReset.POST(
+      req('POST', '/api/password-reset', { body: { email: 'stranger@steerwise.test' } }),
+      params({}),
+    );
     expect(res.status).toBe(202);
     expect(await OutboxMessage.count()).toBe(before);
   });
@@ -142,7 +225,14 @@ describe('password reset by e-mail', () => {
   it('reset requests are rate-limited per address (429 after 3 in 15 minutes)', async () => {
     const statuses: number[] = [];
     for (let i = 0; i < 4; i++) {
-      statuses.push((await passwordReset.POST(req('POST', '/api/password-reset', { body: { email: 'engineer@steerwise.test' } }), params({}))).status);
+      statuses.push(
+        (
+          await passwordReset.POST(
+            req('POST', '/api/password-reset', { body: { email: 'engineer@steerwise.test' } }),
+            params({}),
+          )
+        ).status,
+      );
     }
     expect(statuses).toEqual([202, 202, 202, 429]);
   });

@@ -9,12 +9,23 @@ import type { DoaMethod } from '@/lib/doa';
 import { userOf } from '../helpers/api';
 import { createArray, createDataset, createRun } from '../lib/handoff/fixtures';
 
-export async function startSinkWithRun({ methods, datasetOnArray = false }: { methods: DoaMethod[]; datasetOnArray?: boolean }) {
+export async function startSinkWithRun({
+  methods,
+  datasetOnArray = false,
+}: {
+  methods: DoaMethod[];
+  datasetOnArray?: boolean;
+}) {
   const sink = await startSmtpSink({ port: 0, store: storeCapturedMail });
   process.env.SMTP_SINK_PORT = String(sink.port);
   const engineer = await userOf('engineer');
   const { array, revision, spacingWavelengths } = await createArray({ user: engineer });
-  const { dataset } = await createDataset({ user: engineer, elements: 8, spacingWavelengths, ...(datasetOnArray ? { arrayId: array.id } : {}) });
+  const { dataset } = await createDataset({
+    user: engineer,
+    elements: 8,
+    spacingWavelengths,
+    ...(datasetOnArray ? { arrayId: array.id } : {}),
+  });
   const { run } = await createRun({ user: engineer, revision, dataset, spacingWavelengths, methods });
   return { sink, arrayId: array.id, runId: run.id };
 }

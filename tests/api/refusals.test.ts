@@ -21,8 +21,12 @@ async function counts() {
 
 describe('wrong passwords', () => {
   it('a wrong password, an unknown e-mail and an empty password are all refused', async () => {
-    expect(await verifyCredentials({ email: 'engineer@steerwise.test', password: 'not-the-password', ip: '10.0.0.1' })).toBeNull();
-    expect(await verifyCredentials({ email: 'nobody@steerwise.test', password: DEMO_PASSWORD, ip: '10.0.0.1' })).toBeNull();
+    expect(
+      await verifyCredentials({ email: 'engineer@steerwise.test', password: 'not-the-password', ip: '10.0.0.1' }),
+    ).toBeNull();
+    expect(
+      await verifyCredentials({ email: 'nobody@steerwise.test', password: DEMO_PASSWORD, ip: '10.0.0.1' }),
+    ).toBeNull();
     expect(await verifyCredentials({ email: 'engineer@steerwise.test', password: '', ip: '10.0.0.1' })).toBeNull();
     const ok = await verifyCredentials({ email: ' Engineer@Steerwise.test ', password: DEMO_PASSWORD, ip: '10.0.0.1' });
     expect(ok?.email).toBe('engineer@steerwise.test');
@@ -31,7 +35,13 @@ describe('wrong passwords', () => {
   it('a wrong current password does not change the password', async () => {
     const { POST } = await import('@/app/api/account/password/route');
     const before = (await userOf('reviewer')).passwordHash;
-    const res = await POST(req('POST', '/api/account/password', { body: { currentPassword: 'wrong-wrong-wrong', newPassword: 'a brand new password' }, headers: await browserHeaders('reviewer') }), params({}));
+    const res = await POST(
+      req('POST', '/api/account/password', {
+        body: { currentPassword: 'wrong-wrong-wrong', newPassword: 'a brand new password' },
+        headers: await browserHeaders('reviewer'),
+      }),
+      params({}),
+    );
     expect(res.status).toBe(422);
     expect((await json(res)).error.fields.currentPassword[0]).toMatch(/not correct/);
     expect((await userOf('reviewer')).passwordHash).toBe(before);
@@ -55,7 +65,10 @@ describe('CSRF: cookie-authenticated changes need the proof', () => {
     const engineer = await userOf('engineer');
     const pair = csrfPair();
     const headers = { cookie: `${await sessionCookieFor(engineer)}; ${pair.cookie}`, 'x-csrf-token': 'a'.repeat(32) };
-    const res = await tokens.POST(req('POST', '/api/account/tokens', { body: { name: 'sneaky' }, headers }), params({}));
+    const res = await tokens.POST(
+      req('POST', '/api/account/tokens', { body: { name: 'sneaky' }, headers }),
+      params({}),
+    );
     expect(res.status).toBe(403);
     expect(await ApiToken.count({ where: { name: 'sneaky' } })).toBe(0);
   });
@@ -65,14 +78,20 @@ describe('CSRF: cookie-authenticated changes need the proof', () => {
     const token = 'f'.repeat(32);
     const forged = `next-auth.csrf-token=${encodeURIComponent(`${token}|${sha256Hex(`${token}wrong-secret`)}`)}`;
     const headers = { cookie: `${await sessionCookieFor(engineer)}; ${forged}`, 'x-csrf-token': token };
-    const res = await tokens.POST(req('POST', '/api/account/tokens', { body: { name: 'forged' }, headers }), params({}));
+    const res = await tokens.POST(
+      req('POST', '/api/account/tokens', { body: { name: 'forged' }, headers }),
+      params({}),
+    );
     expect(res.status).toBe(403);
     expect(await ApiToken.count({ where: { name: 'forged' } })).toBe(0);
   });
 
   it('a request from another origin is refused even with a valid token', async () => {
     const headers = { ...(await browserHeaders('engineer')), origin: 'https://evil.example' };
-    const res = await tokens.POST(req('POST', '/api/account/tokens', { body: { name: 'cross-site' }, headers }), params({}));
+    const res = await tokens.POST(
+      req('POST', '/api/account/tokens', { body: { name: 'cross-site' }, headers }),
+      params({}),
+    );
     expect(res.status).toBe(403);
     expect((await json(res)).error.message).toMatch(/Cross-site request refused/);
     expect(await ApiToken.count({ where: { name: 'cross-site' } })).toBe(0);
@@ -80,15 +99,26 @@ describe('CSRF: cookie-authenticated changes need the proof', () => {
 
   it('the same-origin request with the proof succeeds (the check can pass)', async () => {
     const headers = { ...(await browserHeaders('engineer')), origin: 'http://localhost:3000' };
-    const res = await tokens.POST(req('POST', '/api/account/tokens', { body: { name: 'same-site' }, headers }), params({}));
+    const res = await tokens.POST(
+      req('POST', '/api/account/tokens', { body: { name: 'same-site' }, headers }),
+      params({}),
+    );
     expect(res.status).toBe(201);
   });
 
   it('bearer-token writes need no CSRF proof (no ambient credentials)', async () => {
     const engineer = await userOf('engineer');
     const secret = randomSecret('sw_', 32);
-    await ApiToken.create({ userId: engineer.id, name: 'script', tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9) });
-    const res = await account.PATCH(req('PATCH', '/api/account', { body: { name: 'Tobin Hartree' }, headers: { authorization: `Bearer ${secret}` } }), params({}));
+    await ApiToken.create({
+      userId: engineer.id,
+      name: 'script',
+      tokenHash: sha256Hex(secret),
+      prefix: secret.slice(0, 9),
+    });
+    const res = await account.PATCH(
+      req('PATCH', '/api/account', { body: { name: 'Tobin Hartree' }, headers: { authorization: `Bearer ${secret}` } }),
+      params({}),
+    );
     expect(res.status).toBe(200);
     const used = await ApiToken.findOne({ where: { tokenHash: sha256Hex(secret) } });
     expect(used?.lastUsedAt).toBeTruthy();
@@ -99,7 +129,13 @@ describe('tokens and sessions that are not valid', () => {
   it('a revoked token, an unknown token and a malformed header are 401', async () => {
     const engineer = await userOf('engineer');
     const secret = randomSecret('sw_', 32);
-    await ApiToken.create({ userId: engineer.id, name: 'old', tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9), revokedAt: new Date() });
+    await ApiToken.create({
+      userId: engineer.id,
+      name: 'old',
+      tokenHash: sha256Hex(secret),
+      prefix: secret.slice(0, 9),
+      revokedAt: new Date(),
+    });
     for (const authorization of [`Bearer ${secret}`, 'Bearer sw_unknown', 'Basic abc']) {
       const res = await account.GET(req('GET', '/api/account', { headers: { authorization } }), params({}));
       expect(res.status, authorization).toBe(401);
@@ -108,7 +144,10 @@ describe('tokens and sessions that are not valid', () => {
   });
 
   it('a session cookie signed with another secret is 401', async () => {
-    const res = await account.GET(req('GET', '/api/account', { headers: { cookie: 'next-auth.session-token=not-a-jwt' } }), params({}));
+    const res = await account.GET(
+      req('GET', '/api/account', { headers: { cookie: 'next-auth.session-token=not-a-jwt' } }),
+      params({}),
+    );
     expect(res.status).toBe(401);
   });
 });
@@ -116,17 +155,29 @@ describe('tokens and sessions that are not valid', () => {
 describe('cross-team ids', () => {
   it("the other team's admin gets 404 for a demo-team member, and the member is unchanged", async () => {
     const viewer = await userOf('viewer');
-    const res = await memberById.PATCH(req('PATCH', `/api/team/members/${viewer.id}`, { body: { role: 'admin' }, headers: await browserHeaders('otherAdmin') }), params({ id: String(viewer.id) }));
+    const res = await memberById.PATCH(
+      req('PATCH', `/api/team/members/${viewer.id}`, {
+        body: { role: 'admin' },
+        headers: await browserHeaders('otherAdmin'),
+      }),
+      params({ id: String(viewer.id) }),
+    );
     expect(res.status).toBe(404);
     expect((await json(res)).error.code).toBe('not_found');
     expect((await userOf('viewer')).role).toBe('viewer');
-    const del = await memberById.DELETE(req('DELETE', `/api/team/members/${viewer.id}`, { headers: await browserHeaders('otherAdmin') }), params({ id: String(viewer.id) }));
+    const del = await memberById.DELETE(
+      req('DELETE', `/api/team/members/${viewer.id}`, { headers: await browserHeaders('otherAdmin') }),
+      params({ id: String(viewer.id) }),
+    );
     expect(del.status).toBe(404);
     expect(await User.count({ where: { id: viewer.id } })).toBe(1);
   });
 
   it('a non-numeric id is 404, not a crash', async () => {
-    const res = await memberById.PATCH(req('PATCH', '/api/team/members/abc', { body: { role: 'admin' }, headers: await browserHeaders('admin') }), params({ id: 'abc' }));
+    const res = await memberById.PATCH(
+      req('PATCH', '/api/team/members/abc', { body: { role: 'admin' }, headers: await browserHeaders('admin') }),
+      params({ id: 'abc' }),
+    );
     expect(res.status).toBe(404);
   });
 });
@@ -135,7 +186,10 @@ describe('bodies', () => {
   it('an oversized body is 413 and nothing is written', async () => {
     const before = await counts();
     const big = JSON.stringify({ name: 'x'.repeat(1_100_000) });
-    const res = await tokens.POST(req('POST', '/api/account/tokens', { body: big, headers: await browserHeaders('engineer') }), params({}));
+    const res = await tokens.POST(
+      req('POST', '/api/account/tokens', { body: big, headers: await browserHeaders('engineer') }),
+      params({}),
+    );
     expect(res.status).toBe(413);
     expect((await json(res)).error.code).toBe('too_large');
     expect(await counts()).toEqual(before);
@@ -152,21 +206,38 @@ describe('bodies', () => {
       },
     });
     const headers = { ...(await browserHeaders('engineer')), 'content-type': 'application/json' };
-    const request = new Request('http://localhost:3000/api/account/tokens', { method: 'POST', headers, body: stream, duplex: 'half' } as RequestInit);
+    const request = new Request('http://localhost:3000/api/account/tokens', {
+      method: 'POST',
+      headers,
+      body: stream,
+      duplex: 'half',
+    } as RequestInit);
     const res = await tokens.POST(request, params({}));
     expect(res.status).toBe(413);
   });
 
   it('malformed JSON is 400, a wrong content type 415, and invalid fields 422 naming the field', async () => {
     const headers = await browserHeaders('admin');
-    const bad = await team.PATCH(req('PATCH', '/api/team', { body: '{"allowViewerDatasetExport": tru', headers }), params({}));
+    const bad = await team.PATCH(
+      req('PATCH', '/api/team', { body: '{"allowViewerDatasetExport": tru', headers }),
+      params({}),
+    );
     expect(bad.status).toBe(400);
     expect((await json(bad)).error.code).toBe('bad_json');
 
-    const form = await team.PATCH(req('PATCH', '/api/team', { body: 'a=b', headers: { ...headers, 'content-type': 'application/x-www-form-urlencoded' } }), params({}));
+    const form = await team.PATCH(
+      req('PATCH', '/api/team', {
+        body: 'a=b',
+        headers: { ...headers, 'content-type': 'application/x-www-form-urlencoded' },
+      }),
+      params({}),
+    );
     expect(form.status).toBe(415);
 
-    const invalid = await team.PATCH(req('PATCH', '/api/team', { body: { allowViewerDatasetExport: 'yes' }, headers }), params({}));
+    const invalid = await team.PATCH(
+      req('PATCH', '/api/team', { body: { allowViewerDatasetExport: 'yes' }, headers }),
+      params({}),
+    );
     expect(invalid.status).toBe(422);
     const body = await json(invalid);
     expect(body.error.code).toBe('validation_failed');
@@ -180,7 +251,13 @@ describe('bodies', () => {
   });
 
   it('an invitation with a bad e-mail and role is 422 with both fields and no invitation', async () => {
-    const res = await invitations.POST(req('POST', '/api/team/invitations', { body: { email: 'not-an-address', role: 'captain' }, headers: await browserHeaders('admin') }), params({}));
+    const res = await invitations.POST(
+      req('POST', '/api/team/invitations', {
+        body: { email: 'not-an-address', role: 'captain' },
+        headers: await browserHeaders('admin'),
+      }),
+      params({}),
+    );
     expect(res.status).toBe(422);
     const body = await json(res);
     expect(Object.keys(body.error.fields).sort()).toEqual(['email', 'role']);
@@ -191,7 +268,13 @@ describe('bodies', () => {
 describe('team rules', () => {
   it('the last admin cannot be demoted (409) and stays admin', async () => {
     const admin = await userOf('admin');
-    const res = await memberById.PATCH(req('PATCH', `/api/team/members/${admin.id}`, { body: { role: 'viewer' }, headers: await browserHeaders('admin') }), params({ id: String(admin.id) }));
+    const res = await memberById.PATCH(
+      req('PATCH', `/api/team/members/${admin.id}`, {
+        body: { role: 'viewer' },
+        headers: await browserHeaders('admin'),
+      }),
+      params({ id: String(admin.id) }),
+    );
     expect(res.status).toBe(409);
     expect((await userOf('admin')).role).toBe('admin');
   });

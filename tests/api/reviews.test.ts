@@ -31,22 +31,38 @@ async function get(who: Who, query: string) {
 describe('reviews and sign-off', () => {
   it('a reviewer approves revision 1: the thread shows the sign-off with name and time, and the author is told by e-mail', async () => {
     const before = Date.now();
-    const res = await post('reviewer', { arrayId, revision: 1, kind: 'approval', body: 'Spacing checked against the 6 kHz band.' });
+    const res = await post('reviewer', {
+      arrayId,
+      revision: 1,
+      kind: 'approval',
+      body: 'Spacing checked against the 6 kHz band.',
+    });
     const body = await json(res);
     expect(res.status, JSON.stringify(body)).toBe(201);
     expect(body.status).toBe('approved');
     expect(body.signOffs).toHaveLength(1);
-    expect(body.signOffs[0]).toMatchObject({ by: 'Ilse Carrow', role: 'reviewer', note: 'Spacing checked against the 6 kHz band.' });
+    expect(body.signOffs[0]).toMatchObject({
+      by: 'Ilse Carrow',
+      role: 'reviewer',
+      note: 'Spacing checked against the 6 kHz band.',
+    });
     expect(Date.parse(body.signOffs[0].at)).toBeGreaterThanOrEqual(before - 1000);
     expect(body.notified).toBe(true);
-    const mail = (await OutboxMessage.findAll()).find((m) => m.to.includes('engineer@steerwise.test') && m.subject.includes('approved'));
+    const mail = (await OutboxMessage.findAll()).find(
+      (m) => m.to.includes('engineer@steerwise.test') && m.subject.includes('approved'),
+    );
     expect(mail?.subject).toBe('Ilse Carrow approved "Port Alder inshore line" revision 1');
     expect(mail?.text).toContain(`http://localhost:3000/arrays/${arrayId}?rev=1`);
     expect(await AuditEvent.count({ where: { action: 'review.approved' } })).toBe(1);
   });
 
   it('engineers reply with comments but may not approve or ask for changes; viewers may not comment', async () => {
-    const c = await post('engineer', { arrayId, revision: 1, kind: 'comment', body: 'Thanks — the calibration of element 3 is from the tank test.' });
+    const c = await post('engineer', {
+      arrayId,
+      revision: 1,
+      kind: 'comment',
+      body: 'Thanks — the calibration of element 3 is from the tank test.',
+    });
     expect(c.status).toBe(201);
     expect((await json(c)).notified).toBeNull(); // the author does not mail themselves
     const a = await post('engineer', { arrayId, revision: 1, kind: 'approval' });
@@ -74,7 +90,13 @@ describe('reviews and sign-off', () => {
   });
 
   it('a later edit makes revision 2 without a sign-off; revision 1 keeps its own', async () => {
-    const patch = await arrayRoute.PATCH(req('PATCH', `/api/v1/arrays/${arrayId}`, { body: { spacing: { value: 0.12, unit: 'm' } }, headers: await browserHeaders('engineer') }), params({ id: String(arrayId) }));
+    const patch = await arrayRoute.PATCH(
+      req('PATCH', `/api/v1/arrays/${arrayId}`, {
+        body: { spacing: { value: 0.12, unit: 'm' } },
+        headers: await browserHeaders('engineer'),
+      }),
+      params({ id: String(arrayId) }),
+    );
     expect(patch.status).toBe(200);
     expect((await json(patch)).revision).toBe(2);
     const r2 = await json(await get('viewer', `arrayId=${arrayId}&revision=2`));
@@ -89,10 +111,18 @@ describe('reviews and sign-off', () => {
   });
 
   it('runs are reviewed too: a request for changes, then an approval, each decides the status', async () => {
-    const changes = await json(await post('reviewer', { runId, kind: 'changes-requested', body: 'Re-run with forward–backward off to compare.' }));
+    const changes = await json(
+      await post('reviewer', {
+        runId,
+        kind: 'changes-requested',
+        body: 'Re-run with forward–backward off to compare.',
+      }),
+    );
     expect(changes.status).toBe('changes-requested');
     expect(changes.target).toEqual({ type: 'run', runId });
-    const mail = (await OutboxMessage.findAll()).find((m) => m.subject === `Ilse Carrow asked for changes to estimate run ${runId}`);
+    const mail = (await OutboxMessage.findAll()).find(
+      (m) => m.subject === `Ilse Carrow asked for changes to estimate run ${runId}`,
+    );
     expect(mail?.to).toContain('engineer@steerwise.test');
     const approved = await json(await post('reviewer', { runId, kind: 'approval' }));
     expect(approved.status).toBe('approved');

@@ -23,11 +23,17 @@ const small = {
 };
 
 async function post(who: Who, body: unknown) {
-  const res = await studies.POST(req('POST', '/api/v1/studies', { body, headers: await browserHeaders(who) }), params({}));
+  const res = await studies.POST(
+    req('POST', '/api/v1/studies', { body, headers: await browserHeaders(who) }),
+    params({}),
+  );
   return { status: res.status, body: await json(res) };
 }
 async function get(who: Who, id: number | string) {
-  const res = await studyById.GET(req('GET', `/api/v1/studies/${id}`, { headers: await browserHeaders(who) }), params({ id: String(id) }));
+  const res = await studyById.GET(
+    req('GET', `/api/v1/studies/${id}`, { headers: await browserHeaders(who) }),
+    params({ id: String(id) }),
+  );
   return { status: res.status, body: await json(res) };
 }
 async function list(who: Who) {
@@ -35,7 +41,10 @@ async function list(who: Who) {
   return { status: res.status, body: await json(res) };
 }
 async function del(who: Who, id: number | string) {
-  const res = await studyById.DELETE(req('DELETE', `/api/v1/studies/${id}`, { headers: await browserHeaders(who) }), params({ id: String(id) }));
+  const res = await studyById.DELETE(
+    req('DELETE', `/api/v1/studies/${id}`, { headers: await browserHeaders(who) }),
+    params({ id: String(id) }),
+  );
   return { status: res.status };
 }
 async function waitDone(id: number, who: Who = 'engineer') {
@@ -91,7 +100,13 @@ describe('POST /api/v1/studies → poll → result', () => {
       if (rev && !states.some((s) => s && s.enabled === false)) array = a;
     }
     expect(array).not.toBeNull();
-    const created = await post('engineer', { ...small, array: undefined, arrayId: array!.id, trials: 5, methods: ['esprit-ls'] });
+    const created = await post('engineer', {
+      ...small,
+      array: undefined,
+      arrayId: array!.id,
+      trials: 5,
+      methods: ['esprit-ls'],
+    });
     expect(created.status, JSON.stringify(created.body)).toBe(202);
     const done = await waitDone(created.body.id);
     expect(done.body.inputs.array.arrayId).toBe(array!.id);
@@ -110,7 +125,11 @@ describe('refusals (nothing written)', () => {
     ['bearing out of range', { sources: { bearingsDeg: [95], powersDb: [0] } }, 'sources'],
     ['powers count', { sources: { bearingsDeg: [0, 5], powersDb: [0] } }, 'sources'],
     ['sweep variable', { sweep: { variable: 'aperture', values: [1] } }, 'sweep'],
-    ['K ≥ M at a point', { sources: { bearingsDeg: [-10, 0, 10], powersDb: [0, 0, 0] }, sweep: { variable: 'elements', values: [3, 10] } }, 'sweep.values'],
+    [
+      'K ≥ M at a point',
+      { sources: { bearingsDeg: [-10, 0, 10], powersDb: [0, 0, 0] }, sweep: { variable: 'elements', values: [3, 10] } },
+      'sweep.values',
+    ],
     ['fractional N', { sweep: { variable: 'snapshots', values: [10.5] } }, 'sweep.values'],
   ];
   for (const [label, patch, field] of cases) {
@@ -127,7 +146,13 @@ describe('refusals (nothing written)', () => {
 
   it('over the budget → 422 that says how to shrink it', async () => {
     const before = await Study.count();
-    const res = await post('engineer', { ...small, array: { elements: 64, spacingWavelengths: 0.5 }, methods: ['music', 'mvdr', 'bartlett'], trials: 5000, sweep: { variable: 'snr', values: [0, 5, 10, 15, 20] } });
+    const res = await post('engineer', {
+      ...small,
+      array: { elements: 64, spacingWavelengths: 0.5 },
+      methods: ['music', 'mvdr', 'bartlett'],
+      trials: 5000,
+      sweep: { variable: 'snr', values: [0, 5, 10, 15, 20] },
+    });
     expect(res.status).toBe(422);
     expect(res.body.error.fields.trials).toBeDefined();
     expect(res.body.error.message).toMatch(/over the compute budget/);
@@ -137,15 +162,43 @@ describe('refusals (nothing written)', () => {
 
   it('malformed JSON → 400', async () => {
     const headers = await browserHeaders('engineer');
-    const res = await studies.POST(new Request('http://localhost:3000/api/v1/studies', { method: 'POST', body: '{', headers: { ...headers, 'content-type': 'application/json' } }), params({}));
+    const res = await studies.POST(
+      new Request('http://localhost:3000/api/v1/studies', {
+        method: 'POST',
+        body: '{',
+        headers: { ...headers, 'content-type': 'application/json' },
+      }),
+      params({}),
+    );
     expect(res.status).toBe(400);
   });
 });
 
 describe('role matrix', () => {
-  const expectCreate: Record<Who, number> = { anonymous: 401, viewer: 403, reviewer: 403, engineer: 202, admin: 202, otherAdmin: 202 };
-  const expectRead: Record<Who, number> = { anonymous: 401, viewer: 200, reviewer: 200, engineer: 200, admin: 200, otherAdmin: 404 };
-  const expectDelete: Record<Who, number> = { anonymous: 401, viewer: 403, reviewer: 403, engineer: 204, admin: 204, otherAdmin: 404 };
+  const expectCreate: Record<Who, number> = {
+    anonymous: 401,
+    viewer: 403,
+    reviewer: 403,
+    engineer: 202,
+    admin: 202,
+    otherAdmin: 202,
+  };
+  const expectRead: Record<Who, number> = {
+    anonymous: 401,
+    viewer: 200,
+    reviewer: 200,
+    engineer: 200,
+    admin: 200,
+    otherAdmin: 404,
+  };
+  const expectDelete: Record<Who, number> = {
+    anonymous: 401,
+    viewer: 403,
+    reviewer: 403,
+    engineer: 204,
+    admin: 204,
+    otherAdmin: 404,
+  };
   const tiny = { ...small, trials: 2, methods: ['esprit-ls'] };
 
   for (const who of everyone) {
@@ -163,7 +216,8 @@ describe('role matrix', () => {
       const target = await post('engineer', tiny);
       await waitDone(target.body.id);
       expect((await list(who)).status).toBe(who === 'anonymous' ? 401 : 200);
-      if (who === 'otherAdmin') expect((await list(who)).body.items.some((s: { id: number }) => s.id === target.body.id)).toBe(false);
+      if (who === 'otherAdmin')
+        expect((await list(who)).body.items.some((s: { id: number }) => s.id === target.body.id)).toBe(false);
       expect((await get(who, target.body.id)).status).toBe(expectRead[who]);
       expect((await del(who, target.body.id)).status).toBe(expectDelete[who]);
       const after = await Study.findByPk(target.body.id);

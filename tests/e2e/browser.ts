@@ -5,7 +5,16 @@ import { afterAll, beforeAll, inject } from 'vitest';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
 export const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
-export const CHROMIUM_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-quic', '--no-first-run', '--disable-component-update', '--disable-sync'];
+export const CHROMIUM_ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-component-update',
+  '--disable-sync',
+];
 export const SHOTS = path.resolve(__dirname, '../../test-results');
 
 /** Each launch gets a fresh temporary profile (user-data-dir), removed on close. */
@@ -14,7 +23,11 @@ export async function launch(): Promise<Browser> {
   return chromium.launch({ executablePath: CHROMIUM, args: CHROMIUM_ARGS, headless: true });
 }
 
-export async function newPage(browser: Browser, baseUrl: string, viewport = { width: 1360, height: 900 }): Promise<{ context: BrowserContext; page: Page }> {
+export async function newPage(
+  browser: Browser,
+  baseUrl: string,
+  viewport = { width: 1360, height: 900 },
+): Promise<{ context: BrowserContext; page: Page }> {
   const context = await browser.newContext({ baseURL: baseUrl, viewport });
   const page = await context.newPage();
   page.setDefaultTimeout(20_000);
@@ -39,7 +52,11 @@ export function browserForFile() {
     if (!launched) throw new Error('the browser is launched in beforeAll: use it inside a test');
     return launched;
   };
-  return { baseUrl, browser, open: (viewport?: { width: number; height: number }) => newPage(browser(), baseUrl, viewport) };
+  return {
+    baseUrl,
+    browser,
+    open: (viewport?: { width: number; height: number }) => newPage(browser(), baseUrl, viewport),
+  };
 }
 
 /** The CSRF token of the page's session, for API calls made with page.request. */

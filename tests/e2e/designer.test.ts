@@ -11,7 +11,15 @@ import fs from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { apertureWavelengths, arrayMetrics, firstNullBeamwidthDeg, gratingLobeFreeScanDeg, halfPowerBeamwidthDeg, peakSidelobeDb, rayleighGap } from '@/lib/doa/design/array-figures';
+import {
+  apertureWavelengths,
+  arrayMetrics,
+  firstNullBeamwidthDeg,
+  gratingLobeFreeScanDeg,
+  halfPowerBeamwidthDeg,
+  peakSidelobeDb,
+  rayleighGap,
+} from '@/lib/doa/design/array-figures';
 import { arrayInputSchema, resolveArrayGeometry, type ArrayInput } from '@/lib/validations/array';
 import { browserForFile, shot, signIn } from './browser';
 
@@ -40,8 +48,19 @@ async function expectFiguresMatchEngine(page: Page, label: string): Promise<Arra
   const s = await state(page);
   const d = spacingOf(s);
   const states = s.elementStates!;
-  const taper = s.taper!.kind === 'chebyshev' ? { kind: 'chebyshev' as const, sidelobeDb: s.taper!.sidelobeDb } : { kind: s.taper!.kind };
-  const options = { elements: s.elements, spacingWavelengths: d, steerDeg: s.steerDeg ?? 0, taper, enabled: states.map((e) => e.enabled), gainDb: states.map((e) => e.gainDb), phaseDeg: states.map((e) => e.phaseDeg) };
+  const taper =
+    s.taper!.kind === 'chebyshev'
+      ? { kind: 'chebyshev' as const, sidelobeDb: s.taper!.sidelobeDb }
+      : { kind: s.taper!.kind };
+  const options = {
+    elements: s.elements,
+    spacingWavelengths: d,
+    steerDeg: s.steerDeg ?? 0,
+    taper,
+    enabled: states.map((e) => e.enabled),
+    gainDb: states.map((e) => e.gainDb),
+    phaseDeg: states.map((e) => e.phaseDeg),
+  };
   const expected: Record<string, number | null> = {
     hpbw: halfPowerBeamwidthDeg(options),
     fnbw: firstNullBeamwidthDeg(options),
@@ -53,7 +72,10 @@ async function expectFiguresMatchEngine(page: Page, label: string): Promise<Arra
   for (const [id, want] of Object.entries(expected)) {
     const got = await shownFigure(page, id);
     if (want === null) expect(got, `${label}: ${id}`).toBeNull();
-    else expect(Math.abs(got! - want), `${label}: ${id} shown ${got}, engine ${want}`).toBeLessThanOrEqual(1e-8 * Math.max(1, Math.abs(want)));
+    else
+      expect(Math.abs(got! - want), `${label}: ${id} shown ${got}, engine ${want}`).toBeLessThanOrEqual(
+        1e-8 * Math.max(1, Math.abs(want)),
+      );
   }
   return s;
 }
@@ -75,7 +97,10 @@ async function drag(page: Page, testId: string, dx: number, dy: number, steps = 
 function watchErrors(page: Page): string[] {
   const errors: string[] = [];
   page.on('pageerror', (e) => errors.push(String(e)));
-  page.on('console', (m) => m.type() === 'error' && !m.text().startsWith('Failed to load resource') && errors.push(m.text()));
+  page.on(
+    'console',
+    (m) => m.type() === 'error' && !m.text().startsWith('Failed to load resource') && errors.push(m.text()),
+  );
   page.on('response', (r) => r.status() >= 400 && errors.push(`${r.status()} ${r.url()}`));
   return errors;
 }
@@ -125,7 +150,9 @@ describe('an engineer designs an array in the browser', () => {
       s = await expectFiguresMatchEngine(page, 'after disable');
       expect(s.elementStates![2].enabled).toBe(false);
       await expect(page.getByTestId('disabled-notice').isVisible()).resolves.toBe(true);
-      await expect(page.getByTestId('disabled-notice').textContent()).resolves.toMatch(/ESPRIT[\s\S]*refuses to run on this revision/);
+      await expect(page.getByTestId('disabled-notice').textContent()).resolves.toMatch(
+        /ESPRIT[\s\S]*refuses to run on this revision/,
+      );
 
       // 4. Drag source 1's arrow to a new bearing.
       const b0 = s.plannedSources![0].bearingDeg;
@@ -139,7 +166,7 @@ describe('an engineer designs an array in the browser', () => {
       await page.getByTestId('element-5').focus();
       await page.keyboard.press('ArrowLeft');
       s = await expectFiguresMatchEngine(page, 'after ArrowLeft');
-      expect(Math.abs(spacingOf(s) - (Math.round((d5 - 0.01) * 1e4) / 1e4))).toBeLessThan(1e-12);
+      expect(Math.abs(spacingOf(s) - Math.round((d5 - 0.01) * 1e4) / 1e4)).toBeLessThan(1e-12);
       await page.keyboard.press('Enter');
       s = await expectFiguresMatchEngine(page, 'after Enter');
       expect(s.elementStates![5].enabled).toBe(false);
@@ -157,7 +184,9 @@ describe('an engineer designs an array in the browser', () => {
       expect(api1).toMatchObject({ name: arrayName, revision: 1, elements: 10 });
       expect(Math.abs(api1.spacingWavelengths - spacingOf(s))).toBeLessThan(1e-12);
       expect(api1.metrics).toEqual(arrayMetrics(api1.elements, api1.spacingWavelengths));
-      expect(api1.config.elementStates.map((e: { enabled: boolean }) => e.enabled).filter((x: boolean) => !x).length).toBe(2);
+      expect(
+        api1.config.elementStates.map((e: { enabled: boolean }) => e.enabled).filter((x: boolean) => !x).length,
+      ).toBe(2);
       s = await expectFiguresMatchEngine(page, 'reopened');
       expect(s.elements).toBe(10);
 
@@ -181,9 +210,19 @@ describe('an engineer designs an array in the browser', () => {
       for (const [kind, ok] of [
         ['png', (b: Buffer) => b.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))],
         ['svg', (b: Buffer) => b.toString('utf8').includes('xmlns="http://www.w3.org/2000/svg"')],
-        ['csv', (b: Buffer) => b.toString('utf8').split('\n').some((l) => l === 'theta_deg,u,level_db')],
+        [
+          'csv',
+          (b: Buffer) =>
+            b
+              .toString('utf8')
+              .split('\n')
+              .some((l) => l === 'theta_deg,u,level_db'),
+        ],
       ] as const) {
-        const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId(`pattern-export-${kind}`).click()]);
+        const [download] = await Promise.all([
+          page.waitForEvent('download'),
+          page.getByTestId(`pattern-export-${kind}`).click(),
+        ]);
         expect(ok(fs.readFileSync((await download.path())!)), `${kind} export`).toBe(true);
       }
       expect(errors).toEqual([]);
@@ -246,12 +285,16 @@ describe('a reviewer opens an array read-only', () => {
       await page.goto('/arrays');
       await page.getByRole('table', { name: 'Arrays' }).waitFor();
       expect(await page.getByTestId('new-array').count()).toBe(0);
-      await expect(page.getByRole('note').textContent()).resolves.toContain('Your role (reviewer) cannot create or edit arrays.');
+      await expect(page.getByRole('note').textContent()).resolves.toContain(
+        'Your role (reviewer) cannot create or edit arrays.',
+      );
 
       await page.getByRole('link', { name: arrayName }).click();
       await page.waitForURL(`**/arrays/${arrayId}`);
       await page.getByTestId('element-0').waitFor({ timeout: 60_000 });
-      await expect(page.getByTestId('read-only-note').textContent()).resolves.toContain('Your role (reviewer) cannot create or edit arrays.');
+      await expect(page.getByTestId('read-only-note').textContent()).resolves.toContain(
+        'Your role (reviewer) cannot create or edit arrays.',
+      );
       await expect(page.getByTestId('designer').getAttribute('data-read-only')).resolves.toBe('true');
       expect(await page.getByTestId('save-revision').count()).toBe(0);
       await expect(page.getByTestId('element-0').isDisabled()).resolves.toBe(true);
@@ -271,7 +314,10 @@ describe('a reviewer opens an array read-only', () => {
 
       // A PATCH from the reviewer's session is refused by the server as well.
       const csrf = (await (await page.request.get('/api/auth/csrf')).json()).csrfToken as string;
-      const refused = await page.request.patch(`/api/v1/arrays/${arrayId}`, { data: { elements: 4 }, headers: { 'x-csrf-token': csrf } });
+      const refused = await page.request.patch(`/api/v1/arrays/${arrayId}`, {
+        data: { elements: 4 },
+        headers: { 'x-csrf-token': csrf },
+      });
       expect(refused.status()).toBe(403);
 
       // Revision 1, read-only with a note and a way back to the latest.
@@ -285,7 +331,9 @@ describe('a reviewer opens an array read-only', () => {
       await shot(page, 'designer-05-reviewer-old-revision');
 
       await page.goto('/arrays/new');
-      await expect(page.locator('#main').getByRole('alert').textContent()).resolves.toContain('Your role (reviewer) cannot create or edit arrays.');
+      await expect(page.locator('#main').getByRole('alert').textContent()).resolves.toContain(
+        'Your role (reviewer) cannot create or edit arrays.',
+      );
       expect(errors.filter((e) => !e.includes(`/api/v1/arrays/${arrayId}`))).toEqual([]);
     } finally {
       await context.close();

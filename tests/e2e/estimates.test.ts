@@ -25,14 +25,26 @@ describe('datasets and estimates in the browser', () => {
       // Slow the upload down so the progress bar is visible.
       const cdp = await context.newCDPSession(page);
       await cdp.send('Network.enable');
-      await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 20, downloadThroughput: 200_000, uploadThroughput: 20_000 });
+      await cdp.send('Network.emulateNetworkConditions', {
+        offline: false,
+        latency: 20,
+        downloadThroughput: 200_000,
+        uploadThroughput: 20_000,
+      });
       await page.getByRole('button', { name: 'Upload', exact: true }).click();
       const bar = page.getByRole('progressbar', { name: 'Upload progress' });
       await bar.waitFor();
-      await page.waitForFunction(() => Number(document.querySelector('[aria-label="Upload progress"]')?.getAttribute('aria-valuenow') ?? 0) > 0);
+      await page.waitForFunction(
+        () => Number(document.querySelector('[aria-label="Upload progress"]')?.getAttribute('aria-valuenow') ?? 0) > 0,
+      );
       await shot(page, 'estimates-02-upload-progress');
       await page.waitForURL(/\/datasets\/\d+$/, { timeout: 60_000 });
-      await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+      await cdp.send('Network.emulateNetworkConditions', {
+        offline: false,
+        latency: 0,
+        downloadThroughput: -1,
+        uploadThroughput: -1,
+      });
       await expect(page.getByTestId('sha256').textContent()).resolves.toBe(scenario.csvSha256);
       await page.getByRole('img', { name: 'Eigenvalues with the MDL and AIC choices' }).waitFor();
       await shot(page, 'estimates-03-dataset-page');
@@ -68,10 +80,16 @@ describe('datasets and estimates in the browser', () => {
     try {
       await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
       await page.goto('/estimates');
-      await page.getByLabel('Dataset').selectOption({ label: 'Port Alder harbour line — Marsh Wren and Coldharbour (400 × 16, CSV)' });
+      await page
+        .getByLabel('Dataset')
+        .selectOption({ label: 'Port Alder harbour line — Marsh Wren and Coldharbour (400 × 16, CSV)' });
       const arraySelect = page.getByLabel('Array', { exact: true });
       const options = await arraySelect.locator('option').allTextContents();
-      expect(options.map((o) => o.replace(/ —.*$/, ''))).toEqual(['Port Alder hydrophone line r3', 'Port Alder hydrophone line r2', 'Port Alder hydrophone line r1']);
+      expect(options.map((o) => o.replace(/ —.*$/, ''))).toEqual([
+        'Port Alder hydrophone line r3',
+        'Port Alder hydrophone line r2',
+        'Port Alder hydrophone line r1',
+      ]);
       expect(options[1]).toContain('has disabled elements');
       // The default is the newest revision without disabled elements.
       await expect(arraySelect.inputValue()).resolves.toMatch(/:3$/);

@@ -39,7 +39,18 @@ function newestSource(): number {
       for (const entry of fs.readdirSync(p)) walk(path.join(p, entry));
     } else newest = Math.max(newest, st.mtimeMs);
   };
-  for (const p of ['app', 'components', 'lib', 'models', 'proxy.ts', 'instrumentation.ts', 'next.config.mjs', 'tailwind.config.ts', 'postcss.config.mjs', 'package.json']) {
+  for (const p of [
+    'app',
+    'components',
+    'lib',
+    'models',
+    'proxy.ts',
+    'instrumentation.ts',
+    'next.config.mjs',
+    'tailwind.config.ts',
+    'postcss.config.mjs',
+    'package.json',
+  ]) {
     const full = path.join(root, p);
     if (fs.existsSync(full)) walk(full);
   }
@@ -48,17 +59,28 @@ function newestSource(): number {
 
 function buildIfNeeded(): void {
   const buildId = path.join(root, '.next', 'BUILD_ID');
-  if (fs.existsSync(buildId) && fs.statSync(buildId).mtimeMs > newestSource() && !process.env.STEERWISE_E2E_REBUILD) return;
+  if (fs.existsSync(buildId) && fs.statSync(buildId).mtimeMs > newestSource() && !process.env.STEERWISE_E2E_REBUILD)
+    return;
   fs.mkdirSync(path.join(root, 'test-results'), { recursive: true });
   const log = path.join(root, 'test-results', 'e2e-build.log');
   console.log(`[e2e] building the app (next build); log in ${path.relative(root, log)}`);
-  const res = spawnSync(process.execPath, [path.join(root, 'node_modules/next/dist/bin/next'), 'build'], { cwd: root, encoding: 'utf8', env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1' }, maxBuffer: 64 * 1024 * 1024 });
+  const res = spawnSync(process.execPath, [path.join(root, 'node_modules/next/dist/bin/next'), 'build'], {
+    cwd: root,
+    encoding: 'utf8',
+    env: { ...process.env, NODE_ENV: 'production', NEXT_TELEMETRY_DISABLED: '1' },
+    maxBuffer: 64 * 1024 * 1024,
+  });
   fs.writeFileSync(log, `${res.stdout}\n${res.stderr}`);
-  if (res.status !== 0) throw new Error(`next build failed (exit ${res.status}):\n${`${res.stdout}\n${res.stderr}`.slice(-4000)}`);
+  if (res.status !== 0)
+    throw new Error(`next build failed (exit ${res.status}):\n${`${res.stdout}\n${res.stderr}`.slice(-4000)}`);
 }
 
 function runScript(script: string, env: NodeJS.ProcessEnv): void {
-  const res = spawnSync(process.execPath, [path.join(root, 'node_modules/tsx/dist/cli.mjs'), script], { cwd: root, env, encoding: 'utf8' });
+  const res = spawnSync(process.execPath, [path.join(root, 'node_modules/tsx/dist/cli.mjs'), script], {
+    cwd: root,
+    env,
+    encoding: 'utf8',
+  });
   if (res.status !== 0) throw new Error(`${script} failed:\n${res.stdout}\n${res.stderr}`);
 }
 
@@ -111,7 +133,8 @@ async function acquireLock(): Promise<() => void> {
       fs.rmSync(lockDir, { recursive: true, force: true });
       continue;
     }
-    if (Date.now() > deadline) throw new Error(`another browser-test run (pid ${owner}) has held ${lockDir} for 30 minutes`);
+    if (Date.now() > deadline)
+      throw new Error(`another browser-test run (pid ${owner}) has held ${lockDir} for 30 minutes`);
     if (!told) {
       console.log(`[e2e] waiting for another browser-test run (pid ${owner || '?'}) to finish`);
       told = true;
@@ -153,7 +176,11 @@ export default async function setup(project: TestProject) {
   }
 
   let output = '';
-  const server = spawn(process.execPath, [path.join(root, 'node_modules/next/dist/bin/next'), 'start', '-p', String(appPort), '-H', '127.0.0.1'], { cwd: root, env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
+  const server = spawn(
+    process.execPath,
+    [path.join(root, 'node_modules/next/dist/bin/next'), 'start', '-p', String(appPort), '-H', '127.0.0.1'],
+    { cwd: root, env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] },
+  );
   server.stdout!.on('data', (d) => (output += d));
   server.stderr!.on('data', (d) => (output += d));
   const stop = async () => {

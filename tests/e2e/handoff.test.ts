@@ -28,10 +28,20 @@ describe('hand-off between two teams', () => {
     });
     expect(created.status(), await created.text()).toBe(201);
     const arrayId = ((await created.json()) as { id: number }).id;
-    const csv = snapshotsCsv({ elements: 8, spacingWavelengths: 0.5, bearingsDeg: [-12, 21], snapshots: 150, seed: 11 });
+    const csv = snapshotsCsv({
+      elements: 8,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-12, 21],
+      snapshots: 150,
+      seed: 11,
+    });
     const uploaded = await eng.page.request.post('/api/v1/datasets', {
       headers: { 'x-csrf-token': token },
-      multipart: { file: { name: 'trial-4.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) }, name: `Trial 4 ${stamp}`, arrayId: String(arrayId) },
+      multipart: {
+        file: { name: 'trial-4.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) },
+        name: `Trial 4 ${stamp}`,
+        arrayId: String(arrayId),
+      },
     });
     expect(uploaded.status(), await uploaded.text()).toBe(201);
     const datasetId = ((await uploaded.json()) as { id: number }).id;
@@ -45,7 +55,9 @@ describe('hand-off between two teams', () => {
     // 2. Engineer: the hand-off panel of revision 1; the run is offered; download works; send with a note.
     await eng.page.goto(`/handoff?array=${arrayId}&rev=1`);
     await eng.page.getByRole('heading', { name: `${arrayName}, revision 1` }).waitFor();
-    await expect(eng.page.getByLabel(new RegExp(`Run ${runId} \\(esprit-tls, root-music\\)`)).isChecked()).resolves.toBe(true);
+    await expect(
+      eng.page.getByLabel(new RegExp(`Run ${runId} \\(esprit-tls, root-music\\)`)).isChecked(),
+    ).resolves.toBe(true);
     const href = await eng.page.getByTestId('export-bundle').getAttribute('href');
     expect(href).toBe(`/api/v1/arrays/${arrayId}/bundle?revision=1&runs=${runId}`);
     const zip = await eng.page.request.get(href!);
@@ -65,7 +77,9 @@ describe('hand-off between two teams', () => {
     await rev.page.getByRole('button', { name: 'Approve and sign off' }).click();
     const signOff = rev.page.getByTestId('sign-off');
     await signOff.filter({ hasText: 'Signed off by Ilse Carrow (reviewer) on' }).waitFor();
-    expect(await signOff.textContent()).toMatch(/Signed off by Ilse Carrow \(reviewer\) on \d{1,2} \w{3} \d{4}, \d{2}:\d{2} UTC/);
+    expect(await signOff.textContent()).toMatch(
+      /Signed off by Ilse Carrow \(reviewer\) on \d{1,2} \w{3} \d{4}, \d{2}:\d{2} UTC/,
+    );
     await rev.page.reload();
     await signOff.filter({ hasText: 'Signed off by Ilse Carrow' }).waitFor();
     await shot(rev.page, 'handoff-2-reviewer-signed-off');
@@ -75,7 +89,10 @@ describe('hand-off between two teams', () => {
     const col = await open();
     await signIn(col.page, 'range-admin@steerwise.test', DEMO_PASSWORD);
     await col.page.goto('/outbox');
-    await col.page.getByRole('button', { name: new RegExp(`Tobin Hartree sent you "${arrayName}" revision 1`) }).first().click();
+    await col.page
+      .getByRole('button', { name: new RegExp(`Tobin Hartree sent you "${arrayName}" revision 1`) })
+      .first()
+      .click();
     const bodyText = (await col.page.getByTestId('outbox-body').textContent()) ?? '';
     expect(bodyText).toContain('Two contacts at −12° and 21°.');
     await shot(col.page, 'handoff-3-colleague-outbox');

@@ -14,7 +14,10 @@ const { baseUrl, open } = browserForFile();
 async function linkFromOutbox(page: Page, subject: string, to: string, path: '/invite' | '/reset'): Promise<string> {
   await page.goto('/outbox');
   await page.getByPlaceholder('Filter by recipient or subject').fill(to);
-  await page.getByRole('button', { name: new RegExp(subject) }).first().click();
+  await page
+    .getByRole('button', { name: new RegExp(subject) })
+    .first()
+    .click();
   const href = await page.getByTestId('outbox-body').locator(`a[href*="${path}?token="]`).first().getAttribute('href');
   expect(href).toBeTruthy();
   return href!;
@@ -30,12 +33,16 @@ describe('links by e-mail', () => {
       await admin.page.getByLabel('E-mail').fill('tide.gauge@steerwise.test');
       await admin.page.getByLabel('Role', { exact: true }).selectOption('reviewer');
       await admin.page.getByRole('button', { name: 'Send invitation' }).click();
-      await expect(admin.page.getByRole('status').textContent()).resolves.toContain('Invitation sent to tide.gauge@steerwise.test');
+      await expect(admin.page.getByRole('status').textContent()).resolves.toContain(
+        'Invitation sent to tide.gauge@steerwise.test',
+      );
       await shot(admin.page, 'team-admin-after-invite');
       const link = await linkFromOutbox(admin.page, 'You are invited', 'tide.gauge@steerwise.test', '/invite');
 
       await invitee.page.goto(link);
-      await expect(invitee.page.getByText('invited tide.gauge@steerwise.test as').textContent()).resolves.toContain('reviewer');
+      await expect(invitee.page.getByText('invited tide.gauge@steerwise.test as').textContent()).resolves.toContain(
+        'reviewer',
+      );
       await invitee.page.getByLabel('Your name').fill('Tamsin Gauge');
       await invitee.page.getByLabel('New password', { exact: true }).fill('slack water 1234');
       await invitee.page.getByLabel('New password again').fill('slack water 1234');
@@ -60,7 +67,12 @@ describe('links by e-mail', () => {
       await expect(anon.page.getByRole('status').textContent()).resolves.toContain('a reset link is on its way');
 
       await signIn(admin.page, 'admin@steerwise.test', DEMO_PASSWORD);
-      const link = await linkFromOutbox(admin.page, 'Reset your Steerwise password', 'tide.gauge@steerwise.test', '/reset');
+      const link = await linkFromOutbox(
+        admin.page,
+        'Reset your Steerwise password',
+        'tide.gauge@steerwise.test',
+        '/reset',
+      );
       await shot(admin.page, 'outbox-reset-mail');
       expect(link.startsWith(`${baseUrl}/reset?token=`)).toBe(true);
 

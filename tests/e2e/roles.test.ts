@@ -23,7 +23,9 @@ describe('each role signs in and sees its pages', () => {
       try {
         await signIn(page, r.email, DEMO_PASSWORD);
         await expect(page.getByTestId('current-role').textContent()).resolves.toBe(r.role);
-        await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe(`Good to see you, ${r.name.split(' ')[0]}`);
+        await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe(
+          `Good to see you, ${r.name.split(' ')[0]}`,
+        );
         await expect(page.getByText('Estimates are advisory.').isVisible()).resolves.toBe(true);
         const nav = page.getByRole('navigation', { name: 'Main' });
         for (const label of ['Arrays', 'Datasets', 'Estimates', 'Studies', 'Team', 'Account']) {
@@ -50,13 +52,17 @@ describe('each role signs in and sees its pages', () => {
         await shot(page, `role-${r.role}-audit`);
 
         await page.goto('/outbox');
-        if (!r.admin) await expect(alertIn(page).textContent()).resolves.toContain(`Your role (${r.role}) cannot read the outbox.`);
+        if (!r.admin)
+          await expect(alertIn(page).textContent()).resolves.toContain(`Your role (${r.role}) cannot read the outbox.`);
 
         // Team: everyone sees members; only admins get the invitation form.
         await page.goto('/team');
         await page.getByRole('table', { name: 'Team members' }).waitFor();
         expect(await page.getByRole('button', { name: 'Send invitation' }).count()).toBe(r.canManage ? 1 : 0);
-        if (!r.canManage) await expect(page.getByRole('note').textContent()).resolves.toContain(`Your role (${r.role}) cannot manage team members and invitations.`);
+        if (!r.canManage)
+          await expect(page.getByRole('note').textContent()).resolves.toContain(
+            `Your role (${r.role}) cannot manage team members and invitations.`,
+          );
         await shot(page, `role-${r.role}-team`);
       } finally {
         await context.close();
@@ -91,7 +97,9 @@ describe('sign-in refusals in the browser', () => {
         await alertIn(page).waitFor();
         await page.getByRole('button', { name: 'Sign in' }).and(page.locator(':not([disabled])')).waitFor();
       }
-      await expect(alertIn(page).textContent()).resolves.toMatch(/Too many failed sign-in attempts\. Wait \d+ minutes?/);
+      await expect(alertIn(page).textContent()).resolves.toMatch(
+        /Too many failed sign-in attempts\. Wait \d+ minutes?/,
+      );
       await shot(page, 'sign-in-rate-limited');
     } finally {
       await context.close();
@@ -151,7 +159,12 @@ describe('sign-in refusals in the browser', () => {
       await signIn(page, 'reviewer@steerwise.test', DEMO_PASSWORD);
       const menu = page.getByRole('button', { name: 'Menu' });
       await menu.click();
-      await expect(page.locator('#mobile-nav').getByRole('link', { name: /^Datasets/ }).isVisible()).resolves.toBe(true);
+      await expect(
+        page
+          .locator('#mobile-nav')
+          .getByRole('link', { name: /^Datasets/ })
+          .isVisible(),
+      ).resolves.toBe(true);
       await shot(page, 'mobile-reviewer-menu');
     } finally {
       await context.close();

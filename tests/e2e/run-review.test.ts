@@ -36,12 +36,18 @@ describe('review of an estimate run', () => {
     await signIn(eng.page, 'engineer@steerwise.test', DEMO_PASSWORD);
     const created = await eng.page.request.post('/api/v1/estimates', {
       headers: { 'x-csrf-token': await csrf(eng.page) },
-      data: { snapshots: snapshots(), array: { elements: 6, spacingWavelengths: 0.5 }, methods: ['esprit-ls'], sourceCount: 1 },
+      data: {
+        snapshots: snapshots(),
+        array: { elements: 6, spacingWavelengths: 0.5 },
+        methods: ['esprit-ls'],
+        sourceCount: 1,
+      },
     });
     expect(created.status(), await created.text()).toBe(201);
     const runId = ((await created.json()) as { id: number }).id;
     for (let i = 0; i < 100; i++) {
-      const status = ((await (await eng.page.request.get(`/api/v1/estimates/${runId}`)).json()) as { status: string }).status;
+      const status = ((await (await eng.page.request.get(`/api/v1/estimates/${runId}`)).json()) as { status: string })
+        .status;
       if (status === 'done') break;
       expect(status).not.toBe('failed');
       await eng.page.waitForTimeout(200);
@@ -49,29 +55,43 @@ describe('review of an estimate run', () => {
 
     await eng.page.goto(`/estimates/${runId}`);
     await eng.page.getByRole('heading', { name: `Review of run #${runId}` }).waitFor();
-    await eng.page.getByTestId('sign-off').filter({ hasText: `Run ${runId} has no sign-off yet.` }).waitFor();
+    await eng.page
+      .getByTestId('sign-off')
+      .filter({ hasText: `Run ${runId} has no sign-off yet.` })
+      .waitFor();
     // engineers comment but do not approve
     expect(await eng.page.getByRole('button', { name: 'Approve and sign off' }).count()).toBe(0);
     await eng.page.getByLabel('Reply with a comment').fill('One contact near 10°; please check.');
     await eng.page.getByRole('button', { name: 'Comment', exact: true }).click();
-    await eng.page.getByRole('list', { name: 'Review thread' }).getByText('One contact near 10°; please check.').waitFor();
+    await eng.page
+      .getByRole('list', { name: 'Review thread' })
+      .getByText('One contact near 10°; please check.')
+      .waitFor();
 
     const rev = await open();
     await signIn(rev.page, 'reviewer@steerwise.test', DEMO_PASSWORD);
     await rev.page.goto(`/estimates/${runId}`);
-    await rev.page.getByRole('list', { name: 'Review thread' }).getByText('One contact near 10°; please check.').waitFor();
+    await rev.page
+      .getByRole('list', { name: 'Review thread' })
+      .getByText('One contact near 10°; please check.')
+      .waitFor();
     await rev.page.getByLabel('Comment, or a note with your decision').fill('Bearing agrees with the bound.');
     await rev.page.getByRole('button', { name: 'Approve and sign off' }).click();
     const signOff = rev.page.getByTestId('sign-off');
     await signOff.filter({ hasText: 'Signed off by Ilse Carrow (reviewer) on' }).waitFor();
-    expect(await signOff.textContent()).toMatch(/Signed off by Ilse Carrow \(reviewer\) on \d{1,2} \w{3} \d{4}, \d{2}:\d{2} UTC: “Bearing agrees with the bound.”/);
+    expect(await signOff.textContent()).toMatch(
+      /Signed off by Ilse Carrow \(reviewer\) on \d{1,2} \w{3} \d{4}, \d{2}:\d{2} UTC: “Bearing agrees with the bound.”/,
+    );
     await rev.page.reload();
     await signOff.filter({ hasText: 'Signed off by Ilse Carrow (reviewer)' }).waitFor();
     await shot(rev.page, 'run-review-signed-off');
     await rev.context.close();
 
     // the API holds the same approval
-    const thread = (await (await eng.page.request.get(`/api/v1/reviews?runId=${runId}`)).json()) as { status: string; signOffs: { by: string }[] };
+    const thread = (await (await eng.page.request.get(`/api/v1/reviews?runId=${runId}`)).json()) as {
+      status: string;
+      signOffs: { by: string }[];
+    };
     expect(thread.status).toBe('approved');
     expect(thread.signOffs.map((s) => s.by)).toEqual(['Ilse Carrow']);
     await eng.page.reload();

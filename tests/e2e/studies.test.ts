@@ -59,8 +59,18 @@ describe('studies', () => {
     expect(cells[0]).toBe('8');
     expect(Number(cells[2])).toBeCloseTo(Number(first.methods[0].rmseDeg.toPrecision(4)), 10);
     const slope = body.result.slopes.find((s: { method: string }) => s.method === 'root-music').slope;
-    await page.getByText(`slope ${slope.toFixed(2)}`).first().waitFor();
-    console.info('browser M sweep: root-MUSIC slope', slope.toFixed(3), 'RMSE/√CRB', body.result.points.map((p: { methods: { rmseOverCrb: number }[] }) => p.methods[0].rmseOverCrb.toFixed(3)).join(' '));
+    await page
+      .getByText(`slope ${slope.toFixed(2)}`)
+      .first()
+      .waitFor();
+    console.info(
+      'browser M sweep: root-MUSIC slope',
+      slope.toFixed(3),
+      'RMSE/√CRB',
+      body.result.points
+        .map((p: { methods: { rmseOverCrb: number }[] }) => p.methods[0].rmseOverCrb.toFixed(3))
+        .join(' '),
+    );
     await context.close();
   }, 120_000);
 
@@ -82,7 +92,10 @@ describe('studies', () => {
     await page.getByRole('link', { name: DEMO_STUDY_NAME }).waitFor();
     expect(await page.getByRole('link', { name: 'New study' }).count()).toBe(0);
     await page.goto(`${baseUrl}/studies/new`);
-    await page.getByText(/cannot run studies/).first().waitFor();
+    await page
+      .getByText(/cannot run studies/)
+      .first()
+      .waitFor();
     await shot(page, 'studies-viewer-refused');
     await context.close();
   }, 60_000);

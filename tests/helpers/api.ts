@@ -28,7 +28,14 @@ export async function userOf(who: Exclude<Who, 'anonymous'>): Promise<User> {
 
 export async function sessionCookieFor(user: User): Promise<string> {
   const jwt = await encode({
-    token: { sub: String(user.id), uid: user.id, role: user.role, teamId: user.teamId as number, email: user.email, name: user.name },
+    token: {
+      sub: String(user.id),
+      uid: user.id,
+      role: user.role,
+      teamId: user.teamId as number,
+      email: user.email,
+      name: user.name,
+    },
     secret: process.env.NEXTAUTH_SECRET!,
   });
   return `next-auth.session-token=${jwt}`;
@@ -55,7 +62,11 @@ export async function browserHeaders(who: Who, opts: { csrf?: boolean } = {}): P
   return headers;
 }
 
-export function req(method: string, pathname: string, { body, headers = {} }: { body?: unknown; headers?: Record<string, string> } = {}): Request {
+export function req(
+  method: string,
+  pathname: string,
+  { body, headers = {} }: { body?: unknown; headers?: Record<string, string> } = {},
+): Request {
   const init: RequestInit = { method, headers: { ...headers } };
   if (body !== undefined) {
     init.body = typeof body === 'string' ? body : JSON.stringify(body);
@@ -66,6 +77,7 @@ export function req(method: string, pathname: string, { body, headers = {} }: { 
 
 export const params = <T extends Record<string, string>>(p: T) => ({ params: Promise.resolve(p) });
 
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- test bodies are read loosely and asserted field by field
 export async function json(res: Response): Promise<any> {
   const text = await res.text();
   return text ? JSON.parse(text) : null;

@@ -13,7 +13,11 @@ export default async function AccountPage() {
   const [profile, tokens] = await Promise.all([getProfile({ caller: user }), listTokens({ caller: user })]);
   return (
     <>
-      <PageHeader kicker="Account" title={profile.name} description={`Signed in as ${profile.email}, ${profile.role} in your team.`} />
+      <PageHeader
+        kicker="Account"
+        title={profile.name}
+        description={`Signed in as ${profile.email}, ${profile.role} in your team.`}
+      />
       <div className="grid gap-6 lg:grid-cols-2">
         <Card aria-labelledby="profile-title">
           <CardHeader id="profile-title" title="Profile" />
@@ -25,7 +29,11 @@ export default async function AccountPage() {
         </Card>
       </div>
       <Card className="mt-6" aria-labelledby="tokens-title">
-        <CardHeader id="tokens-title" title="API tokens" description="Personal tokens for scripts and the v1 API. Only a hash is stored; revoke any token you no longer use." />
+        <CardHeader
+          id="tokens-title"
+          title="API tokens"
+          description="Personal tokens for scripts and the v1 API. Only a hash is stored; revoke any token you no longer use."
+        />
         <Tokens initial={tokens} />
       </Card>
     </>

@@ -37,7 +37,11 @@ export default async function ArraysPage() {
       ) : null}
       {arrays.length === 0 ? (
         <EmptyState title="No arrays yet">
-          <p>{canEdit ? 'Start one with “New array”: draw a line array to scale, stretch its spacing, switch elements off, and read the beam it will give you.' : 'When an engineer or admin saves an array, it appears here.'}</p>
+          <p>
+            {canEdit
+              ? 'Start one with “New array”: draw a line array to scale, stretch its spacing, switch elements off, and read the beam it will give you.'
+              : 'When an engineer or admin saves an array, it appears here.'}
+          </p>
         </EmptyState>
       ) : (
         <Card>

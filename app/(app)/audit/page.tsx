@@ -13,7 +13,11 @@ export default async function AuditPage() {
   const events = await listAuditEvents({ caller: user });
   return (
     <>
-      <PageHeader kicker="Admin" title="Audit log" description="Sign-ins, membership and role changes, tokens, invitations and resets, array revisions, bundle exports, imports and sends, reviews and sign-offs in your team, newest first (last 500)." />
+      <PageHeader
+        kicker="Admin"
+        title="Audit log"
+        description="Sign-ins, membership and role changes, tokens, invitations and resets, array revisions, bundle exports, imports and sends, reviews and sign-offs in your team, newest first (last 500)."
+      />
       <Card>
         <AuditTable events={events} />
       </Card>

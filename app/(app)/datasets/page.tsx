@@ -25,11 +25,17 @@ export default async function DatasetsPage() {
       />
       {canUpload ? (
         <Card className="mb-6" aria-labelledby="upload-title">
-          <CardHeader id="upload-title" title="Upload a recording" description="The file is checked as it arrives; a refused file leaves nothing behind, and the error names the row and column." />
+          <CardHeader
+            id="upload-title"
+            title="Upload a recording"
+            description="The file is checked as it arrives; a refused file leaves nothing behind, and the error names the row and column."
+          />
           <UploadForm arrays={arrays} maxBytes={maxUploadBytes()} />
         </Card>
       ) : (
-        <p className="mb-6 text-sm text-ink-600">Your role ({user.role}) can look at datasets; engineers and admins upload them.</p>
+        <p className="mb-6 text-sm text-ink-600">
+          Your role ({user.role}) can look at datasets; engineers and admins upload them.
+        </p>
       )}
       <Card aria-labelledby="list-title">
         <CardHeader id="list-title" title="Your team’s datasets" />

@@ -16,9 +16,11 @@ export default async function HandoffPage({ searchParams }: Props) {
   const query = await searchParams;
   const { user, allowed, message } = await requirePagePermission('arrays.read');
   if (!allowed) return <Refusal message={message} />;
-  const link = typeof query.link === 'string' && /^[A-Za-z0-9_-]+\.[A-Za-z0-9_-]+$/.test(query.link) ? query.link : undefined;
+  const link =
+    typeof query.link === 'string' && /^[A-Za-z0-9_-]+\.[A-Za-z0-9_-]+$/.test(query.link) ? query.link : undefined;
   const sent = await listHandoffs({ caller: user });
-  const positive = (raw: unknown) => (typeof raw === 'string' && /^[1-9][0-9]{0,8}$/.test(raw) ? Number(raw) : undefined);
+  const positive = (raw: unknown) =>
+    typeof raw === 'string' && /^[1-9][0-9]{0,8}$/.test(raw) ? Number(raw) : undefined;
   const arrayId = positive(query.array);
   const revision = positive(query.rev);
   return (
@@ -34,9 +36,19 @@ export default async function HandoffPage({ searchParams }: Props) {
             <ArrayHandoffSection caller={user} arrayId={arrayId} revision={revision} />
           </section>
         ) : null}
-        {can(user.role, 'arrays.edit') ? <ImportForm linkToken={link} /> : <Refusal message={`${refusalMessage(user.role, 'arrays.edit')} Importing a bundle creates an array, so ask an engineer or admin to import it.`} />}
+        {can(user.role, 'arrays.edit') ? (
+          <ImportForm linkToken={link} />
+        ) : (
+          <Refusal
+            message={`${refusalMessage(user.role, 'arrays.edit')} Importing a bundle creates an array, so ask an engineer or admin to import it.`}
+          />
+        )}
         <Card aria-labelledby="sent-title">
-          <CardHeader id="sent-title" title="Sent by your team" description="Each e-mailed link is signed and expires; the bundle is built afresh from the stored revision when it is downloaded." />
+          <CardHeader
+            id="sent-title"
+            title="Sent by your team"
+            description="Each e-mailed link is signed and expires; the bundle is built afresh from the stored revision when it is downloaded."
+          />
           {sent.length === 0 ? (
             <p className="px-5 py-4 text-sm text-ink-500">Nothing sent yet.</p>
           ) : (
@@ -55,7 +67,10 @@ export default async function HandoffPage({ searchParams }: Props) {
                 {sent.map((h) => (
                   <tr key={h.id} className="border-t border-ink-100">
                     <td className="px-5 py-2">
-                      <Link href={`/handoff?array=${h.arrayId}&rev=${h.revision}`} className="text-glass-700 underline underline-offset-2">
+                      <Link
+                        href={`/handoff?array=${h.arrayId}&rev=${h.revision}`}
+                        className="text-glass-700 underline underline-offset-2"
+                      >
                         {h.arrayName}
                       </Link>{' '}
                       r{h.revision}

@@ -10,7 +10,10 @@ export const metadata = { title: 'Outbox' };
 
 export default async function OutboxPage() {
   const { user, allowed, message } = await requirePagePermission('outbox.read');
-  if (!allowed) return <Refusal message={message} hint="The outbox shows e-mail captured by the local mail sink; only admins read it." />;
+  if (!allowed)
+    return (
+      <Refusal message={message} hint="The outbox shows e-mail captured by the local mail sink; only admins read it." />
+    );
   const messages = await listOutbox({ caller: user });
   const relay = Boolean(process.env.SMTP_HOST);
   return (
@@ -26,7 +29,9 @@ export default async function OutboxPage() {
       />
       {messages.length === 0 ? (
         <EmptyState title="No captured mail">
-          <p>Invitations and password-reset e-mails to members of your team will appear here as soon as they are sent.</p>
+          <p>
+            Invitations and password-reset e-mails to members of your team will appear here as soon as they are sent.
+          </p>
         </EmptyState>
       ) : (
         <Card>

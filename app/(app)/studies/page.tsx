@@ -29,7 +29,9 @@ export default async function StudiesPage() {
             New study
           </Link>
         ) : (
-          <p className="text-sm text-ink-600">Your role ({user.role}) can read studies; engineers and admins start them.</p>
+          <p className="text-sm text-ink-600">
+            Your role ({user.role}) can read studies; engineers and admins start them.
+          </p>
         )}
       </div>
       <Card aria-labelledby="studies-title">

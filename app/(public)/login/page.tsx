@@ -14,16 +14,30 @@ function safeCallback(raw: string | string[] | undefined): string {
   }
 }
 
-export default async function LoginPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function LoginPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const params = await searchParams;
-  const error = params.error ? 'That e-mail and password do not match an account. Check both, or reset your password.' : undefined;
-  const notice = params.done === 'reset' ? 'Your password is set. Sign in with it now.' : params.done === 'invite' ? 'Welcome aboard. Sign in with your new password.' : null;
+  const error = params.error
+    ? 'That e-mail and password do not match an account. Check both, or reset your password.'
+    : undefined;
+  const notice =
+    params.done === 'reset'
+      ? 'Your password is set. Sign in with it now.'
+      : params.done === 'invite'
+        ? 'Welcome aboard. Sign in with your new password.'
+        : null;
   return (
     <>
       <h1 className="text-2xl font-semibold tracking-tight">Sign in</h1>
       <p className="mt-1 mb-6 text-sm text-ink-500">Use the e-mail address your team admin invited.</p>
       {notice ? (
-        <p role="status" className="mb-4 rounded-md border border-glass-200 bg-glass-50 px-3 py-2 text-sm text-glass-800">
+        <p
+          role="status"
+          className="mb-4 rounded-md border border-glass-200 bg-glass-50 px-3 py-2 text-sm text-glass-800"
+        >
           {notice}
         </p>
       ) : null}

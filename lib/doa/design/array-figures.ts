@@ -18,7 +18,12 @@
 import FFT from 'fft.js';
 import { DoaInputError } from '../errors';
 import { requireElementCount, requireSpacing, requireBearing, DEG } from './figures-checks';
-import { effectiveWeights, arrayFactorMagnitudeAtPsi, type EffectiveWeights, type ElementOptions } from './beam-pattern';
+import {
+  effectiveWeights,
+  arrayFactorMagnitudeAtPsi,
+  type EffectiveWeights,
+  type ElementOptions,
+} from './beam-pattern';
 
 /** Aperture (M − 1)·d in wavelengths. */
 export function apertureWavelengths(elements: number, spacingWavelengths: number): number {
@@ -94,7 +99,7 @@ function bisect(g: (x: number) => number, a: number, b: number): number {
     const mid = (a + b) / 2;
     if (mid === a || mid === b) break;
     const gm = g(mid);
-    if ((gm > 0) === (ga > 0)) {
+    if (gm > 0 === ga > 0) {
       a = mid;
       ga = gm;
     } else b = mid;
@@ -123,7 +128,8 @@ function analyseMainLobe(w: EffectiveWeights): MainLobe {
     peakPsi = ext.x;
     peakMagnitude = ext.fx;
   }
-  if (!(peakMagnitude > 0)) throw new DoaInputError('bad-value', 'the array factor vanishes at the steering direction; no main lobe');
+  if (!(peakMagnitude > 0))
+    throw new DoaInputError('bad-value', 'the array factor vanishes at the steering direction; no main lobe');
   // 2. The first minimum on each side.
   const firstMinimum = (dir: 1 | -1): number => {
     let x = peakPsi;
@@ -182,7 +188,8 @@ function widthFromPsi(psiLeft: number, psiRight: number, u0: number, d: number):
 }
 
 function prepare(options: FigureOptions): { w: EffectiveWeights; d: number; u0: number; m: number } {
-  if (options === null || typeof options !== 'object') throw new DoaInputError('bad-option', 'array figures need an options object');
+  if (options === null || typeof options !== 'object')
+    throw new DoaInputError('bad-option', 'array figures need an options object');
   const m = requireElementCount(options.elements);
   const d = requireSpacing(options.spacingWavelengths);
   const steer = requireBearing(options.steerDeg ?? 0, 'steerDeg');
@@ -259,7 +266,8 @@ export interface SidelobeResult {
 export function peakSidelobe(options: FigureOptions & { region?: 'visible' | 'full-period' }): SidelobeResult {
   const { w, d, u0, m } = prepare(options);
   const region = options.region ?? 'visible';
-  if (region !== 'visible' && region !== 'full-period') throw new DoaInputError('bad-option', `region must be 'visible' or 'full-period', got ${String(region)}`);
+  if (region !== 'visible' && region !== 'full-period')
+    throw new DoaInputError('bad-option', `region must be 'visible' or 'full-period', got ${String(region)}`);
   const lobe = analyseMainLobe(w);
   const k = 2 * Math.PI * d;
   const twoPi = 2 * Math.PI;

@@ -94,7 +94,8 @@ function normalizeToMax(w: Float64Array): Float64Array {
 export function taperWeights(elements: number, taper: TaperSpec | TaperKind = 'uniform'): Float64Array {
   const m = requireElementCount(elements);
   const spec: TaperSpec = typeof taper === 'string' ? { kind: taper } : taper;
-  if (spec === null || typeof spec !== 'object') throw new DoaInputError('bad-option', 'taper must be a kind or { kind, sidelobeDb }');
+  if (spec === null || typeof spec !== 'object')
+    throw new DoaInputError('bad-option', 'taper must be a kind or { kind, sidelobeDb }');
   const w = new Float64Array(m);
   switch (spec.kind) {
     case 'uniform':
@@ -112,7 +113,10 @@ export function taperWeights(elements: number, taper: TaperSpec | TaperKind = 'u
     case 'chebyshev':
       return chebyshevWeights(m, spec.sidelobeDb ?? DEFAULT_CHEBYSHEV_SIDELOBE_DB);
     default:
-      throw new DoaInputError('bad-option', `taper.kind must be uniform, hann, hamming or chebyshev, got ${String((spec as { kind: unknown }).kind)}`);
+      throw new DoaInputError(
+        'bad-option',
+        `taper.kind must be uniform, hann, hamming or chebyshev, got ${String((spec as { kind: unknown }).kind)}`,
+      );
   }
 }
 
@@ -144,7 +148,8 @@ export function effectiveWeights(elements: number, options: ElementOptions = {})
   let w: Float64Array;
   if (options.weights !== undefined) {
     w = requireFiniteArray(options.weights, 'weights', m);
-    for (let i = 0; i < m; i++) if (w[i] < 0) throw new DoaInputError('bad-value', `weights[${i}] must be 0 or more, got ${w[i]}`);
+    for (let i = 0; i < m; i++)
+      if (w[i] < 0) throw new DoaInputError('bad-value', `weights[${i}] must be 0 or more, got ${w[i]}`);
   } else {
     w = taperWeights(m, options.taper ?? 'uniform');
   }
@@ -154,7 +159,10 @@ export function effectiveWeights(elements: number, options: ElementOptions = {})
   if (options.enabled !== undefined) {
     const e = options.enabled;
     if (e === null || typeof e !== 'object' || e.length !== m) {
-      throw new DoaInputError('bad-size', `enabled has ${e && typeof e === 'object' ? e.length : 'no'} entries, expected ${m}`);
+      throw new DoaInputError(
+        'bad-size',
+        `enabled has ${e && typeof e === 'object' ? e.length : 'no'} entries, expected ${m}`,
+      );
     }
     enabledFlags = new Float64Array(m);
     for (let i = 0; i < m; i++) {
@@ -174,7 +182,8 @@ export function effectiveWeights(elements: number, options: ElementOptions = {})
     im[i] = amp * Math.sin(ph);
     if (amp > 0) anyEnabled = true;
   }
-  if (!anyEnabled) throw new DoaInputError('bad-value', 'enabled: every element is disabled or has zero weight; there is no beam');
+  if (!anyEnabled)
+    throw new DoaInputError('bad-value', 'enabled: every element is disabled or has zero weight; there is no beam');
   let symmetricReal = true;
   const scale = Math.max(...Array.from(re, Math.abs), 1e-300);
   for (let i = 0; i < m && symmetricReal; i++) {
@@ -240,7 +249,8 @@ export function thetaGridDeg(startDeg = -90, stopDeg = 90, stepDeg = 0.1): Float
   const step = requirePositive(stepDeg, 'stepDeg');
   if (b < a) throw new DoaInputError('bad-value', `stopDeg (${b}) must not be below startDeg (${a})`);
   const n = Math.floor((b - a) / step + 1e-9) + 1;
-  if (n > 1_000_001) throw new DoaInputError('bad-value', `stepDeg = ${step} gives ${n} points; at most 1 000 001 are allowed`);
+  if (n > 1_000_001)
+    throw new DoaInputError('bad-value', `stepDeg = ${step} gives ${n} points; at most 1 000 001 are allowed`);
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) out[i] = Math.min(b, a + i * step);
   return out;
@@ -248,25 +258,32 @@ export function thetaGridDeg(startDeg = -90, stopDeg = 90, stepDeg = 0.1): Float
 
 /** Beam pattern in dB over a θ grid or a u grid. O(M) per grid point, no per-point allocation. */
 export function beamPattern(options: BeamPatternOptions): BeamPattern {
-  if (options === null || typeof options !== 'object') throw new DoaInputError('bad-option', 'beamPattern needs an options object');
+  if (options === null || typeof options !== 'object')
+    throw new DoaInputError('bad-option', 'beamPattern needs an options object');
   const m = requireElementCount(options.elements);
   const d = requireSpacing(options.spacingWavelengths);
   const steer = requireBearing(options.steerDeg ?? 0, 'steerDeg');
   const floorDb = requireFinite(options.floorDb ?? -150, 'floorDb');
   const normalize = options.normalize ?? 'coherent';
-  if (normalize !== 'coherent' && normalize !== 'peak') throw new DoaInputError('bad-option', `normalize must be 'coherent' or 'peak', got ${String(normalize)}`);
-  if (options.thetaDeg !== undefined && options.u !== undefined) throw new DoaInputError('bad-option', 'give thetaDeg or u, not both');
+  if (normalize !== 'coherent' && normalize !== 'peak')
+    throw new DoaInputError('bad-option', `normalize must be 'coherent' or 'peak', got ${String(normalize)}`);
+  if (options.thetaDeg !== undefined && options.u !== undefined)
+    throw new DoaInputError('bad-option', 'give thetaDeg or u, not both');
   const weights = effectiveWeights(m, options);
   let grid: Float64Array;
   let gridKind: 'thetaDeg' | 'u';
   if (options.u !== undefined) {
     grid = requireFiniteArray(options.u, 'u');
     gridKind = 'u';
-    for (let i = 0; i < grid.length; i++) if (grid[i] < -1 || grid[i] > 1) throw new DoaInputError('bad-value', `u[${i}] must lie in [−1, 1], got ${grid[i]}`);
+    for (let i = 0; i < grid.length; i++)
+      if (grid[i] < -1 || grid[i] > 1)
+        throw new DoaInputError('bad-value', `u[${i}] must lie in [−1, 1], got ${grid[i]}`);
   } else {
     grid = options.thetaDeg !== undefined ? requireFiniteArray(options.thetaDeg, 'thetaDeg') : thetaGridDeg();
     gridKind = 'thetaDeg';
-    for (let i = 0; i < grid.length; i++) if (grid[i] < -90 || grid[i] > 90) throw new DoaInputError('bad-value', `thetaDeg[${i}] must lie in [−90, 90], got ${grid[i]}`);
+    for (let i = 0; i < grid.length; i++)
+      if (grid[i] < -90 || grid[i] > 90)
+        throw new DoaInputError('bad-value', `thetaDeg[${i}] must lie in [−90, 90], got ${grid[i]}`);
   }
   const u0 = Math.sin(steer * DEG);
   const k = 2 * Math.PI * d;

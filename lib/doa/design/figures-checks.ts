@@ -44,7 +44,8 @@ export function requireElementCount(value: unknown, name = 'elements'): number {
   }
   if (!Number.isInteger(value)) throw new DoaInputError('bad-value', `${name} must be an integer, got ${value}`);
   if (value < 2) throw new DoaInputError('too-few-elements', `${name} must be at least 2, got ${value}`);
-  if (value > MAX_ELEMENTS) throw new DoaInputError('bad-value', `${name} must be at most ${MAX_ELEMENTS}, got ${value}`);
+  if (value > MAX_ELEMENTS)
+    throw new DoaInputError('bad-value', `${name} must be at most ${MAX_ELEMENTS}, got ${value}`);
   return value;
 }
 
@@ -65,7 +66,8 @@ export function requireBearing(value: unknown, name: string): number {
 /** A positive integer (snapshot counts and the like). */
 export function requirePositiveInteger(value: unknown, name: string): number {
   const v = requireFinite(value, name);
-  if (!Number.isInteger(v) || v < 1) throw new DoaInputError('bad-value', `${name} must be a positive integer, got ${v}`);
+  if (!Number.isInteger(v) || v < 1)
+    throw new DoaInputError('bad-value', `${name} must be a positive integer, got ${v}`);
   return v;
 }
 

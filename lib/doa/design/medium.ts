@@ -21,7 +21,14 @@
  * (NaN, Inf, negative depth…) throw DoaInputError naming the argument.
  */
 import { DoaInputError } from '../errors';
-import { requireFinite, requireNonNegative, requirePositive, requireInRange, requireBearing, DEG } from './figures-checks';
+import {
+  requireFinite,
+  requireNonNegative,
+  requirePositive,
+  requireInRange,
+  requireBearing,
+  DEG,
+} from './figures-checks';
 
 /** Speed of light in vacuum, m/s, exact by the 2019 SI definition. */
 export const SPEED_OF_LIGHT_MPS = 299_792_458;
@@ -43,7 +50,15 @@ export interface SpeedResult {
   warnings: MediumWarning[];
 }
 
-function rangeWarning(warnings: MediumWarning[], field: string, value: number, lo: number, hi: number, formula: string, unit: string): void {
+function rangeWarning(
+  warnings: MediumWarning[],
+  field: string,
+  value: number,
+  lo: number,
+  hi: number,
+  formula: string,
+  unit: string,
+): void {
   if (value < lo || value > hi) {
     warnings.push({
       code: 'outside-validity-range',
@@ -68,8 +83,15 @@ export function soundSpeedMackenzie(temperatureC: number, salinityPsu: number, d
   rangeWarning(warnings, 'depthM', d, 0, 8000, 'Mackenzie (1981)', 'm');
   const ds = s - 35;
   const speedMps =
-    1448.96 + 4.591 * t - 5.304e-2 * t * t + 2.374e-4 * t * t * t + 1.34 * ds + 1.63e-2 * d + 1.675e-7 * d * d -
-    1.025e-2 * t * ds - 7.139e-13 * t * d * d * d;
+    1448.96 +
+    4.591 * t -
+    5.304e-2 * t * t +
+    2.374e-4 * t * t * t +
+    1.34 * ds +
+    1.63e-2 * d +
+    1.675e-7 * d * d -
+    1.025e-2 * t * ds -
+    7.139e-13 * t * d * d * d;
   return { speedMps, formula: 'Mackenzie (1981)', warnings };
 }
 
@@ -98,13 +120,22 @@ export function soundSpeedUnesco(salinityPsu: number, temperatureC: number, pres
   const t5 = t4 * t;
   // Pure-water term Cw(T, P), eq. 34.
   const cw =
-    1402.388 + 5.03711 * t - 5.80852e-2 * t2 + 3.342e-4 * t3 - 1.478e-6 * t4 + 3.1464e-9 * t5 +
+    1402.388 +
+    5.03711 * t -
+    5.80852e-2 * t2 +
+    3.342e-4 * t3 -
+    1.478e-6 * t4 +
+    3.1464e-9 * t5 +
     (0.153563 + 6.8982e-4 * t - 8.1788e-6 * t2 + 1.3621e-7 * t3 - 6.1185e-10 * t4) * p +
     (3.126e-5 - 1.7107e-6 * t + 2.5974e-8 * t2 - 2.5335e-10 * t3 + 1.0405e-12 * t4) * p2 +
     (-9.7729e-9 + 3.8504e-10 * t - 2.3643e-12 * t2) * p3;
   // Linear salinity coefficient A(T, P), eq. 35.
   const a =
-    1.389 - 1.262e-2 * t + 7.164e-5 * t2 + 2.006e-6 * t3 - 3.21e-8 * t4 +
+    1.389 -
+    1.262e-2 * t +
+    7.164e-5 * t2 +
+    2.006e-6 * t3 -
+    3.21e-8 * t4 +
     (9.4742e-5 - 1.258e-5 * t - 6.4885e-8 * t2 + 1.0507e-8 * t3 - 2.0122e-10 * t4) * p +
     (-3.9064e-7 + 9.1041e-9 * t - 1.6002e-10 * t2 + 7.988e-12 * t3) * p2 +
     (1.1e-10 + 6.649e-12 * t - 3.389e-13 * t2) * p3;
@@ -128,8 +159,9 @@ export function depthToPressureDbar(depthM: number, latitudeDeg = 45): number {
   const s = Math.sin(lat * DEG);
   const c1 = (5.92 + 5.25 * s * s) * 1e-3;
   const disc = (1 - c1) * (1 - c1) - 8.84e-6 * z;
-  if (disc < 0) throw new DoaInputError('bad-value', `depthM = ${z} m is beyond the range of the Saunders (1981) conversion`);
-  return ((1 - c1) - Math.sqrt(disc)) / 4.42e-6;
+  if (disc < 0)
+    throw new DoaInputError('bad-value', `depthM = ${z} m is beyond the range of the Saunders (1981) conversion`);
+  return (1 - c1 - Math.sqrt(disc)) / 4.42e-6;
 }
 
 /**
@@ -176,7 +208,15 @@ export function soundSpeedAir(temperatureC: number): SpeedResult {
 export type Medium =
   | { kind: 'radio' }
   | { kind: 'sea-water'; equation?: 'mackenzie'; temperatureC: number; salinityPsu: number; depthM: number }
-  | { kind: 'sea-water'; equation: 'unesco'; temperatureC: number; salinityPsu: number; depthM?: number; pressureDbar?: number; latitudeDeg?: number }
+  | {
+      kind: 'sea-water';
+      equation: 'unesco';
+      temperatureC: number;
+      salinityPsu: number;
+      depthM?: number;
+      pressureDbar?: number;
+      latitudeDeg?: number;
+    }
   | { kind: 'fresh-water'; temperatureC: number }
   | { kind: 'air'; temperatureC: number }
   | { kind: 'custom'; speedMps: number };
@@ -187,7 +227,8 @@ export type Medium =
  * at `latitudeDeg`, default 45°).
  */
 export function propagationSpeed(medium: Medium): SpeedResult {
-  if (medium === null || typeof medium !== 'object') throw new DoaInputError('bad-option', 'medium must be an object with a kind');
+  if (medium === null || typeof medium !== 'object')
+    throw new DoaInputError('bad-option', 'medium must be an object with a kind');
   switch (medium.kind) {
     case 'radio':
       return { speedMps: SPEED_OF_LIGHT_MPS, formula: 'SI speed of light (exact)', warnings: [] };
@@ -202,7 +243,10 @@ export function propagationSpeed(medium: Medium): SpeedResult {
         else throw new DoaInputError('bad-option', 'medium: the UNESCO equation needs pressureDbar or depthM');
         return soundSpeedUnesco(medium.salinityPsu, medium.temperatureC, pressure);
       }
-      throw new DoaInputError('bad-option', `medium.equation must be 'mackenzie' or 'unesco', got ${String((medium as { equation: unknown }).equation)}`);
+      throw new DoaInputError(
+        'bad-option',
+        `medium.equation must be 'mackenzie' or 'unesco', got ${String((medium as { equation: unknown }).equation)}`,
+      );
     }
     case 'fresh-water':
       return soundSpeedFreshWater(medium.temperatureC);
@@ -211,7 +255,10 @@ export function propagationSpeed(medium: Medium): SpeedResult {
     case 'custom':
       return { speedMps: requirePositive(medium.speedMps, 'medium.speedMps'), formula: 'custom speed', warnings: [] };
     default:
-      throw new DoaInputError('bad-option', `medium.kind must be radio, sea-water, fresh-water, air or custom, got ${String((medium as { kind: unknown }).kind)}`);
+      throw new DoaInputError(
+        'bad-option',
+        `medium.kind must be radio, sea-water, fresh-water, air or custom, got ${String((medium as { kind: unknown }).kind)}`,
+      );
   }
 }
 

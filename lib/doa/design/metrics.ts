@@ -14,7 +14,10 @@ import { DoaInputError } from '../errors';
 
 function sortedPair(estimated: ArrayLike<number>, truth: ArrayLike<number>): [number[], number[]] {
   if (estimated.length !== truth.length) {
-    throw new DoaInputError('bad-size', `${estimated.length} estimated bearing(s) against ${truth.length} true one(s): the metrics need equal counts`);
+    throw new DoaInputError(
+      'bad-size',
+      `${estimated.length} estimated bearing(s) against ${truth.length} true one(s): the metrics need equal counts`,
+    );
   }
   assertFinite(estimated, 'estimated bearings');
   assertFinite(truth, 'true bearings');

@@ -166,7 +166,10 @@ export function scale(a: ComplexMatrix, sr: number, si = 0): ComplexMatrix {
 /** Rows r0…r1−1 and columns c0…c1−1 (half-open ranges), copied. */
 export function subMatrix(a: ComplexMatrix, r0: number, r1: number, c0: number, c1: number): ComplexMatrix {
   if (r0 < 0 || r1 > a.rows || r0 > r1 || c0 < 0 || c1 > a.cols || c0 > c1) {
-    throw new DoaInputError('bad-size', `block [${r0}, ${r1}) × [${c0}, ${c1}) lies outside a ${a.rows} × ${a.cols} matrix`);
+    throw new DoaInputError(
+      'bad-size',
+      `block [${r0}, ${r1}) × [${c0}, ${c1}) lies outside a ${a.rows} × ${a.cols} matrix`,
+    );
   }
   const out = zeros(r1 - r0, c1 - c0);
   for (let i = r0; i < r1; i++) {
@@ -230,7 +233,8 @@ export function solve(a: ComplexMatrix, b: ComplexMatrix): ComplexMatrix {
         piv = r;
       }
     }
-    if (!(best > tiny)) throw new DoaNumericalError('singular-matrix', `matrix is singular to working precision at column ${col}`);
+    if (!(best > tiny))
+      throw new DoaNumericalError('singular-matrix', `matrix is singular to working precision at column ${col}`);
     if (piv !== col) {
       swapRows(are, aim, n, piv, col);
       swapRows(bre, bim, p, piv, col);

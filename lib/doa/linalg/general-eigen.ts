@@ -57,7 +57,11 @@ export function hessenbergQrEigenvalues(hr: Float64Array, hi: Float64Array, n: n
     let l = hiIdx;
     while (l > 0) {
       const sub = Math.abs(hr[l * n + l - 1]) + Math.abs(hi[l * n + l - 1]);
-      let ref = Math.abs(hr[(l - 1) * n + l - 1]) + Math.abs(hi[(l - 1) * n + l - 1]) + Math.abs(hr[l * n + l]) + Math.abs(hi[l * n + l]);
+      let ref =
+        Math.abs(hr[(l - 1) * n + l - 1]) +
+        Math.abs(hi[(l - 1) * n + l - 1]) +
+        Math.abs(hr[l * n + l]) +
+        Math.abs(hi[l * n + l]);
       if (ref === 0) {
         // Fall back to the block's scale so an exactly zero diagonal still deflates sensibly.
         ref = blockScale(hr, hi, n, l - 1, hiIdx);
@@ -191,7 +195,9 @@ export function hessenbergQrEigenvalues(hr: Float64Array, hi: Float64Array, n: n
 
 function blockScale(hr: Float64Array, hi: Float64Array, n: number, lo: number, hiIdx: number): number {
   let s = 0;
-  for (let i = lo; i <= hiIdx; i++) for (let j = Math.max(lo, i - 1); j <= hiIdx; j++) s = Math.max(s, Math.abs(hr[i * n + j]) + Math.abs(hi[i * n + j]));
+  for (let i = lo; i <= hiIdx; i++)
+    for (let j = Math.max(lo, i - 1); j <= hiIdx; j++)
+      s = Math.max(s, Math.abs(hr[i * n + j]) + Math.abs(hi[i * n + j]));
   return s;
 }
 

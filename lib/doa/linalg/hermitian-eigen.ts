@@ -36,7 +36,10 @@ export interface HermitianEigenOptions {
 }
 
 export function hermitianEigen(a: ComplexMatrix, options: { vectors: false }): HermitianEigenResult;
-export function hermitianEigen(a: ComplexMatrix, options?: { vectors?: true }): HermitianEigenResult & { vectors: ComplexMatrix };
+export function hermitianEigen(
+  a: ComplexMatrix,
+  options?: { vectors?: true },
+): HermitianEigenResult & { vectors: ComplexMatrix };
 export function hermitianEigen(a: ComplexMatrix, options: HermitianEigenOptions = {}): HermitianEigenResult {
   assertSquare(a, 'hermitianEigen');
   assertFinite(a.re, 'hermitianEigen: real part');

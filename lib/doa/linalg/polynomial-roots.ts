@@ -91,7 +91,12 @@ export function polynomialRoots(coefficients: ComplexVector, options: Polynomial
 }
 
 /** Horner evaluation of p(z) and p′(z); coefficients highest power first. */
-export function evaluateWithDerivative(cre: ArrayLike<number>, cim: ArrayLike<number>, zr: number, zi: number): [number, number, number, number] {
+export function evaluateWithDerivative(
+  cre: ArrayLike<number>,
+  cim: ArrayLike<number>,
+  zr: number,
+  zi: number,
+): [number, number, number, number] {
   let pr = cre[0];
   let pi = cim[0];
   let dr = 0;

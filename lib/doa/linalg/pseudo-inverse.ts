@@ -14,7 +14,8 @@ import { DoaInputError } from '../errors';
 import { svd } from './svd';
 
 export function pseudoInverse(a: ComplexMatrix, rcond = 1e-15): ComplexMatrix {
-  if (!(rcond >= 0) || !Number.isFinite(rcond)) throw new DoaInputError('bad-option', `pseudoInverse: rcond ${rcond} is not a finite number ≥ 0`);
+  if (!(rcond >= 0) || !Number.isFinite(rcond))
+    throw new DoaInputError('bad-option', `pseudoInverse: rcond ${rcond} is not a finite number ≥ 0`);
   return pinvWithCutoff(a, rcond);
 }
 

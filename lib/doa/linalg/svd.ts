@@ -92,7 +92,8 @@ export function svd(a: ComplexMatrix): SvdResult {
       }
     }
   }
-  if (!converged) throw new DoaNumericalError('no-convergence', `svd: Jacobi sweeps did not converge for a ${m} × ${n} matrix`);
+  if (!converged)
+    throw new DoaNumericalError('no-convergence', `svd: Jacobi sweeps did not converge for a ${m} × ${n} matrix`);
 
   const r = Math.min(m, n);
   const sigma = new Float64Array(n);
@@ -128,7 +129,17 @@ function columnNorm2(re: Float64Array, im: Float64Array, offset: number, length:
 }
 
 /** x ← c·x − s·e·y, y ← s·conj(e)·x + c·y, with e = e^{−jφ} (|e| = 1). */
-function rotate(re: Float64Array, im: Float64Array, ox: number, oy: number, len: number, c: number, s: number, er: number, ei: number): void {
+function rotate(
+  re: Float64Array,
+  im: Float64Array,
+  ox: number,
+  oy: number,
+  len: number,
+  c: number,
+  s: number,
+  er: number,
+  ei: number,
+): void {
   for (let i = 0; i < len; i++) {
     const xr = re[ox + i];
     const xi = im[ox + i];

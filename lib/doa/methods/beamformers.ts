@@ -18,7 +18,11 @@ import { DoaWarning } from '../warnings';
 
 export const MVDR_CONDITION_LIMIT = 1e13;
 
-export function bartlettSpectrumValues(r: ComplexMatrix, spacingWavelengths: number, anglesDeg: Float64Array): Float64Array {
+export function bartlettSpectrumValues(
+  r: ComplexMatrix,
+  spacingWavelengths: number,
+  anglesDeg: Float64Array,
+): Float64Array {
   const values = hermitianFormFromDiagonalSums(diagonalSums(r), gridPhasors(anglesDeg, spacingWavelengths));
   const inv = 1 / (r.rows * r.rows);
   for (let i = 0; i < values.length; i++) values[i] *= inv;
@@ -62,7 +66,12 @@ export function inverseFromEigen(values: Float64Array, vectors: ComplexMatrix, p
   return out;
 }
 
-export function mvdrSpectrumValues(values: Float64Array, vectors: ComplexMatrix, spacingWavelengths: number, anglesDeg: Float64Array): { values: Float64Array; pseudoInverse: boolean; condition: number } {
+export function mvdrSpectrumValues(
+  values: Float64Array,
+  vectors: ComplexMatrix,
+  spacingWavelengths: number,
+  anglesDeg: Float64Array,
+): { values: Float64Array; pseudoInverse: boolean; condition: number } {
   const condition = conditionNumber(values);
   const pseudo = !(condition <= MVDR_CONDITION_LIMIT);
   const rinv = inverseFromEigen(values, vectors, pseudo);

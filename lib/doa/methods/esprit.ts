@@ -58,10 +58,12 @@ function phases(psi: ComplexMatrix): Float64Array {
 
 export function clipWarnings(clippedCount: number, method: string): DoaWarning[] {
   if (clippedCount === 0) return [];
-  return [{
-    code: 'angle-clipped',
-    message: `${method}: ${clippedCount} electrical angle(s) exceeded ±2π·d and were clipped to ±90°; the bearing is unreliable (noise, too few snapshots, or spacing mismatch)`,
-  }];
+  return [
+    {
+      code: 'angle-clipped',
+      message: `${method}: ${clippedCount} electrical angle(s) exceeded ±2π·d and were clipped to ±90°; the bearing is unreliable (noise, too few snapshots, or spacing mismatch)`,
+    },
+  ];
 }
 
 function runFromAngles(input: MethodInput, method: string, angles: (es: ComplexMatrix) => Float64Array): MethodOutput {

@@ -44,7 +44,12 @@ export function noiseProjector(vectors: ComplexMatrix, sourceCount: number): Com
 }
 
 /** ‖Enᴴ·a(θ_i)‖² at each grid angle (the MUSIC denominator). */
-export function musicDenominator(vectors: ComplexMatrix, sourceCount: number, spacingWavelengths: number, anglesDeg: Float64Array): Float64Array {
+export function musicDenominator(
+  vectors: ComplexMatrix,
+  sourceCount: number,
+  spacingWavelengths: number,
+  anglesDeg: Float64Array,
+): Float64Array {
   const l = vectors.rows;
   const phasors = gridPhasors(anglesDeg, spacingWavelengths);
   const c = diagonalSums(noiseProjector(vectors, sourceCount));
@@ -79,14 +84,24 @@ export function musicDenominator(vectors: ComplexMatrix, sourceCount: number, sp
   return den;
 }
 
-export function musicSpectrumValues(vectors: ComplexMatrix, sourceCount: number, spacingWavelengths: number, anglesDeg: Float64Array): Float64Array {
+export function musicSpectrumValues(
+  vectors: ComplexMatrix,
+  sourceCount: number,
+  spacingWavelengths: number,
+  anglesDeg: Float64Array,
+): Float64Array {
   const den = musicDenominator(vectors, sourceCount, spacingWavelengths, anglesDeg);
   const p = new Float64Array(den.length);
   for (let i = 0; i < den.length; i++) p[i] = 1 / Math.max(den[i], SPECTRUM_DENOMINATOR_FLOOR);
   return p;
 }
 
-export function peakBearings(values: Float64Array, anglesDeg: Float64Array, sourceCount: number, method: string): { bearingsDeg: number[]; warnings: DoaWarning[] } {
+export function peakBearings(
+  values: Float64Array,
+  anglesDeg: Float64Array,
+  sourceCount: number,
+  method: string,
+): { bearingsDeg: number[]; warnings: DoaWarning[] } {
   const idx = pickPeaks(values, sourceCount);
   const warnings: DoaWarning[] = [];
   if (idx.length < sourceCount) {

@@ -10,7 +10,15 @@ import { runMusic } from './music';
 import { runRootMusic } from './root-music';
 import { runEspritUnitary } from './unitary-esprit';
 
-export const DOA_METHODS = ['esprit-ls', 'esprit-tls', 'esprit-unitary', 'music', 'root-music', 'bartlett', 'mvdr'] as const;
+export const DOA_METHODS = [
+  'esprit-ls',
+  'esprit-tls',
+  'esprit-unitary',
+  'music',
+  'root-music',
+  'bartlett',
+  'mvdr',
+] as const;
 export type DoaMethod = (typeof DOA_METHODS)[number];
 
 export const METHOD_RUNNERS: Readonly<Record<DoaMethod, MethodRunner>> = Object.freeze({

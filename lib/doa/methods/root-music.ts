@@ -19,7 +19,10 @@ import { ComplexMatrix } from '../linalg/complex';
 import { DoaWarning } from '../warnings';
 
 /** Polynomial coefficients, highest power first: c_{L−1}, …, c_0, c_{−1} = conj(c_1), …, c_{−(L−1)}. */
-export function rootMusicCoefficients(vectors: ComplexMatrix, sourceCount: number): { re: Float64Array; im: Float64Array } {
+export function rootMusicCoefficients(
+  vectors: ComplexMatrix,
+  sourceCount: number,
+): { re: Float64Array; im: Float64Array } {
   const c = diagonalSums(noiseProjector(vectors, sourceCount));
   const l = c.re.length;
   const re = new Float64Array(2 * l - 1);
@@ -34,7 +37,11 @@ export function rootMusicCoefficients(vectors: ComplexMatrix, sourceCount: numbe
   return { re, im };
 }
 
-export function rootMusicElectricalAngles(vectors: ComplexMatrix, sourceCount: number, spacingWavelengths: number): Float64Array {
+export function rootMusicElectricalAngles(
+  vectors: ComplexMatrix,
+  sourceCount: number,
+  spacingWavelengths: number,
+): Float64Array {
   const roots = polynomialRoots(rootMusicCoefficients(vectors, sourceCount));
   const limit = 2 * Math.PI * spacingWavelengths;
   const kept: { mu: number; distance: number }[] = [];

@@ -35,13 +35,18 @@ export function sourceCountCriteria(eigenvalues: ArrayLike<number>, snapshots: n
     throw new DoaInputError('bad-value', `source count: the snapshot count ${snapshots} is not a positive integer`);
   }
   for (let i = 0; i < p; i++) {
-    if (!Number.isFinite(eigenvalues[i])) throw new DoaInputError('not-finite', `source count: eigenvalue ${i} is ${eigenvalues[i]}`);
+    if (!Number.isFinite(eigenvalues[i]))
+      throw new DoaInputError('not-finite', `source count: eigenvalue ${i} is ${eigenvalues[i]}`);
     if (i > 0 && eigenvalues[i] > eigenvalues[i - 1]) {
-      throw new DoaInputError('bad-value', `source count: eigenvalues must be in descending order (entry ${i} exceeds entry ${i - 1})`);
+      throw new DoaInputError(
+        'bad-value',
+        `source count: eigenvalues must be in descending order (entry ${i} exceeds entry ${i - 1})`,
+      );
     }
   }
   const largest = eigenvalues[0];
-  if (!(largest > 0)) throw new DoaInputError('bad-value', 'source count: the largest eigenvalue is not positive (all-zero data?)');
+  if (!(largest > 0))
+    throw new DoaInputError('bad-value', 'source count: the largest eigenvalue is not positive (all-zero data?)');
   const floor = EIGENVALUE_FLOOR * largest;
   const lambda = new Float64Array(p);
   for (let i = 0; i < p; i++) lambda[i] = Math.max(eigenvalues[i], floor);
@@ -73,8 +78,13 @@ export function sourceCountCriteria(eigenvalues: ArrayLike<number>, snapshots: n
   return { logLikelihood, mdl, aic, mdlChoice: argmin(mdl), aicChoice: argmin(aic) };
 }
 
-export function estimateSourceCount(eigenvalues: ArrayLike<number>, snapshots: number, rule: SourceCountRule = 'mdl'): number {
-  if (rule !== 'mdl' && rule !== 'aic') throw new DoaInputError('bad-option', `source count rule "${String(rule)}" is neither "mdl" nor "aic"`);
+export function estimateSourceCount(
+  eigenvalues: ArrayLike<number>,
+  snapshots: number,
+  rule: SourceCountRule = 'mdl',
+): number {
+  if (rule !== 'mdl' && rule !== 'aic')
+    throw new DoaInputError('bad-option', `source count rule "${String(rule)}" is neither "mdl" nor "aic"`);
   const c = sourceCountCriteria(eigenvalues, snapshots);
   return rule === 'mdl' ? c.mdlChoice : c.aicChoice;
 }

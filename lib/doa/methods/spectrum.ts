@@ -32,9 +32,13 @@ export const DEFAULT_GRID: AngleGrid = Object.freeze({ startDeg: -90, stepDeg: 0
 export function validateGrid(grid: AngleGrid): void {
   const { startDeg, stepDeg, count } = grid;
   if (!Number.isFinite(startDeg) || !Number.isFinite(stepDeg) || !(stepDeg > 0)) {
-    throw new DoaInputError('bad-option', `grid: startDeg ${startDeg} and stepDeg ${stepDeg} must be finite with stepDeg > 0`);
+    throw new DoaInputError(
+      'bad-option',
+      `grid: startDeg ${startDeg} and stepDeg ${stepDeg} must be finite with stepDeg > 0`,
+    );
   }
-  if (!Number.isInteger(count) || count < 3) throw new DoaInputError('bad-option', `grid: count ${count} must be an integer ≥ 3`);
+  if (!Number.isInteger(count) || count < 3)
+    throw new DoaInputError('bad-option', `grid: count ${count} must be an integer ≥ 3`);
   const last = startDeg + (count - 1) * stepDeg;
   if (startDeg < -90 - 1e-9 || last > 90 + 1e-9) {
     throw new DoaInputError('bad-option', `grid: ${startDeg}° … ${last}° leaves the bearing range −90° … 90°`);
@@ -76,7 +80,10 @@ export function diagonalSums(c: ComplexMatrix): ComplexVector {
 }
 
 /** cos μ_i and sin μ_i for the grid angles, μ = 2π·d·sin θ. */
-export function gridPhasors(anglesDeg: Float64Array, spacingWavelengths: number): { cos: Float64Array; sin: Float64Array } {
+export function gridPhasors(
+  anglesDeg: Float64Array,
+  spacingWavelengths: number,
+): { cos: Float64Array; sin: Float64Array } {
   const n = anglesDeg.length;
   const cos = new Float64Array(n);
   const sin = new Float64Array(n);
@@ -93,7 +100,10 @@ export function gridPhasors(anglesDeg: Float64Array, spacingWavelengths: number)
  * aᴴ·C·a at each grid phasor, from the diagonal sums c_l of a Hermitian C
  * (only c_0 … c_{L−1} are needed: c_{−l} = conj(c_l)).
  */
-export function hermitianFormFromDiagonalSums(c: ComplexVector, phasors: { cos: Float64Array; sin: Float64Array }): Float64Array {
+export function hermitianFormFromDiagonalSums(
+  c: ComplexVector,
+  phasors: { cos: Float64Array; sin: Float64Array },
+): Float64Array {
   const n = phasors.cos.length;
   const l = c.re.length;
   const out = new Float64Array(n);
@@ -131,7 +141,7 @@ export function pickPeaks(values: ArrayLike<number>, count: number): number[] {
   for (let i = 1; i < values.length - 1; i++) {
     if (values[i] > values[i - 1] && values[i] >= values[i + 1]) peaks.push(i);
   }
-  peaks.sort((a, b) => (values[b] - values[a]) || a - b);
+  peaks.sort((a, b) => values[b] - values[a] || a - b);
   return peaks.slice(0, Math.max(0, count)).sort((a, b) => a - b);
 }
 

@@ -100,13 +100,16 @@ function rotl(x: number, k: number): number {
 
 export function simulateSnapshots(options: SimulateOptions): ComplexMatrix {
   const { elements: m, spacingWavelengths: d, bearingsDeg, noisePower, snapshots: n } = options;
-  if (!Number.isInteger(m) || m < 2) throw new DoaInputError('too-few-elements', `elements ${m} must be an integer ≥ 2`);
+  if (!Number.isInteger(m) || m < 2)
+    throw new DoaInputError('too-few-elements', `elements ${m} must be an integer ≥ 2`);
   assertSpacing(d);
   if (!Number.isInteger(n) || n < 1) throw new DoaInputError('bad-value', `snapshots ${n} must be an integer ≥ 1`);
   if (!Array.isArray(bearingsDeg)) throw new DoaInputError('bad-value', 'bearingsDeg must be an array of degrees');
   assertFinite(bearingsDeg, 'bearingsDeg');
-  for (const b of bearingsDeg) if (b < -90 || b > 90) throw new DoaInputError('bad-value', `bearing ${b}° lies outside −90° … 90°`);
-  if (!Number.isFinite(noisePower) || noisePower < 0) throw new DoaInputError('bad-value', `noisePower ${noisePower} must be finite and ≥ 0`);
+  for (const b of bearingsDeg)
+    if (b < -90 || b > 90) throw new DoaInputError('bad-value', `bearing ${b}° lies outside −90° … 90°`);
+  if (!Number.isFinite(noisePower) || noisePower < 0)
+    throw new DoaInputError('bad-value', `noisePower ${noisePower} must be finite and ≥ 0`);
   const k = bearingsDeg.length;
   const powers = options.powers ?? bearingsDeg.map(() => 1);
   if (powers.length !== k) throw new DoaInputError('bad-size', `${powers.length} powers for ${k} bearings`);
@@ -121,7 +124,8 @@ export function simulateSnapshots(options: SimulateOptions): ComplexMatrix {
     if (!(c >= 0 && c <= 1)) throw new DoaInputError('bad-value', `correlation ${c} must lie in 0 … 1`);
     for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) corr.re[i * k + j] = i === j ? 1 : c;
   } else {
-    if (c.rows !== k || c.cols !== k) throw new DoaInputError('bad-size', `correlation matrix is ${c.rows} × ${c.cols}, expected ${k} × ${k}`);
+    if (c.rows !== k || c.cols !== k)
+      throw new DoaInputError('bad-size', `correlation matrix is ${c.rows} × ${c.cols}, expected ${k} × ${k}`);
     assertFinite(c.re, 'correlation (real part)');
     assertFinite(c.im, 'correlation (imaginary part)');
     corr.re.set(c.re);

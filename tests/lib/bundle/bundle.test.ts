@@ -14,7 +14,11 @@ async function sample() {
     softwareVersion: '0.1.0',
     createdAt,
     files: [
-      { path: 'array/revision.json', kind: 'array-revision', data: JSON.stringify({ elements: 8, spacingWavelengths: 0.5 }) },
+      {
+        path: 'array/revision.json',
+        kind: 'array-revision',
+        data: JSON.stringify({ elements: 8, spacingWavelengths: 0.5 }),
+      },
       { path: 'array/calibration.csv', kind: 'calibration', data: 'element,enabled,gainDb,phaseDeg\n1,true,0,0\n' },
       { path: 'summary.txt', kind: 'summary', data: 'Eight elements at half a wavelength.\n' },
     ],
@@ -76,7 +80,9 @@ describe('hand-off bundle format', () => {
   it('refuses a missing manifest, a missing file and an unlisted file', async () => {
     const { manifest, zip } = await sample();
     const files = readBundle(zip).files;
-    expect(codeOf(() => readBundle(buildZip([{ name: 'summary.txt', data: files.get('summary.txt')! }])))).toBe('missing-manifest');
+    expect(codeOf(() => readBundle(buildZip([{ name: 'summary.txt', data: files.get('summary.txt')! }])))).toBe(
+      'missing-manifest',
+    );
     const noSummary = await rezip({
       'manifest.json': JSON.stringify(manifest),
       'array/revision.json': files.get('array/revision.json')!,
@@ -94,7 +100,9 @@ describe('hand-off bundle format', () => {
   });
 
   it('wraps archive problems (not a zip) as code "archive"', () => {
-    expect(codeOf(() => readBundle(new TextEncoder().encode('this is not a zip file at all, just text')))).toBe('archive');
+    expect(codeOf(() => readBundle(new TextEncoder().encode('this is not a zip file at all, just text')))).toBe(
+      'archive',
+    );
   });
 
   it('refuses a manifest with a bad path or digest, naming the field', async () => {

@@ -22,7 +22,10 @@ function refusal(buffer: Uint8Array, limits = DEFAULT_UNZIP_LIMITS): UnzipError 
 describe('safeUnzip on honest archives', () => {
   it('reads an archive written by Python zipfile (reference: fixtures/bundle/generate.py)', () => {
     const buffer = new Uint8Array(readFileSync(path.join(fixtureDir, 'python-zipfile.zip')));
-    const expected = JSON.parse(readFileSync(path.join(fixtureDir, 'python-zipfile.json'), 'utf8')) as Record<string, { sha256: string; size: number }>;
+    const expected = JSON.parse(readFileSync(path.join(fixtureDir, 'python-zipfile.json'), 'utf8')) as Record<
+      string,
+      { sha256: string; size: number }
+    >;
     const files = safeUnzip(buffer);
     expect([...files.keys()].sort()).toEqual(Object.keys(expected).sort());
     for (const [name, info] of Object.entries(expected)) {
@@ -93,7 +96,12 @@ describe('safeUnzip refuses hostile archives', () => {
   });
 
   it('duplicate names', () => {
-    const err = refusal(buildZip([{ name: 'a.json', data: text('1') }, { name: 'a.json', data: text('2') }]));
+    const err = refusal(
+      buildZip([
+        { name: 'a.json', data: text('1') },
+        { name: 'a.json', data: text('2') },
+      ]),
+    );
     expect(err.code).toBe('duplicate-name');
   });
 
@@ -130,7 +138,12 @@ describe('safeUnzip refuses hostile archives', () => {
   });
 
   it('inspectZip reports entries without inflating them', () => {
-    const entries = inspectZip(buildZip([{ name: 'dir/', data: new Uint8Array(0) }, { name: 'dir/x.txt', data: text('abc') }]));
+    const entries = inspectZip(
+      buildZip([
+        { name: 'dir/', data: new Uint8Array(0) },
+        { name: 'dir/x.txt', data: text('abc') },
+      ]),
+    );
     expect(entries.map((e) => [e.name, e.isDirectory, e.uncompressedSize])).toEqual([
       ['dir/', true, 0],
       ['dir/x.txt', false, 3],

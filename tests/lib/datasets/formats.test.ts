@@ -48,7 +48,11 @@ function maxDiff(parsed: ParsedSnapshots, expected: Rows): number {
   let worst = 0;
   for (let n = 0; n < N; n++) {
     for (let m = 0; m < M; m++) {
-      worst = Math.max(worst, Math.abs(parsed.re[n * M + m] - expected.re[n][m]), Math.abs(parsed.im[n * M + m] - expected.im[n][m]));
+      worst = Math.max(
+        worst,
+        Math.abs(parsed.re[n * M + m] - expected.re[n][m]),
+        Math.abs(parsed.im[n * M + m] - expected.im[n][m]),
+      );
     }
   }
   return worst;
@@ -56,7 +60,8 @@ function maxDiff(parsed: ParsedSnapshots, expected: Rows): number {
 
 function maxAbs(expected: Rows): number {
   let big = 0;
-  for (const part of [expected.re, expected.im]) for (const row of part) for (const v of row) big = Math.max(big, Math.abs(v));
+  for (const part of [expected.re, expected.im])
+    for (const row of part) for (const v of row) big = Math.max(big, Math.abs(v));
   return big;
 }
 
@@ -120,7 +125,9 @@ describe('WAV fixtures (stdlib struct writer, checked by scipy.io.wavfile) → S
           path: path.join(FIX, 'wav', name),
           frequencyHz: c.frequencyHz,
           // exercise the documented defaults when the case uses them
-          ...(isDefault ? {} : { fftLength: c.fftLength, hop: c.hop, window: c.window as 'hann' | 'hamming' | 'rectangular' }),
+          ...(isDefault
+            ? {}
+            : { fftLength: c.fftLength, hop: c.hop, window: c.window as 'hann' | 'hamming' | 'rectangular' }),
         });
         expect(parsed.format).toBe('wav');
         expect(parsed.sampleRate).toBe(exp.sampleRate);
@@ -164,7 +171,8 @@ describe('SHA-256 (against Python hashlib in the expected JSON)', () => {
     ...Object.entries(hdf5Expected.files).map(([n, e]) => [path.join(FIX, 'hdf5', n), e.sha256] as [string, string]),
   ];
   it('sha256File matches for every fixture', async () => {
-    for (const [file, digest] of all) expect([path.basename(file), await sha256File(file)]).toEqual([path.basename(file), digest]);
+    for (const [file, digest] of all)
+      expect([path.basename(file), await sha256File(file)]).toEqual([path.basename(file), digest]);
   });
   it('Sha256PassThrough hashes what flows through it and passes the bytes on unchanged', async () => {
     const [file, digest] = all[all.length - 1];
@@ -278,7 +286,8 @@ describe('layout, format choice, progress and streaming boundaries', () => {
       await fsp.writeFile(file, Buffer.concat([pre, Buffer.from(padded, 'latin1'), data]));
       const parsed = await parseSnapshotFile({ path: file });
       let bad = 0;
-      for (let n = 0; n < N; n++) for (let m = 0; m < M; m++) if (parsed.re[n * M + m] !== n + m / 8 || parsed.im[n * M + m] !== -n) bad++;
+      for (let n = 0; n < N; n++)
+        for (let m = 0; m < M; m++) if (parsed.re[n * M + m] !== n + m / 8 || parsed.im[n * M + m] !== -n) bad++;
       expect(bad).toBe(0);
     } finally {
       await fsp.rm(dir, { recursive: true, force: true });

@@ -69,7 +69,9 @@ describe('scanComplexField', () => {
   });
 
   it('looksNonFinite spots NaN/Inf spellings but not names containing the letters', () => {
-    for (const t of ['nan', 'NaN', '-inf', 'Infinity', '(nan+1j)', '1+infj', ' -nan ']) expect([t, looksNonFinite(t)]).toEqual([t, true]);
-    for (const t of ['inf_count', 'nancy', 'channel', '1+2j', 'info']) expect([t, looksNonFinite(t)]).toEqual([t, false]);
+    for (const t of ['nan', 'NaN', '-inf', 'Infinity', '(nan+1j)', '1+infj', ' -nan '])
+      expect([t, looksNonFinite(t)]).toEqual([t, true]);
+    for (const t of ['inf_count', 'nancy', 'channel', '1+2j', 'info'])
+      expect([t, looksNonFinite(t)]).toEqual([t, false]);
   });
 });

@@ -1,6 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { normalizeDraft, designerReducer } from '@/lib/designer/state';
-import { designFigures, designPattern, gratingLobesDeg, pairAdvice, separationCurves, deltaUToDegAtLook } from '@/lib/designer/analysis';
+import {
+  designFigures,
+  designPattern,
+  gratingLobesDeg,
+  pairAdvice,
+  separationCurves,
+  deltaUToDegAtLook,
+} from '@/lib/designer/analysis';
 import { patternCsv, columnsCsv, fileSlug } from '@/lib/designer/export';
 
 const draft = (elements: number, extra: Record<string, unknown> = {}) =>
@@ -23,7 +30,9 @@ describe('designFigures against docs/references.md §3 (M = 10, d = λ/2, unifor
     expect(designFigures(draft(10, { taper: { kind: 'hamming' } })).peakSidelobeDb!).toBeCloseTo(-35.81, 2);
   });
   it('warns when the scan sector exceeds the grating-lobe-free scan: d = 0.6 λ → asin(1/0.6 − 1) = 41.81°', () => {
-    const g = designFigures(normalizeDraft({ name: 'x', elements: 8, spacing: { value: 0.6, unit: 'wavelength' }, scanSectorDeg: 45 }));
+    const g = designFigures(
+      normalizeDraft({ name: 'x', elements: 8, spacing: { value: 0.6, unit: 'wavelength' }, scanSectorDeg: 45 }),
+    );
     expect(g.gratingLobeFreeScanDeg).toBeCloseTo(41.81, 2);
     expect(g.scanExceedsGratingFree).toBe(true);
     // docs/references.md §3: d < λ/(1 + sin 45°) = 0.5858 λ for ±45°.

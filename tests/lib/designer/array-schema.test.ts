@@ -30,9 +30,17 @@ describe('arrayInputSchema: bad input names the field', () => {
   });
 
   it('refuses a zero, infinite or missing spacing value', () => {
-    expect(Object.keys(fieldErrors({ ...ok, spacing: { value: 0, unit: 'm' }, frequencyHz: 1000, propagationSpeedMps: 1500 }))).toEqual(['spacing.value']);
-    expect(Object.keys(fieldErrors({ ...ok, spacing: { value: Infinity, unit: 'wavelength' } }))).toEqual(['spacing.value']);
-    expect(fieldErrors({ ...ok, spacing: { unit: 'wavelength' } })['spacing.value'][0]).toMatch(/spacing\.value is required/);
+    expect(
+      Object.keys(
+        fieldErrors({ ...ok, spacing: { value: 0, unit: 'm' }, frequencyHz: 1000, propagationSpeedMps: 1500 }),
+      ),
+    ).toEqual(['spacing.value']);
+    expect(Object.keys(fieldErrors({ ...ok, spacing: { value: Infinity, unit: 'wavelength' } }))).toEqual([
+      'spacing.value',
+    ]);
+    expect(fieldErrors({ ...ok, spacing: { unit: 'wavelength' } })['spacing.value'][0]).toMatch(
+      /spacing\.value is required/,
+    );
   });
 
   it('refuses one element, naming elements', () => {
@@ -64,16 +72,29 @@ describe('arrayInputSchema: bad input names the field', () => {
 
   it('refuses elementStates of the wrong length, or with every element disabled', () => {
     const three = Array.from({ length: 3 }, () => ({ enabled: true, gainDb: 0, phaseDeg: 0 }));
-    expect(fieldErrors({ ...ok, elements: 4, elementStates: three }).elementStates[0]).toMatch(/3 entries but elements is 4/);
+    expect(fieldErrors({ ...ok, elements: 4, elementStates: three }).elementStates[0]).toMatch(
+      /3 entries but elements is 4/,
+    );
     const off = three.map((s) => ({ ...s, enabled: false }));
     expect(fieldErrors({ ...ok, elements: 3, elementStates: off }).elementStates[0]).toMatch(/at least one element/);
   });
 
   it('refuses bad designer fields with their paths', () => {
     expect(Object.keys(fieldErrors({ ...ok, steerDeg: 120 }))).toEqual(['steerDeg']);
-    expect(Object.keys(fieldErrors({ ...ok, taper: { kind: 'chebyshev', sidelobeDb: 2 } }))).toEqual(['taper.sidelobeDb']);
-    expect(Object.keys(fieldErrors({ ...ok, medium: { kind: 'sea-water', temperatureC: 10, salinityPpt: 35, depthM: -5, equation: 'mackenzie-1981' } }))).toEqual(['medium.depthM']);
-    expect(Object.keys(fieldErrors({ ...ok, plannedSources: [{ bearingDeg: 95 }] }))).toEqual(['plannedSources.0.bearingDeg']);
+    expect(Object.keys(fieldErrors({ ...ok, taper: { kind: 'chebyshev', sidelobeDb: 2 } }))).toEqual([
+      'taper.sidelobeDb',
+    ]);
+    expect(
+      Object.keys(
+        fieldErrors({
+          ...ok,
+          medium: { kind: 'sea-water', temperatureC: 10, salinityPpt: 35, depthM: -5, equation: 'mackenzie-1981' },
+        }),
+      ),
+    ).toEqual(['medium.depthM']);
+    expect(Object.keys(fieldErrors({ ...ok, plannedSources: [{ bearingDeg: 95 }] }))).toEqual([
+      'plannedSources.0.bearingDeg',
+    ]);
     expect(Object.keys(fieldErrors({ ...ok, snapshots: 0 }))).toEqual(['snapshots']);
   });
 
@@ -91,7 +112,9 @@ describe('resolveArrayGeometry against docs/references.md §1–2', () => {
   const parse = (v: unknown): ArrayInput => arrayInputSchema.parse(v);
 
   it('radio at 3 GHz: λ = 0.0999308 m (docs/references.md §1, c exact by the SI definition)', () => {
-    const g = resolveArrayGeometry(parse({ ...ok, spacing: { value: 49.965, unit: 'mm' }, frequencyHz: 3e9, medium: { kind: 'radio' } }));
+    const g = resolveArrayGeometry(
+      parse({ ...ok, spacing: { value: 49.965, unit: 'mm' }, frequencyHz: 3e9, medium: { kind: 'radio' } }),
+    );
     expect(g.speedMps).toBe(299_792_458);
     expect(g.wavelengthM!).toBeCloseTo(0.0999308, 7);
     // docs/references.md §1 lists λ/2 = 49.965 mm at 3 GHz (rounded to 1 µm).
@@ -99,14 +122,21 @@ describe('resolveArrayGeometry against docs/references.md §1–2', () => {
   });
 
   it('radio at 10 GHz: λ = 0.0299792 m (docs/references.md §1)', () => {
-    const g = resolveArrayGeometry(parse({ ...ok, spacing: { value: 14.99, unit: 'mm' }, frequencyHz: 1e10, propagationSpeedMps: 299_792_458 }));
+    const g = resolveArrayGeometry(
+      parse({ ...ok, spacing: { value: 14.99, unit: 'mm' }, frequencyHz: 1e10, propagationSpeedMps: 299_792_458 }),
+    );
     expect(g.wavelengthM!).toBeCloseTo(0.0299792, 7);
     expect(g.spacingWavelengths).toBeCloseTo(0.5, 3);
   });
 
   it('sea water by Mackenzie (1981): T=25, S=35, D=1000 → 1550.744 m/s (published check value, docs/references.md §2)', () => {
     const g = resolveArrayGeometry(
-      parse({ ...ok, spacing: { value: 0.5, unit: 'm' }, frequencyHz: 1000, medium: { kind: 'sea-water', temperatureC: 25, salinityPpt: 35, depthM: 1000, equation: 'mackenzie-1981' } }),
+      parse({
+        ...ok,
+        spacing: { value: 0.5, unit: 'm' },
+        frequencyHz: 1000,
+        medium: { kind: 'sea-water', temperatureC: 25, salinityPpt: 35, depthM: 1000, equation: 'mackenzie-1981' },
+      }),
     );
     expect(Math.abs(g.speedMps! - 1550.744)).toBeLessThan(5e-4);
     expect(g.wavelengthM!).toBeCloseTo(1.550744, 6);
@@ -116,31 +146,52 @@ describe('resolveArrayGeometry against docs/references.md §1–2', () => {
 
   it('sea water by UNESCO (1983 coefficients): S=35, T=20, P=0 → 1521.462 m/s (docs/references.md §2, computed)', () => {
     const g = resolveArrayGeometry(
-      parse({ ...ok, frequencyHz: 1000, medium: { kind: 'sea-water', temperatureC: 20, salinityPpt: 35, depthM: 0, equation: 'unesco-1983' } }),
+      parse({
+        ...ok,
+        frequencyHz: 1000,
+        medium: { kind: 'sea-water', temperatureC: 20, salinityPpt: 35, depthM: 0, equation: 'unesco-1983' },
+      }),
     );
     expect(Math.abs(g.speedMps! - 1521.462)).toBeLessThan(5e-4);
   });
 
   it('fresh water at 20 °C → 1482.380 m/s (Marczak 1997, docs/references.md §2) and air at 20 °C → 343.215 m/s', () => {
-    const fresh = resolveArrayGeometry(parse({ ...ok, frequencyHz: 1000, medium: { kind: 'fresh-water', temperatureC: 20 } }));
+    const fresh = resolveArrayGeometry(
+      parse({ ...ok, frequencyHz: 1000, medium: { kind: 'fresh-water', temperatureC: 20 } }),
+    );
     expect(Math.abs(fresh.speedMps! - 1482.38)).toBeLessThan(5e-4);
     const air = resolveArrayGeometry(parse({ ...ok, frequencyHz: 1000, medium: { kind: 'air', temperatureC: 20 } }));
     expect(Math.abs(air.speedMps! - 343.215)).toBeLessThan(5e-4);
   });
 
   it('nominal sonar: 1500 m/s at 10 kHz → λ = 0.15 m (docs/references.md §1, common practice)', () => {
-    const g = resolveArrayGeometry(parse({ ...ok, spacing: { value: 75, unit: 'mm' }, frequencyHz: 1e4, medium: { kind: 'custom', speedMps: 1500 } }));
+    const g = resolveArrayGeometry(
+      parse({
+        ...ok,
+        spacing: { value: 75, unit: 'mm' },
+        frequencyHz: 1e4,
+        medium: { kind: 'custom', speedMps: 1500 },
+      }),
+    );
     expect(g.wavelengthM!).toBeCloseTo(0.15, 12);
     expect(g.spacingWavelengths).toBeCloseTo(0.5, 12);
   });
 
   it('warns outside the Mackenzie validity range, under the medium field', () => {
-    const g = resolveArrayGeometry(parse({ ...ok, frequencyHz: 1000, medium: { kind: 'sea-water', temperatureC: 35, salinityPpt: 35, depthM: 10, equation: 'mackenzie-1981' } }));
+    const g = resolveArrayGeometry(
+      parse({
+        ...ok,
+        frequencyHz: 1000,
+        medium: { kind: 'sea-water', temperatureC: 35, salinityPpt: 35, depthM: 10, equation: 'mackenzie-1981' },
+      }),
+    );
     expect(g.warnings.map((w) => w.field)).toEqual(['medium.temperatureC']);
   });
 
   it('uses propagationSpeedMps when it disagrees with the medium, with a warning', () => {
-    const g = resolveArrayGeometry(parse({ ...ok, frequencyHz: 1000, propagationSpeedMps: 1500, medium: { kind: 'fresh-water', temperatureC: 20 } }));
+    const g = resolveArrayGeometry(
+      parse({ ...ok, frequencyHz: 1000, propagationSpeedMps: 1500, medium: { kind: 'fresh-water', temperatureC: 20 } }),
+    );
     expect(g.speedMps).toBe(1500);
     expect(g.warnings.map((w) => w.code)).toContain('speed-differs-from-medium');
   });

@@ -5,7 +5,8 @@ import { spreadLabels } from '@/lib/designer/label-layout';
 // in the order of their points, at least minGap apart, and unmoved when they do not collide.
 function checkInvariants(ys: number[], out: number[], minGap: number) {
   const order = ys.map((y, i) => ({ y, i })).sort((a, b) => a.y - b.y || a.i - b.i);
-  for (let k = 1; k < order.length; k++) expect(out[order[k].i] - out[order[k - 1].i]).toBeGreaterThanOrEqual(minGap - 1e-9);
+  for (let k = 1; k < order.length; k++)
+    expect(out[order[k].i] - out[order[k - 1].i]).toBeGreaterThanOrEqual(minGap - 1e-9);
 }
 
 describe('spreadLabels', () => {

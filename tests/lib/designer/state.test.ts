@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { designerReducer, enabledSummary, normalizeDraft, draftSpacingWavelengths, type DesignerAction, type DesignerDraft } from '@/lib/designer/state';
+import {
+  designerReducer,
+  enabledSummary,
+  normalizeDraft,
+  draftSpacingWavelengths,
+  type DesignerAction,
+  type DesignerDraft,
+} from '@/lib/designer/state';
 import { arrayInputSchema } from '@/lib/validations/array';
 
 const base = (): DesignerDraft =>
@@ -53,7 +60,12 @@ describe('designerReducer: elements', () => {
   });
 
   it('toggles enabled but never disables the last enabled element', () => {
-    let s = run(base(), { type: 'toggleElement', index: 0 }, { type: 'toggleElement', index: 1 }, { type: 'toggleElement', index: 2 });
+    let s = run(
+      base(),
+      { type: 'toggleElement', index: 0 },
+      { type: 'toggleElement', index: 1 },
+      { type: 'toggleElement', index: 2 },
+    );
     expect(s.elementStates.map((e) => e.enabled)).toEqual([false, false, false, true]);
     expect(designerReducer(s, { type: 'toggleElement', index: 3 })).toBe(s);
     s = designerReducer(s, { type: 'toggleElement', index: 1 });
@@ -108,7 +120,11 @@ describe('designerReducer: sources, taper, steering, medium', () => {
   });
 
   it('sets taper and steering; steering is clamped to ±90°', () => {
-    const s = run(base(), { type: 'setTaper', taper: { kind: 'chebyshev', sidelobeDb: 30 } }, { type: 'setSteer', steerDeg: -100 });
+    const s = run(
+      base(),
+      { type: 'setTaper', taper: { kind: 'chebyshev', sidelobeDb: 30 } },
+      { type: 'setSteer', steerDeg: -100 },
+    );
     expect(s.taper).toEqual({ kind: 'chebyshev', sidelobeDb: 30 });
     expect(s.steerDeg).toBe(-90);
   });
@@ -122,7 +138,13 @@ describe('designerReducer: sources, taper, steering, medium', () => {
   });
 
   it('a spacing in metres keeps its length when the medium changes, so d in λ follows the speed', () => {
-    const s0 = normalizeDraft({ name: 'x', elements: 4, spacing: { value: 0.75, unit: 'm' }, frequencyHz: 1000, medium: { kind: 'custom', speedMps: 1500 } });
+    const s0 = normalizeDraft({
+      name: 'x',
+      elements: 4,
+      spacing: { value: 0.75, unit: 'm' },
+      frequencyHz: 1000,
+      medium: { kind: 'custom', speedMps: 1500 },
+    });
     const s = designerReducer(s0, { type: 'setMedium', medium: { kind: 'custom', speedMps: 3000 } });
     expect(s.spacing.value).toBe(0.75);
     expect(draftSpacingWavelengths(s)).toBeCloseTo(0.25, 12);
@@ -131,7 +153,13 @@ describe('designerReducer: sources, taper, steering, medium', () => {
   it('never mutates its input', () => {
     const s = base();
     const copy = JSON.parse(JSON.stringify(s));
-    run(s, { type: 'toggleElement', index: 1 }, { type: 'addElement', at: 0 }, { type: 'setElementGain', index: 0, gainDb: 3 }, { type: 'addSource', bearingDeg: 3 });
+    run(
+      s,
+      { type: 'toggleElement', index: 1 },
+      { type: 'addElement', at: 0 },
+      { type: 'setElementGain', index: 0, gainDb: 3 },
+      { type: 'addSource', bearingDeg: 3 },
+    );
     expect(s).toEqual(copy);
   });
 });

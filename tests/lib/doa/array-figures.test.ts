@@ -76,7 +76,10 @@ describe('tapers (docs/references.md §4 array-taper table, [computed])', () => 
     [60, 10, 1.4483, 16, 1.4797],
   ])('Chebyshev %i dB: equal sidelobes at the design level and the HPBW factors', (sl, m1, k1, m2, k2) => {
     // Dolph (1946): every sidelobe at the design level; factors k of HPBW = k·λ/(Md) from docs/references.md §4.
-    for (const [m, k] of [[m1, k1], [m2, k2]]) {
+    for (const [m, k] of [
+      [m1, k1],
+      [m2, k2],
+    ]) {
       const taper = { kind: 'chebyshev' as const, sidelobeDb: sl };
       expect(peakSidelobeDb({ elements: m, ...half, taper })).toBeCloseTo(-sl, 6);
       expect(halfPowerBeamwidthFactor({ elements: m, taper })).toBeCloseTo(k, 4);
@@ -84,7 +87,13 @@ describe('tapers (docs/references.md §4 array-taper table, [computed])', () => 
   });
   it('Chebyshev sidelobes are all equal (not just the highest)', () => {
     // Dolph (1946): equiripple sidelobes. Every local maximum of the pattern outside the main lobe sits at −30 dB.
-    const p = beamPattern({ elements: 12, ...half, taper: { kind: 'chebyshev', sidelobeDb: 30 }, u: Float64Array.from({ length: 20001 }, (_, i) => -1 + i * 1e-4), normalize: 'peak' });
+    const p = beamPattern({
+      elements: 12,
+      ...half,
+      taper: { kind: 'chebyshev', sidelobeDb: 30 },
+      u: Float64Array.from({ length: 20001 }, (_, i) => -1 + i * 1e-4),
+      normalize: 'peak',
+    });
     const v = p.valuesDb;
     const peaks: number[] = [];
     for (let i = 1; i < v.length - 1; i++) if (v[i] > v[i - 1] && v[i] >= v[i + 1] && v[i] < -1) peaks.push(v[i]);
@@ -103,7 +112,9 @@ describe('tapers (docs/references.md §4 array-taper table, [computed])', () => 
   it('a taper widens the beam and lowers the sidelobes', () => {
     // Common practice (Harris 1978): every taper here trades beamwidth for sidelobe level.
     for (const taper of ['hann', 'hamming'] as const) {
-      expect(halfPowerBeamwidthDeg({ elements: 20, ...half, taper })).toBeGreaterThan(halfPowerBeamwidthDeg({ elements: 20, ...half }));
+      expect(halfPowerBeamwidthDeg({ elements: 20, ...half, taper })).toBeGreaterThan(
+        halfPowerBeamwidthDeg({ elements: 20, ...half }),
+      );
       expect(peakSidelobeDb({ elements: 20, ...half, taper })!).toBeLessThan(-25);
     }
   });
@@ -165,7 +176,13 @@ describe('directivity (docs/references.md §3)', () => {
 describe('v1 metrics object', () => {
   it('has exactly the API keys with the docs/conventions.md §5 values', () => {
     const m = arrayMetrics(10, 0.5);
-    expect(Object.keys(m).sort()).toEqual(['apertureWavelengths', 'gratingLobeFreeScanDeg', 'halfPowerBeamwidthDeg', 'peakSidelobeDb', 'rayleighGapDeg']);
+    expect(Object.keys(m).sort()).toEqual([
+      'apertureWavelengths',
+      'gratingLobeFreeScanDeg',
+      'halfPowerBeamwidthDeg',
+      'peakSidelobeDb',
+      'rayleighGapDeg',
+    ]);
     expect(m.apertureWavelengths).toBe(4.5);
     expect(m.halfPowerBeamwidthDeg).toBeCloseTo(10.2092, 4);
     expect(m.rayleighGapDeg).toBeCloseTo(11.537, 3);
@@ -185,7 +202,10 @@ describe('v1 metrics object', () => {
   it('a short array at small spacing sees only part of its sidelobes', () => {
     // Visible region |u| ≤ 1: with M=4, d=0.1 the whole visible region lies inside the main lobe.
     expect(peakSidelobeDb({ elements: 4, spacingWavelengths: 0.1 })).toBeNull();
-    expect(peakSidelobeDb({ elements: 4, spacingWavelengths: 0.1, region: 'full-period' })).toBeCloseTo(peakSidelobeDb({ elements: 4, ...half })!, 9);
+    expect(peakSidelobeDb({ elements: 4, spacingWavelengths: 0.1, region: 'full-period' })).toBeCloseTo(
+      peakSidelobeDb({ elements: 4, ...half })!,
+      9,
+    );
   });
 });
 
@@ -228,7 +248,10 @@ describe('disabled elements and calibration', () => {
     const w = halfPowerBeamwidth({ elements: 10, ...half, phaseDeg });
     expect(w.widthU).toBeCloseTo(0.177948, 5);
     const shiftU = (6 * Math.PI) / 180 / (2 * Math.PI * 0.5);
-    expect((Math.sin((w.edgesDeg[0] * Math.PI) / 180) + Math.sin((w.edgesDeg[1] * Math.PI) / 180)) / 2).toBeCloseTo(shiftU, 6);
+    expect((Math.sin((w.edgesDeg[0] * Math.PI) / 180) + Math.sin((w.edgesDeg[1] * Math.PI) / 180)) / 2).toBeCloseTo(
+      shiftU,
+      6,
+    );
   });
 });
 

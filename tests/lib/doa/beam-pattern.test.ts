@@ -15,20 +15,35 @@ function fixture<T>(name: string): T {
   return JSON.parse(readFileSync(path.join(__dirname, '../../../fixtures/doa', name), 'utf8')) as T;
 }
 
-interface ChebCase { elements: number; sidelobeDb: number; weights: number[] }
+interface ChebCase {
+  elements: number;
+  sidelobeDb: number;
+  weights: number[];
+}
 interface BeamCase {
-  elements: number; spacingWavelengths: number; steerDeg: number; taper: string;
-  weights: number[]; enabled: boolean[]; gainDb: number[]; phaseDeg: number[]; thetaDeg: number[]; valuesDb: number[];
+  elements: number;
+  spacingWavelengths: number;
+  steerDeg: number;
+  taper: string;
+  weights: number[];
+  enabled: boolean[];
+  gainDb: number[];
+  phaseDeg: number[];
+  thetaDeg: number[];
+  valuesDb: number[];
 }
 
 describe('Dolph–Chebyshev weights', () => {
   const cases = fixture<{ cases: ChebCase[] }>('figures-chebwin.json').cases;
-  it.each(cases.map((c) => [c.elements, c.sidelobeDb, c] as const))('M=%i, %i dB match scipy chebwin to 1e-9', (_m, _s, c) => {
-    // scipy.signal.windows.chebwin(M, at) / max (fixtures/doa/generate_figures.py), tolerance 1e-9 absolute.
-    const w = chebyshevWeights(c.elements, c.sidelobeDb);
-    expect(w.length).toBe(c.weights.length);
-    for (let i = 0; i < w.length; i++) expect(Math.abs(w[i] - c.weights[i])).toBeLessThan(1e-9);
-  });
+  it.each(cases.map((c) => [c.elements, c.sidelobeDb, c] as const))(
+    'M=%i, %i dB match scipy chebwin to 1e-9',
+    (_m, _s, c) => {
+      // scipy.signal.windows.chebwin(M, at) / max (fixtures/doa/generate_figures.py), tolerance 1e-9 absolute.
+      const w = chebyshevWeights(c.elements, c.sidelobeDb);
+      expect(w.length).toBe(c.weights.length);
+      for (let i = 0; i < w.length; i++) expect(Math.abs(w[i] - c.weights[i])).toBeLessThan(1e-9);
+    },
+  );
   it('gives the 10-element 26 dB edge-normalised weights of docs/references.md §4', () => {
     // docs/references.md §4 [computed with chebwin]: 1, 1.35548, 1.96793, 2.47871, 2.76948 (mirrored).
     const w = chebyshevWeights(10, 26);
@@ -102,14 +117,25 @@ describe('beam pattern', () => {
     }
   });
   it('peaks at 0 dB at the steering angle and reports the coherent reference', () => {
-    const p = beamPattern({ elements: 10, spacingWavelengths: 0.5, steerDeg: -35, thetaDeg: [-35, 0], taper: 'hamming' });
+    const p = beamPattern({
+      elements: 10,
+      spacingWavelengths: 0.5,
+      steerDeg: -35,
+      thetaDeg: [-35, 0],
+      taper: 'hamming',
+    });
     expect(p.valuesDb[0]).toBeCloseTo(0, 12);
     expect(p.valuesDb[1]).toBeLessThan(-20);
     const sum = Array.from(taperWeights(10, 'hamming')).reduce((a, b) => a + b, 0);
     expect(p.referenceMagnitude).toBeCloseTo(sum, 12);
   });
   it('peak normalisation puts the grid maximum at 0 dB', () => {
-    const p = beamPattern({ elements: 8, spacingWavelengths: 0.5, phaseDeg: [0, 10, -20, 5, 30, 0, -10, 15], normalize: 'peak' });
+    const p = beamPattern({
+      elements: 8,
+      spacingWavelengths: 0.5,
+      phaseDeg: [0, 10, -20, 5, 30, 0, -10, 15],
+      normalize: 'peak',
+    });
     expect(Math.max(...p.valuesDb)).toBeCloseTo(0, 12);
   });
   it('disabling an element equals a zero weight, and does not mutate inputs', () => {
@@ -137,9 +163,15 @@ describe('bad input', () => {
     expect(() => chebyshevWeights(8, -3)).toThrow(/sidelobeDb/);
     expect(() => beamPattern({ elements: 8, spacingWavelengths: 0 })).toThrow(/spacingWavelengths/);
     expect(() => beamPattern({ elements: 8, spacingWavelengths: 0.5, steerDeg: 91 })).toThrow(/steerDeg/);
-    expect(() => beamPattern({ elements: 8, spacingWavelengths: 0.5, gainDb: [0, 0] })).toThrow(/gainDb has 2 entries, expected 8/);
-    expect(() => beamPattern({ elements: 4, spacingWavelengths: 0.5, phaseDeg: [0, NaN, 0, 0] })).toThrow(/phaseDeg\[1\]/);
-    expect(() => beamPattern({ elements: 3, spacingWavelengths: 0.5, enabled: [false, false, false] })).toThrow(/every element is disabled/);
+    expect(() => beamPattern({ elements: 8, spacingWavelengths: 0.5, gainDb: [0, 0] })).toThrow(
+      /gainDb has 2 entries, expected 8/,
+    );
+    expect(() => beamPattern({ elements: 4, spacingWavelengths: 0.5, phaseDeg: [0, NaN, 0, 0] })).toThrow(
+      /phaseDeg\[1\]/,
+    );
+    expect(() => beamPattern({ elements: 3, spacingWavelengths: 0.5, enabled: [false, false, false] })).toThrow(
+      /every element is disabled/,
+    );
     expect(() => beamPattern({ elements: 3, spacingWavelengths: 0.5, thetaDeg: [0, 100] })).toThrow(/thetaDeg\[1\]/);
     expect(() => beamPattern({ elements: 3, spacingWavelengths: 0.5, u: [2] })).toThrow(/u\[0\]/);
     expect(() => beamPattern({ elements: 2.5, spacingWavelengths: 0.5 })).toThrow(DoaInputError);

@@ -22,7 +22,9 @@ interface CrbCase extends BoundsInput {
   deterministicStdDeg: number[];
 }
 const crbCases = (
-  JSON.parse(readFileSync(path.join(__dirname, '../../../fixtures/doa/figures-crb.json'), 'utf8')) as { cases: CrbCase[] }
+  JSON.parse(readFileSync(path.join(__dirname, '../../../fixtures/doa/figures-crb.json'), 'utf8')) as {
+    cases: CrbCase[];
+  }
 ).cases;
 
 const one = (over: Partial<BoundsInput> = {}): BoundsInput => ({
@@ -59,10 +61,21 @@ describe('single-source CRB (docs/references.md §5 table, [computed]: matrix fo
   });
   it('equals the closed form 6/[N·SNR·M(M²−1)(2πd cosθ)²]·(1 + 1/(M·SNR)) for arbitrary inputs', () => {
     // docs/references.md §5 closed form [derived].
-    const m = 13, n = 37, snr = 0.7, d = 0.43, th = -22;
+    const m = 13,
+      n = 37,
+      snr = 0.7,
+      d = 0.43,
+      th = -22;
     const c = 2 * Math.PI * d * Math.cos((th * Math.PI) / 180);
     const det = 6 / (n * snr * m * (m * m - 1) * c * c);
-    const r = one({ elements: m, snapshots: n, sourcePowers: [snr * 2], noisePower: 2, spacingWavelengths: d, bearingsDeg: [th] });
+    const r = one({
+      elements: m,
+      snapshots: n,
+      sourcePowers: [snr * 2],
+      noisePower: 2,
+      spacingWavelengths: d,
+      bearingsDeg: [th],
+    });
     expect(deterministicCrb(r).covarianceRad2[0] / det).toBeCloseTo(1, 12);
     expect(stochasticCrb(r).covarianceRad2[0] / (det * (1 + 1 / (m * snr)))).toBeCloseTo(1, 12);
   });
@@ -136,7 +149,8 @@ describe('published properties and scaling (docs/references.md §5, §9)', () =>
     const d1 = deterministicCrb(one({ sourcePowers: [1] })).stdDeg[0];
     const d100 = deterministicCrb(one({ sourcePowers: [100] })).stdDeg[0];
     expect(d1 / d100).toBeCloseTo(10, 12);
-    const ratio = stochasticCrb(one({ sourcePowers: [0.1] })).stdDeg[0] / deterministicCrb(one({ sourcePowers: [0.1] })).stdDeg[0];
+    const ratio =
+      stochasticCrb(one({ sourcePowers: [0.1] })).stdDeg[0] / deterministicCrb(one({ sourcePowers: [0.1] })).stdDeg[0];
     expect(ratio).toBeCloseTo(Math.SQRT2, 12);
   });
   it('angle: std ∝ 1/|cos θ| (doubles at 60°); spacing: std ∝ 1/d', () => {
@@ -156,7 +170,15 @@ describe('published properties and scaling (docs/references.md §5, §9)', () =>
 
 describe('statistical resolution, Smith (2005) criterion δ = √CRB(δ) (docs/references.md §8: criterion from memory, values [computed])', () => {
   const limit = (snapshots: number, snr: number, bound: 'stochastic' | 'deterministic') =>
-    statisticalResolutionLimit({ elements: 10, spacingWavelengths: 0.5, centerDeg: 0, sourcePowers: [snr, snr], noisePower: 1, snapshots, bound }).deltaDeg!;
+    statisticalResolutionLimit({
+      elements: 10,
+      spacingWavelengths: 0.5,
+      centerDeg: 0,
+      sourcePowers: [snr, snr],
+      noisePower: 1,
+      snapshots,
+      bound,
+    }).deltaDeg!;
   it('stochastic: 1.7214°, 0.9578°, 0.9684°', () => {
     expect(limit(100, 1, 'stochastic')).toBeCloseTo(1.7214, 4);
     expect(limit(100, 10, 'stochastic')).toBeCloseTo(0.9578, 4);
@@ -181,7 +203,11 @@ describe('statistical resolution, Smith (2005) criterion δ = √CRB(δ) (docs/r
 describe('pair resolvability', () => {
   it('flags pairs below the Rayleigh gap per docs/conventions.md §5 and gives a verdict', () => {
     const pairs = pairResolvability(one({ bearingsDeg: [0, 5, 30], sourcePowers: [1, 1, 1] }));
-    expect(pairs.map((p) => [p.i, p.j])).toEqual([[0, 1], [0, 2], [1, 2]]);
+    expect(pairs.map((p) => [p.i, p.j])).toEqual([
+      [0, 1],
+      [0, 2],
+      [1, 2],
+    ]);
     // (0°, 5°): Δu = sin 5° = 0.0872 < 1/(10·0.5) = 0.2, but 5° exceeds the Smith limit ≈ 1.72°.
     expect(pairs[0].separationU).toBeCloseTo(Math.sin((5 * Math.PI) / 180), 14);
     expect(pairs[0].belowResolvableGap).toBe(true);
@@ -209,7 +235,13 @@ describe('pair resolvability', () => {
 
 describe('separation-versus-aperture chart', () => {
   it('gives the Rayleigh gap and the Smith limit per element count', () => {
-    const c = separationVersusAperture({ elementCounts: [4, 10, 40], spacingWavelengths: 0.5, lookDeg: 0, snrDb: 0, snapshots: 100 });
+    const c = separationVersusAperture({
+      elementCounts: [4, 10, 40],
+      spacingWavelengths: 0.5,
+      lookDeg: 0,
+      snrDb: 0,
+      snapshots: 100,
+    });
     expect(Array.from(c.apertureWavelengths)).toEqual([1.5, 4.5, 19.5]);
     expect(c.rayleighGapU[1]).toBeCloseTo(0.2, 15);
     // Centred on broadside: 2·asin(Δu/2).
@@ -223,8 +255,20 @@ describe('separation-versus-aperture chart', () => {
     expect(c.statisticalLimitU[1] / c.statisticalLimitU[2]).toBeGreaterThan(c.rayleighGapU[1] / c.rayleighGapU[2]);
   });
   it('off broadside the degree curves widen by about 1/cos θ0, the u curves hardly change', () => {
-    const b = separationVersusAperture({ elementCounts: [16], spacingWavelengths: 0.5, lookDeg: 0, snrDb: 5, snapshots: 200 });
-    const s = separationVersusAperture({ elementCounts: [16], spacingWavelengths: 0.5, lookDeg: 50, snrDb: 5, snapshots: 200 });
+    const b = separationVersusAperture({
+      elementCounts: [16],
+      spacingWavelengths: 0.5,
+      lookDeg: 0,
+      snrDb: 5,
+      snapshots: 200,
+    });
+    const s = separationVersusAperture({
+      elementCounts: [16],
+      spacingWavelengths: 0.5,
+      lookDeg: 50,
+      snrDb: 5,
+      snapshots: 200,
+    });
     expect(s.rayleighGapU[0]).toBe(b.rayleighGapU[0]);
     expect(s.rayleighGapDeg[0] / b.rayleighGapDeg[0]).toBeCloseTo(1 / Math.cos((50 * Math.PI) / 180), 1);
     expect(s.statisticalLimitU[0] / b.statisticalLimitU[0]).toBeCloseTo(1, 2);
@@ -243,7 +287,13 @@ describe('separation-versus-aperture chart', () => {
 
 describe('v1 bounds answer', () => {
   it('has exactly the API keys and values', () => {
-    const a = bounds({ array: { elements: 10, spacingWavelengths: 0.5 }, bearingsDeg: [0, 5], sourcePowers: [1, 1], noisePower: 1, snapshots: 100 });
+    const a = bounds({
+      array: { elements: 10, spacingWavelengths: 0.5 },
+      bearingsDeg: [0, 5],
+      sourcePowers: [1, 1],
+      noisePower: 1,
+      snapshots: 100,
+    });
     expect(Object.keys(a).sort()).toEqual(['crbStdDeg', 'pairs', 'rayleighGapU']);
     // docs/references.md §5 [computed]: (0°, 5°) stochastic 0.44212°, 0.44381°.
     expect(a.crbStdDeg[0]).toBeCloseTo(0.44212, 5);
@@ -263,19 +313,38 @@ describe('bad input', () => {
     expect(() => stochasticCrb(one({ bearingsDeg: [] }))).toThrow(/bearingsDeg/);
     expect(() => stochasticCrb(one({ bearingsDeg: [NaN] }))).toThrow(/bearingsDeg\[0\]/);
     expect(() => stochasticCrb(one({ bearingsDeg: [90] }))).toThrow(/endfire/);
-    expect(() => stochasticCrb(one({ bearingsDeg: [0, 1], sourcePowers: [1] }))).toThrow(/sourcePowers has 1 entries, expected 2/);
+    expect(() => stochasticCrb(one({ bearingsDeg: [0, 1], sourcePowers: [1] }))).toThrow(
+      /sourcePowers has 1 entries, expected 2/,
+    );
     expect(() => stochasticCrb(one({ sourcePowers: [0] }))).toThrow(/sourcePowers\[0\]/);
     expect(() => stochasticCrb(one({ noisePower: -1 }))).toThrow(/noisePower/);
     expect(() => stochasticCrb(one({ snapshots: 0 }))).toThrow(/snapshots/);
     expect(() => stochasticCrb(one({ snapshots: 2.5 }))).toThrow(/snapshots/);
-    expect(() => stochasticCrb(one({ elements: 3, bearingsDeg: [0, 10, 20], sourcePowers: [1, 1, 1] }))).toThrow(/fewer sources than elements/);
+    expect(() => stochasticCrb(one({ elements: 3, bearingsDeg: [0, 10, 20], sourcePowers: [1, 1, 1] }))).toThrow(
+      /fewer sources than elements/,
+    );
     expect(() => stochasticCrb(one({ bearingsDeg: [10, 10], sourcePowers: [1, 1] }))).toThrow(/same electrical angle/);
     // d = 1: θ = 0 and θ = 90−… alias; sin 30° vs sin −30° differ by 1 → ψ differs by 2π.
-    expect(() => stochasticCrb(one({ spacingWavelengths: 1, bearingsDeg: [-30, 30], sourcePowers: [1, 1] }))).toThrow(/grating-lobe aliases/);
+    expect(() => stochasticCrb(one({ spacingWavelengths: 1, bearingsDeg: [-30, 30], sourcePowers: [1, 1] }))).toThrow(
+      /grating-lobe aliases/,
+    );
     expect(() => cramerRaoBound(one(), 'bayesian' as never)).toThrow(/bound/);
     expect(() => separationVersusAperture({ spacingWavelengths: 0.5, snrDb: NaN, snapshots: 10 })).toThrow(/snrDb/);
-    expect(() => separationVersusAperture({ elementCounts: [10, 1], spacingWavelengths: 0.5, snrDb: 0, snapshots: 10 })).toThrow(/elementCounts\[1\]/);
-    expect(() => bounds({ array: null as never, bearingsDeg: [0], sourcePowers: [1], noisePower: 1, snapshots: 1 })).toThrow(DoaInputError);
-    expect(() => statisticalResolutionLimit({ elements: 10, spacingWavelengths: 0.5, centerDeg: 90, sourcePowers: [1, 1], noisePower: 1, snapshots: 10 })).toThrow(/centerDeg/);
+    expect(() =>
+      separationVersusAperture({ elementCounts: [10, 1], spacingWavelengths: 0.5, snrDb: 0, snapshots: 10 }),
+    ).toThrow(/elementCounts\[1\]/);
+    expect(() =>
+      bounds({ array: null as never, bearingsDeg: [0], sourcePowers: [1], noisePower: 1, snapshots: 1 }),
+    ).toThrow(DoaInputError);
+    expect(() =>
+      statisticalResolutionLimit({
+        elements: 10,
+        spacingWavelengths: 0.5,
+        centerDeg: 90,
+        sourcePowers: [1, 1],
+        noisePower: 1,
+        snapshots: 10,
+      }),
+    ).toThrow(/centerDeg/);
   });
 });

@@ -15,14 +15,19 @@ import { simulateSnapshots } from '@/lib/doa/sim/simulate';
 import { DoaInputError } from '@/lib/doa/errors';
 import { matrixFromJson, maxAbsDiff, JsonMatrix } from './helpers';
 
-const scenarios = (fixtures as unknown as { scenarios: { name: string; rows: JsonMatrix; covariance: JsonMatrix; options: Record<string, unknown> }[] }).scenarios;
+const scenarios = (
+  fixtures as unknown as {
+    scenarios: { name: string; rows: JsonMatrix; covariance: JsonMatrix; options: Record<string, unknown> }[];
+  }
+).scenarios;
 
 function transpose(a: ComplexMatrix): ComplexMatrix {
   const out = zeros(a.cols, a.rows);
-  for (let i = 0; i < a.rows; i++) for (let k = 0; k < a.cols; k++) {
-    out.re[k * a.rows + i] = a.re[i * a.cols + k];
-    out.im[k * a.rows + i] = a.im[i * a.cols + k];
-  }
+  for (let i = 0; i < a.rows; i++)
+    for (let k = 0; k < a.cols; k++) {
+      out.re[k * a.rows + i] = a.re[i * a.cols + k];
+      out.im[k * a.rows + i] = a.im[i * a.cols + k];
+    }
   return out;
 }
 
@@ -39,7 +44,14 @@ function directCovariance(x: ComplexMatrix): ComplexMatrix {
 }
 
 describe('sample covariance', () => {
-  const x = simulateSnapshots({ elements: 7, spacingWavelengths: 0.5, bearingsDeg: [-10, 25], noisePower: 0.3, snapshots: 1001, seed: 5 });
+  const x = simulateSnapshots({
+    elements: 7,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [-10, 25],
+    noisePower: 0.3,
+    snapshots: 1001,
+    seed: 5,
+  });
   const ref = directCovariance(x);
 
   it('equals the definition X·Xᴴ/N, made Hermitian, for odd M and a partial last block (1e-13 absolute)', () => {
@@ -66,8 +78,10 @@ describe('sample covariance', () => {
     const cut = [0, 1, 130, 131, 700, 1001];
     for (let c = 0; c + 1 < cut.length; c++) {
       const part: ComplexMatrix = {
-        rows: cut[c + 1] - cut[c], cols: 7,
-        re: rows.re.subarray(cut[c] * 7, cut[c + 1] * 7), im: rows.im.subarray(cut[c] * 7, cut[c + 1] * 7),
+        rows: cut[c + 1] - cut[c],
+        cols: 7,
+        re: rows.re.subarray(cut[c] * 7, cut[c + 1] * 7),
+        im: rows.im.subarray(cut[c] * 7, cut[c + 1] * 7),
       };
       acc.addRows(part);
     }
@@ -96,17 +110,25 @@ describe('sample covariance', () => {
 });
 
 describe('smoothing, forward–backward, single-snapshot arrangement', () => {
-  const x = simulateSnapshots({ elements: 9, spacingWavelengths: 0.5, bearingsDeg: [-30, 12], noisePower: 0.1, snapshots: 3, seed: 11 });
+  const x = simulateSnapshots({
+    elements: 9,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [-30, 12],
+    noisePower: 0.1,
+    snapshots: 3,
+    seed: 11,
+  });
   const r = sampleCovariance(x);
 
   it('spatial smoothing is the mean of the M−L+1 diagonal blocks (docs/conventions.md §2)', () => {
     const s = spatialSmoothing(r, 6);
     expect(s.rows).toBe(6);
-    for (let i = 0; i < 6; i++) for (let k = 0; k < 6; k++) {
-      let re = 0;
-      for (let b = 0; b < 4; b++) re += r.re[(b + i) * 9 + b + k];
-      expect(s.re[i * 6 + k]).toBeCloseTo(re / 4, 14);
-    }
+    for (let i = 0; i < 6; i++)
+      for (let k = 0; k < 6; k++) {
+        let re = 0;
+        for (let b = 0; b < 4; b++) re += r.re[(b + i) * 9 + b + k];
+        expect(s.re[i * 6 + k]).toBeCloseTo(re / 4, 14);
+      }
     expect(() => spatialSmoothing(r, 10)).toThrow(/from 2 to the 9 elements/);
     expect(() => spatialSmoothing(r, 1.5)).toThrow(DoaInputError);
   });
@@ -114,13 +136,14 @@ describe('smoothing, forward–backward, single-snapshot arrangement', () => {
   it('forward–backward equals (R + J·conj(R)·J)/2 and is persymmetric', () => {
     const f = forwardBackward(r);
     const m = 9;
-    for (let i = 0; i < m; i++) for (let k = 0; k < m; k++) {
-      const j = (m - 1 - i) * m + (m - 1 - k);
-      expect(f.re[i * m + k]).toBeCloseTo(0.5 * (r.re[i * m + k] + r.re[j]), 15);
-      expect(f.im[i * m + k]).toBeCloseTo(0.5 * (r.im[i * m + k] - r.im[j]), 15);
-      expect(f.re[i * m + k]).toBeCloseTo(f.re[j], 15);
-      expect(f.im[i * m + k]).toBeCloseTo(-f.im[j], 15);
-    }
+    for (let i = 0; i < m; i++)
+      for (let k = 0; k < m; k++) {
+        const j = (m - 1 - i) * m + (m - 1 - k);
+        expect(f.re[i * m + k]).toBeCloseTo(0.5 * (r.re[i * m + k] + r.re[j]), 15);
+        expect(f.im[i * m + k]).toBeCloseTo(0.5 * (r.im[i * m + k] - r.im[j]), 15);
+        expect(f.re[i * m + k]).toBeCloseTo(f.re[j], 15);
+        expect(f.im[i * m + k]).toBeCloseTo(-f.im[j], 15);
+      }
   });
 
   it('single-snapshot arrangement equals the literal Hankel form H·Hᴴ/(M−L+1), averaged (docs/conventions.md §2)', () => {
@@ -128,10 +151,11 @@ describe('smoothing, forward–backward, single-snapshot arrangement', () => {
     const literal = zeros(l, l);
     for (let t = 0; t < x.cols; t++) {
       const h = zeros(l, 9 - l + 1);
-      for (let i = 0; i < l; i++) for (let k = 0; k < 9 - l + 1; k++) {
-        h.re[i * h.cols + k] = x.re[(i + k) * x.cols + t];
-        h.im[i * h.cols + k] = x.im[(i + k) * x.cols + t];
-      }
+      for (let i = 0; i < l; i++)
+        for (let k = 0; k < 9 - l + 1; k++) {
+          h.re[i * h.cols + k] = x.re[(i + k) * x.cols + t];
+          h.im[i * h.cols + k] = x.im[(i + k) * x.cols + t];
+        }
       const hh = scale(multiply(h, conjugateTranspose(h)), 1 / (9 - l + 1) / x.cols);
       for (let q = 0; q < l * l; q++) {
         literal.re[q] += hh.re[q];
@@ -147,7 +171,12 @@ describe('smoothing, forward–backward, single-snapshot arrangement', () => {
   for (const s of scenarios) {
     it(`the whole chain matches numpy for fixture "${s.name}" (1e-13 absolute)`, () => {
       const rows = matrixFromJson(s.rows);
-      const o = s.options as { singleSnapshot?: boolean; singleSnapshotSubarray?: number; smoothingSubarray?: number; forwardBackward?: boolean };
+      const o = s.options as {
+        singleSnapshot?: boolean;
+        singleSnapshotSubarray?: number;
+        smoothingSubarray?: number;
+        forwardBackward?: boolean;
+      };
       let c = sampleCovarianceFromRows(rows);
       if (o.singleSnapshot) c = spatialSmoothing(c, o.singleSnapshotSubarray ?? Math.floor(rows.cols / 2) + 1);
       if (o.smoothingSubarray) c = spatialSmoothing(c, o.smoothingSubarray);

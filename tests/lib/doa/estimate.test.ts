@@ -10,7 +10,14 @@ import { sampleCovariance } from '@/lib/doa/covariance';
 const codes = (r: { warnings: { code: string }[] }) => r.warnings.map((w) => w.code);
 
 describe('estimateBearings', () => {
-  const x = simulateSnapshots({ elements: 8, spacingWavelengths: 0.5, bearingsDeg: [-20, 15], noisePower: 0.1, snapshots: 200, seed: 2 });
+  const x = simulateSnapshots({
+    elements: 8,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [-20, 15],
+    noisePower: 0.1,
+    snapshots: 200,
+    seed: 2,
+  });
 
   it('finds two well-separated sources with MDL by default, ascending, with full result fields', () => {
     const before = clone(x);
@@ -32,45 +39,108 @@ describe('estimateBearings', () => {
     expect(r.spectrum!.kind).toBe('music');
     expect(r.spectrum!.valuesDb.length).toBe(18001);
     expect(r.spectrum!.startDeg).toBe(-90);
-    const g = estimateBearings({ snapshots: x, spacingWavelengths: 0.5, method: 'music', includeSpectrum: true, grid: { startDeg: -60, stepDeg: 0.5, count: 241 } });
+    const g = estimateBearings({
+      snapshots: x,
+      spacingWavelengths: 0.5,
+      method: 'music',
+      includeSpectrum: true,
+      grid: { startDeg: -60, stepDeg: 0.5, count: 241 },
+    });
     expect(g.spectrum!.valuesDb.length).toBe(241);
     expect(g.bearingsDeg.every((b) => Number.isInteger(b * 2))).toBe(true);
   });
 
   it('warns esprit-efficiency on 12+ elements without smoothing and names ⌈2M/3⌉', () => {
-    const y = simulateSnapshots({ elements: 16, spacingWavelengths: 0.5, bearingsDeg: [5], noisePower: 1, snapshots: 100, seed: 4 });
+    const y = simulateSnapshots({
+      elements: 16,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [5],
+      noisePower: 1,
+      snapshots: 100,
+      seed: 4,
+    });
     const r = estimateBearings({ snapshots: y, spacingWavelengths: 0.5, method: 'esprit-ls', sourceCount: 1 });
     const w = r.warnings.find((v) => v.code === 'esprit-efficiency');
     expect(w?.message).toMatch(/about 2M\/3 = 11/);
-    expect(codes(estimateBearings({ snapshots: y, spacingWavelengths: 0.5, method: 'esprit-ls', sourceCount: 1, smoothingSubarray: 11 }))).not.toContain('esprit-efficiency');
-    expect(codes(estimateBearings({ snapshots: y, spacingWavelengths: 0.5, method: 'root-music', sourceCount: 1 }))).not.toContain('esprit-efficiency');
+    expect(
+      codes(
+        estimateBearings({
+          snapshots: y,
+          spacingWavelengths: 0.5,
+          method: 'esprit-ls',
+          sourceCount: 1,
+          smoothingSubarray: 11,
+        }),
+      ),
+    ).not.toContain('esprit-efficiency');
+    expect(
+      codes(estimateBearings({ snapshots: y, spacingWavelengths: 0.5, method: 'root-music', sourceCount: 1 })),
+    ).not.toContain('esprit-efficiency');
   });
 
   it('flags coherent sources, and smoothing then resolves them (Shan, Wax & Kailath 1985)', () => {
-    const c = simulateSnapshots({ elements: 10, spacingWavelengths: 0.5, bearingsDeg: [-12, 15], noisePower: 0.05, snapshots: 100, correlation: 1, seed: 8 });
+    const c = simulateSnapshots({
+      elements: 10,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-12, 15],
+      noisePower: 0.05,
+      snapshots: 100,
+      correlation: 1,
+      seed: 8,
+    });
     const raw = estimateBearings({ snapshots: c, spacingWavelengths: 0.5, method: 'esprit-ls' });
     expect(codes(raw)).toContain('coherent-sources-suspected');
     expect(raw.sourceCount).toBe(1); // the rank deficit: MDL sees one source
-    const fixed = estimateBearings({ snapshots: c, spacingWavelengths: 0.5, method: 'esprit-ls', smoothingSubarray: 7, forwardBackward: true });
+    const fixed = estimateBearings({
+      snapshots: c,
+      spacingWavelengths: 0.5,
+      method: 'esprit-ls',
+      smoothingSubarray: 7,
+      forwardBackward: true,
+    });
     expect(fixed.sourceCount).toBe(2);
     expect(Math.abs(fixed.bearingsDeg[0] + 12)).toBeLessThan(0.5);
     expect(Math.abs(fixed.bearingsDeg[1] - 15)).toBeLessThan(0.5);
     expect(codes(fixed)).not.toContain('coherent-sources-suspected');
     // Uncorrelated sources: no false alarm.
-    expect(codes(estimateBearings({ snapshots: x, spacingWavelengths: 0.5, method: 'music' }))).not.toContain('coherent-sources-suspected');
+    expect(codes(estimateBearings({ snapshots: x, spacingWavelengths: 0.5, method: 'music' }))).not.toContain(
+      'coherent-sources-suspected',
+    );
   });
 
   it('warns few-snapshots, source-count-near-limit and ill-conditioned-covariance', () => {
-    const y = simulateSnapshots({ elements: 8, spacingWavelengths: 0.5, bearingsDeg: [0, 30], noisePower: 0.1, snapshots: 5, seed: 9 });
+    const y = simulateSnapshots({
+      elements: 8,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [0, 30],
+      noisePower: 0.1,
+      snapshots: 5,
+      seed: 9,
+    });
     const r = estimateBearings({ snapshots: y, spacingWavelengths: 0.5, method: 'music', sourceCount: 6 });
-    expect(codes(r)).toEqual(expect.arrayContaining(['few-snapshots', 'source-count-near-limit', 'ill-conditioned-covariance']));
+    expect(codes(r)).toEqual(
+      expect.arrayContaining(['few-snapshots', 'source-count-near-limit', 'ill-conditioned-covariance']),
+    );
     const m = estimateBearings({ snapshots: y, spacingWavelengths: 0.5, method: 'mvdr', sourceCount: 2 });
     expect(m.warnings.find((w) => w.code === 'ill-conditioned-covariance')?.message).toMatch(/pseudo-inverse/);
   });
 
   it('single-snapshot option: L = ⌊M/2⌋+1 and N counts as 1 for the rule', () => {
-    const y = simulateSnapshots({ elements: 16, spacingWavelengths: 0.5, bearingsDeg: [-10, 20], noisePower: 0.001, snapshots: 1, seed: 12 });
-    const r = estimateBearings({ snapshots: y, spacingWavelengths: 0.5, method: 'esprit-ls', singleSnapshot: true, sourceCount: 2 });
+    const y = simulateSnapshots({
+      elements: 16,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-10, 20],
+      noisePower: 0.001,
+      snapshots: 1,
+      seed: 12,
+    });
+    const r = estimateBearings({
+      snapshots: y,
+      spacingWavelengths: 0.5,
+      method: 'esprit-ls',
+      singleSnapshot: true,
+      sourceCount: 2,
+    });
     expect(r.effectiveElements).toBe(9);
     expect(r.criteria.snapshotsUsed).toBe(1);
     expect(codes(r)).not.toContain('few-snapshots');
@@ -80,10 +150,11 @@ describe('estimateBearings', () => {
 
   it('accepts rows (N × M) and gives the same answer as snapshots (M × N)', () => {
     const rows = zeros(x.cols, x.rows);
-    for (let i = 0; i < x.rows; i++) for (let t = 0; t < x.cols; t++) {
-      rows.re[t * x.rows + i] = x.re[i * x.cols + t];
-      rows.im[t * x.rows + i] = x.im[i * x.cols + t];
-    }
+    for (let i = 0; i < x.rows; i++)
+      for (let t = 0; t < x.cols; t++) {
+        rows.re[t * x.rows + i] = x.re[i * x.cols + t];
+        rows.im[t * x.rows + i] = x.im[i * x.cols + t];
+      }
     const a = estimateBearings({ snapshots: x, spacingWavelengths: 0.5, method: 'root-music' });
     const b = estimateBearings({ rows, spacingWavelengths: 0.5, method: 'root-music' });
     expect(b.bearingsDeg).toEqual(a.bearingsDeg);
@@ -124,7 +195,15 @@ describe('simulateSnapshots', () => {
     expect(simulateSnapshots({ ...o, seed: 3 }).re).not.toEqual(simulateSnapshots({ ...o, seed: 4 }).re);
   });
   it('has the model covariance A·P·Aᴴ + σ²I in the large-N limit (powers 2 and 0.5, σ² = 0.3)', () => {
-    const x = simulateSnapshots({ elements: 3, spacingWavelengths: 0.5, bearingsDeg: [0, 30], powers: [2, 0.5], noisePower: 0.3, snapshots: 100000, seed: 6 });
+    const x = simulateSnapshots({
+      elements: 3,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [0, 30],
+      powers: [2, 0.5],
+      noisePower: 0.3,
+      snapshots: 100000,
+      seed: 6,
+    });
     const r = sampleCovariance(x);
     // Diagonal = 2 + 0.5 + 0.3; R[0,1] = 2 + 0.5·e^{−jπ/2} = 2 − 0.5j (a_0 conj(a_1)). 4σ of the estimate ≈ 0.03.
     for (let i = 0; i < 3; i++) expect(Math.abs(r.re[i * 3 + i] - 2.8)).toBeLessThan(0.04);
@@ -132,7 +211,15 @@ describe('simulateSnapshots', () => {
     expect(Math.abs(r.im[1] + 0.5)).toBeLessThan(0.04);
   });
   it('fully coherent sources (ρ = 1) give a rank-one source covariance', () => {
-    const x = simulateSnapshots({ elements: 6, spacingWavelengths: 0.5, bearingsDeg: [-10, 20], noisePower: 0, snapshots: 50, correlation: 1, seed: 1 });
+    const x = simulateSnapshots({
+      elements: 6,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-10, 20],
+      noisePower: 0,
+      snapshots: 50,
+      correlation: 1,
+      seed: 1,
+    });
     const e = estimateBearings({ snapshots: x, spacingWavelengths: 0.5, method: 'music', sourceCount: 1 }).eigenvalues;
     expect(e[1] / e[0]).toBeLessThan(1e-14); // rounding level
   });
@@ -162,7 +249,9 @@ describe('simulateSnapshots', () => {
 describe('metrics', () => {
   function permutations(n: number): number[][] {
     if (n === 0) return [[]];
-    return permutations(n - 1).flatMap((p) => Array.from({ length: n }, (_, i) => [...p.slice(0, i), n - 1, ...p.slice(i)]));
+    return permutations(n - 1).flatMap((p) =>
+      Array.from({ length: n }, (_, i) => [...p.slice(0, i), n - 1, ...p.slice(i)]),
+    );
   }
   it('sorted pairing equals the brute-force optimum over all pairings (random cases)', () => {
     const g = new SeededRandom(7);

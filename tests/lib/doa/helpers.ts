@@ -1,8 +1,16 @@
 // Shared test helpers for lib/doa (not a test file itself).
 import { ComplexMatrix, ComplexVector, zeros } from '@/lib/doa/linalg/complex';
 
-export interface JsonMatrix { rows: number; cols: number; re: number[]; im: number[] }
-export interface JsonVector { re: number[]; im: number[] }
+export interface JsonMatrix {
+  rows: number;
+  cols: number;
+  re: number[];
+  im: number[];
+}
+export interface JsonVector {
+  re: number[];
+  im: number[];
+}
 
 export function matrixFromJson(c: JsonMatrix): ComplexMatrix {
   return { rows: c.rows, cols: c.cols, re: Float64Array.from(c.re), im: Float64Array.from(c.im) };
@@ -47,7 +55,13 @@ export function steeringMatrix(m: number, d: number, bearingsDeg: number[]): Com
 }
 
 /** Exact covariance R = A·P·Aᴴ + σ²·I. */
-export function exactCovariance(m: number, d: number, bearingsDeg: number[], powers: number[], noise: number): ComplexMatrix {
+export function exactCovariance(
+  m: number,
+  d: number,
+  bearingsDeg: number[],
+  powers: number[],
+  noise: number,
+): ComplexMatrix {
   const a = steeringMatrix(m, d, bearingsDeg);
   const r = zeros(m, m);
   for (let i = 0; i < m; i++) {

@@ -2,7 +2,16 @@
 // fixtures/doa/generate.py (seeded), plus invariants and bad input.
 import { describe, expect, it } from 'vitest';
 import fixtures from '@/fixtures/doa/linalg.json';
-import { ComplexMatrix, conjugateTranspose, multiply, subtract, frobeniusNorm, identity, clone, fromNested } from '@/lib/doa/linalg/complex';
+import {
+  ComplexMatrix,
+  conjugateTranspose,
+  multiply,
+  subtract,
+  frobeniusNorm,
+  identity,
+  clone,
+  fromNested,
+} from '@/lib/doa/linalg/complex';
 import { hermitianEigen } from '@/lib/doa/linalg/hermitian-eigen';
 import { symmetricEigen } from '@/lib/doa/linalg/symmetric-eigen';
 import { svd } from '@/lib/doa/linalg/svd';
@@ -62,7 +71,10 @@ describe('hermitianEigen', () => {
   });
 
   it('rejects NaN and non-square input with a DoaInputError naming the problem', () => {
-    const a = fromNested([[1, 2], [2, NaN]]);
+    const a = fromNested([
+      [1, 2],
+      [2, NaN],
+    ]);
     expect(() => hermitianEigen(a)).toThrow(DoaInputError);
     expect(() => hermitianEigen(a)).toThrow(/not a finite number/);
     expect(() => hermitianEigen(fromNested([[1, 2, 3]]))).toThrow(/not square/);
@@ -105,7 +117,9 @@ describe('svd, pseudoInverse, leastSquares', () => {
       expect(maxAbsDiff(p.im, ref.im)).toBeLessThan(1e-12 * Math.max(1, 1 / c.s[c.rank - 1]));
       // Invariants: V unitary (full n × n) and A·V = U·S on the kept columns.
       const n = c.a.cols;
-      expect(frobeniusNorm(subtract(multiply(conjugateTranspose(v), v), identity(n)))).toBeLessThan(100 * n * Number.EPSILON);
+      expect(frobeniusNorm(subtract(multiply(conjugateTranspose(v), v), identity(n)))).toBeLessThan(
+        100 * n * Number.EPSILON,
+      );
       const av = multiply(a, v);
       for (let j = 0; j < s.length; j++) {
         for (let i = 0; i < c.a.rows; i++) {
@@ -163,6 +177,8 @@ describe('polynomialRoots', () => {
     expect(setDistance(r, { re: Float64Array.from([2, 0, 0]), im: new Float64Array(3) })).toBeLessThan(1e-14);
   });
   it('rejects Inf coefficients', () => {
-    expect(() => polynomialRoots({ re: Float64Array.from([1, Infinity]), im: new Float64Array(2) })).toThrow(/not a finite number/);
+    expect(() => polynomialRoots({ re: Float64Array.from([1, Infinity]), im: new Float64Array(2) })).toThrow(
+      /not a finite number/,
+    );
   });
 });

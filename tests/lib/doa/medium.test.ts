@@ -54,7 +54,11 @@ describe('Mackenzie (1981)', () => {
     const r = soundSpeedMackenzie(40, 40, 10000);
     expect(r.speedMps).toBeCloseTo(1718.774, 3);
     expect(r.warnings.map((w) => w.field).sort()).toEqual(['depthM', 'temperatureC']);
-    expect(soundSpeedMackenzie(1, 20, 0).warnings.map((w) => w.field).sort()).toEqual(['salinityPsu', 'temperatureC']);
+    expect(
+      soundSpeedMackenzie(1, 20, 0)
+        .warnings.map((w) => w.field)
+        .sort(),
+    ).toEqual(['salinityPsu', 'temperatureC']);
   });
 });
 
@@ -74,11 +78,22 @@ describe('UNESCO (Chen & Millero 1977, Fofonoff & Millard 1983)', () => {
     // Both are fits to the same measurements; at the surface they agree closely (docs/references.md §2 [computed]:
     // 1521.463 vs 1521.462 at 20 °C). Depth → pressure by Saunders (1981).
     const mk = soundSpeedMackenzie(10, 35, 1000).speedMps;
-    const un = propagationSpeed({ kind: 'sea-water', equation: 'unesco', temperatureC: 10, salinityPsu: 35, depthM: 1000, latitudeDeg: 45 }).speedMps;
+    const un = propagationSpeed({
+      kind: 'sea-water',
+      equation: 'unesco',
+      temperatureC: 10,
+      salinityPsu: 35,
+      depthM: 1000,
+      latitudeDeg: 45,
+    }).speedMps;
     expect(Math.abs(mk - un)).toBeLessThan(0.5);
   });
   it('warns outside its range', () => {
-    expect(soundSpeedUnesco(35, 45, 12000).warnings.map((w) => w.field).sort()).toEqual(['pressureDbar', 'temperatureC']);
+    expect(
+      soundSpeedUnesco(35, 45, 12000)
+        .warnings.map((w) => w.field)
+        .sort(),
+    ).toEqual(['pressureDbar', 'temperatureC']);
   });
 });
 
@@ -136,7 +151,9 @@ describe('bad input', () => {
     expect(() => wavelengthM(1000, -1)).toThrow(/speedMps/);
     expect(() => propagationSpeed({ kind: 'custom', speedMps: 0 })).toThrow(/medium.speedMps/);
     expect(() => propagationSpeed({ kind: 'plasma' } as never)).toThrow(DoaInputError);
-    expect(() => propagationSpeed({ kind: 'sea-water', equation: 'unesco', temperatureC: 10, salinityPsu: 35 })).toThrow(/pressureDbar or depthM/);
+    expect(() =>
+      propagationSpeed({ kind: 'sea-water', equation: 'unesco', temperatureC: 10, salinityPsu: 35 }),
+    ).toThrow(/pressureDbar or depthM/);
     expect(() => soundSpeedAir(-300)).toThrow(/temperatureC/);
     expect(() => bearingUnderAssumedSpeed(120, 1500, 1500)).toThrow(/trueBearingDeg/);
   });

@@ -19,8 +19,14 @@ import { sampleCovariance } from '@/lib/doa/covariance';
 import { exactCovariance, matrixFromJson, maxAbsDiff, JsonMatrix } from './helpers';
 
 interface Scenario {
-  name: string; elements: number; spacingWavelengths: number; rows: JsonMatrix; options: Record<string, unknown>;
-  eigenvalues: number[]; sourceCount: number; sourceCountRule: string;
+  name: string;
+  elements: number;
+  spacingWavelengths: number;
+  rows: JsonMatrix;
+  options: Record<string, unknown>;
+  eigenvalues: number[];
+  sourceCount: number;
+  sourceCountRule: string;
   criteria: { mdl: number[]; aic: number[]; logLikelihood: number[] };
   bearingsDeg: Record<DoaMethod, number[]>;
   spectra: Record<'music' | 'bartlett' | 'mvdr', { peakIndices: number[]; sampleEvery: number; valuesDb: number[] }>;
@@ -34,7 +40,13 @@ describe('agreement with the numpy reference on seeded noisy data', () => {
       for (const method of DOA_METHODS) {
         it(`${method} matches numpy (≤1e-6°; spectral methods: the same grid points)`, () => {
           const before = clone(rows);
-          const r = estimateBearings({ rows, spacingWavelengths: s.spacingWavelengths, method, includeSpectrum: true, ...s.options });
+          const r = estimateBearings({
+            rows,
+            spacingWavelengths: s.spacingWavelengths,
+            method,
+            includeSpectrum: true,
+            ...s.options,
+          });
           expect(rows).toEqual(before); // no mutation
           expect(r.sourceCount).toBe(s.sourceCount);
           expect(r.sourceCountRule).toBe(s.sourceCountRule);
@@ -57,9 +69,16 @@ describe('agreement with the numpy reference on seeded noisy data', () => {
         });
       }
       it('MDL/AIC curves match numpy (1e-9 relative)', () => {
-        const r = estimateBearings({ rows, spacingWavelengths: s.spacingWavelengths, method: 'esprit-ls', ...s.options });
+        const r = estimateBearings({
+          rows,
+          spacingWavelengths: s.spacingWavelengths,
+          method: 'esprit-ls',
+          ...s.options,
+        });
         for (const key of ['mdl', 'aic', 'logLikelihood'] as const) {
-          s.criteria[key].forEach((v, k) => expect(Math.abs(r.criteria[key][k] - v)).toBeLessThan(1e-9 * Math.max(1, Math.abs(v))));
+          s.criteria[key].forEach((v, k) =>
+            expect(Math.abs(r.criteria[key][k] - v)).toBeLessThan(1e-9 * Math.max(1, Math.abs(v))),
+          );
         }
       });
     });
@@ -71,7 +90,14 @@ describe('noise-free exactness with the exact covariance (docs/references.md §7
   const truth = [-20, 10.5, 35];
   const r = exactCovariance(8, 0.5, truth, [1, 2, 0.5], 0.1);
   const eig = hermitianEigen(r);
-  const input = { covariance: r, eigenvalues: eig.values, eigenvectors: eig.vectors, sourceCount: 3, spacingWavelengths: 0.5, grid: DEFAULT_GRID };
+  const input = {
+    covariance: r,
+    eigenvalues: eig.values,
+    eigenvectors: eig.vectors,
+    sourceCount: 3,
+    spacingWavelengths: 0.5,
+    grid: DEFAULT_GRID,
+  };
 
   it('eigenvalues are 16.38799, 8.11510, 3.79691 and then σ² = 0.1 five times', () => {
     // Source: docs/references.md §7 [computed]; printed to 5 decimals. Noise eigenvalues equal σ² (analytic).
@@ -99,10 +125,11 @@ describe('noise-free exactness with the exact covariance (docs/references.md §7
     for (const n of [6, 7]) {
       const q = leftPiRealMatrix(n);
       expect(frobeniusNorm(subtract(multiply(conjugateTranspose(q), q), identity(n)))).toBeLessThan(1e-15);
-      for (let i = 0; i < n; i++) for (let k = 0; k < n; k++) {
-        expect(q.re[(n - 1 - i) * n + k]).toBeCloseTo(q.re[i * n + k], 15);
-        expect(-q.im[(n - 1 - i) * n + k]).toBeCloseTo(q.im[i * n + k], 15);
-      }
+      for (let i = 0; i < n; i++)
+        for (let k = 0; k < n; k++) {
+          expect(q.re[(n - 1 - i) * n + k]).toBeCloseTo(q.re[i * n + k], 15);
+          expect(-q.im[(n - 1 - i) * n + k]).toBeCloseTo(q.im[i * n + k], 15);
+        }
     }
     // μ = 2·atan(ω) recovers the electrical angles with real ω (exact data).
     const mus = Array.from(unitaryEspritElectricalAngles(r, 3)).sort((a, b) => a - b);
@@ -122,7 +149,14 @@ describe('single-source identities (docs/references.md §7)', () => {
     expect(Math.abs(p[1] - 0.0100055)).toBeLessThan(5e-8); // docs/references.md §7 [computed], 6 significant digits
   });
   it('MVDR and Bartlett peak exactly at the single source (|a0ᴴa| is largest there; derived)', () => {
-    const one = { covariance: r, eigenvalues: eig.values, eigenvectors: eig.vectors, sourceCount: 1, spacingWavelengths: 0.5, grid: DEFAULT_GRID };
+    const one = {
+      covariance: r,
+      eigenvalues: eig.values,
+      eigenvectors: eig.vectors,
+      sourceCount: 1,
+      spacingWavelengths: 0.5,
+      grid: DEFAULT_GRID,
+    };
     expect(METHOD_RUNNERS.mvdr(one).bearingsDeg).toEqual([20]);
     expect(METHOD_RUNNERS.bartlett(one).bearingsDeg).toEqual([20]);
   });
@@ -135,7 +169,14 @@ describe('single-source identities (docs/references.md §7)', () => {
 
 describe('spectrum evaluation: Horner on diagonal sums vs the direct formula', () => {
   it('MUSIC ‖Enᴴa‖² agrees with the direct sum to 1e-10 relative on noisy data (M = 64, K = 2)', () => {
-    const x = simulateSnapshots({ elements: 64, spacingWavelengths: 0.5, bearingsDeg: [-12.3, 40.1], noisePower: 1, snapshots: 200, seed: 3 });
+    const x = simulateSnapshots({
+      elements: 64,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-12.3, 40.1],
+      noisePower: 1,
+      snapshots: 200,
+      seed: 3,
+    });
     const eig = hermitianEigen(sampleCovariance(x));
     const angles = gridAngles(DEFAULT_GRID);
     const fast = musicDenominator(eig.vectors, 2, 0.5, angles);
@@ -173,9 +214,16 @@ describe('angle mapping and peak rules', () => {
   });
   it('an ESPRIT phase beyond 2π·d (d = 0.25) is clipped with an angle-clipped warning', () => {
     // Exact single source whose μ = 0.9π exceeds 2π·0.25 = π/2 once d is misstated as 0.25.
-    const r = exactCovariance(6, 0.5, [Math.asin(0.9) * 180 / Math.PI], [1], 0.01);
+    const r = exactCovariance(6, 0.5, [(Math.asin(0.9) * 180) / Math.PI], [1], 0.01);
     const eig = hermitianEigen(r);
-    const out = METHOD_RUNNERS['esprit-ls']({ covariance: r, eigenvalues: eig.values, eigenvectors: eig.vectors, sourceCount: 1, spacingWavelengths: 0.25, grid: DEFAULT_GRID });
+    const out = METHOD_RUNNERS['esprit-ls']({
+      covariance: r,
+      eigenvalues: eig.values,
+      eigenvectors: eig.vectors,
+      sourceCount: 1,
+      spacingWavelengths: 0.25,
+      grid: DEFAULT_GRID,
+    });
     expect(out.bearingsDeg).toEqual([90]);
     expect(out.warnings.map((w) => w.code)).toEqual(['angle-clipped']);
     expect(Math.abs(espritLsElectricalAngles(signalSubspace(eig.vectors, 1))[0] - 0.9 * Math.PI)).toBeLessThan(1e-12);

@@ -27,23 +27,30 @@ describe('LS-ESPRIT Monte Carlo (single source, 0 dB, N = 100)', () => {
   const full: number[] = [];
   const crb = ELEMENTS.map((m) => singleSourceStochasticCrbDeg(m, 100, 1));
   beforeAll(() => {
-  for (const m of ELEMENTS) {
-    let s1 = 0;
-    let s2 = 0;
-    const l = recommendedSmoothingSubarray(m);
-    for (let t = 0; t < TRIALS; t++) {
-      const x = simulateSnapshots({ elements: m, spacingWavelengths: 0.5, bearingsDeg: [0], noisePower: 1, snapshots: 100, seed: 200000 + 1000 * m + t });
-      const r = sampleCovariance(x);
-      const es = signalSubspace(hermitianEigen(spatialSmoothing(r, l)).vectors, 1);
-      const a = bearingsFromElectricalAngles(espritLsElectricalAngles(es), 0.5).bearingsDeg[0];
-      const ef = signalSubspace(hermitianEigen(r).vectors, 1);
-      const b = bearingsFromElectricalAngles(espritLsElectricalAngles(ef), 0.5).bearingsDeg[0];
-      s1 += a * a;
-      s2 += b * b;
+    for (const m of ELEMENTS) {
+      let s1 = 0;
+      let s2 = 0;
+      const l = recommendedSmoothingSubarray(m);
+      for (let t = 0; t < TRIALS; t++) {
+        const x = simulateSnapshots({
+          elements: m,
+          spacingWavelengths: 0.5,
+          bearingsDeg: [0],
+          noisePower: 1,
+          snapshots: 100,
+          seed: 200000 + 1000 * m + t,
+        });
+        const r = sampleCovariance(x);
+        const es = signalSubspace(hermitianEigen(spatialSmoothing(r, l)).vectors, 1);
+        const a = bearingsFromElectricalAngles(espritLsElectricalAngles(es), 0.5).bearingsDeg[0];
+        const ef = signalSubspace(hermitianEigen(r).vectors, 1);
+        const b = bearingsFromElectricalAngles(espritLsElectricalAngles(ef), 0.5).bearingsDeg[0];
+        s1 += a * a;
+        s2 += b * b;
+      }
+      smoothed.push(Math.sqrt(s1 / TRIALS));
+      full.push(Math.sqrt(s2 / TRIALS));
     }
-    smoothed.push(Math.sqrt(s1 / TRIALS));
-    full.push(Math.sqrt(s2 / TRIALS));
-  }
   });
   const fmt = (v: number[]) => ELEMENTS.map((m, i) => `${m}:${(v[i] / crb[i]).toFixed(3)}`).join(' ');
 

@@ -21,7 +21,14 @@ describe('root-MUSIC Monte Carlo (single source, 0 dB, N = 100)', () => {
     for (const m of ELEMENTS) {
       let sum = 0;
       for (let t = 0; t < TRIALS; t++) {
-        const x = simulateSnapshots({ elements: m, spacingWavelengths: 0.5, bearingsDeg: [0], noisePower: 1, snapshots: 100, seed: 100000 + 1000 * m + t });
+        const x = simulateSnapshots({
+          elements: m,
+          spacingWavelengths: 0.5,
+          bearingsDeg: [0],
+          noisePower: 1,
+          snapshots: 100,
+          seed: 100000 + 1000 * m + t,
+        });
         const eig = hermitianEigen(sampleCovariance(x));
         const b = bearingsFromElectricalAngles(rootMusicElectricalAngles(eig.vectors, 1, 0.5), 0.5).bearingsDeg[0];
         sum += b * b;
@@ -31,7 +38,12 @@ describe('root-MUSIC Monte Carlo (single source, 0 dB, N = 100)', () => {
       ratios.push(e / singleSourceStochasticCrbDeg(m, 100, 1));
     }
     const slope = logLogSlope(ELEMENTS, rmse);
-    console.info('root-MUSIC RMSE/√CRB by M', ELEMENTS.map((m, i) => `${m}:${ratios[i].toFixed(3)}`).join(' '), 'slope', slope.toFixed(3));
+    console.info(
+      'root-MUSIC RMSE/√CRB by M',
+      ELEMENTS.map((m, i) => `${m}:${ratios[i].toFixed(3)}`).join(' '),
+      'slope',
+      slope.toFixed(3),
+    );
     for (const r of ratios) expect(r).toBeLessThan(1.15);
     expect(slope).toBeGreaterThan(-1.6);
     expect(slope).toBeLessThan(-1.4);
@@ -45,7 +57,15 @@ describe('MDL detection rate (two sources, 10 dB, N = 200, M = 8)', () => {
     let hits = 0;
     const trials = 300;
     for (let t = 0; t < trials; t++) {
-      const x = simulateSnapshots({ elements: 8, spacingWavelengths: 0.5, bearingsDeg: [-20, 15], powers: [1, 1], noisePower: 0.1, snapshots: 200, seed: 700000 + t });
+      const x = simulateSnapshots({
+        elements: 8,
+        spacingWavelengths: 0.5,
+        bearingsDeg: [-20, 15],
+        powers: [1, 1],
+        noisePower: 0.1,
+        snapshots: 200,
+        seed: 700000 + t,
+      });
       const values = hermitianEigen(sampleCovariance(x), { vectors: false }).values;
       if (estimateSourceCount(values, 200, 'mdl') === 2) hits++;
     }

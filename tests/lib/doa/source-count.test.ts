@@ -20,12 +20,16 @@ describe('Wax & Kailath worked example', () => {
     const L = [590.41, 37.24, 11.68, 4.762, 3.4, 1.595, 0];
     const AIC = [1180.82, 100.48, 71.36, 75.52, 86.8, 93.19, 96.0];
     const MDL = [590.41, 67.17, 66.94, 80.75, 95.5, 105.21, 110.52];
-    L.forEach((v, k) => expect(Math.abs(c.logLikelihood[k] - v)).toBeLessThanOrEqual(k === 3 || k === 5 ? 0.0005 : 0.005));
+    L.forEach((v, k) =>
+      expect(Math.abs(c.logLikelihood[k] - v)).toBeLessThanOrEqual(k === 3 || k === 5 ? 0.0005 : 0.005),
+    );
     AIC.forEach((v, k) => expect(Math.abs(c.aic[k] - v)).toBeLessThanOrEqual(0.005));
     MDL.forEach((v, k) => expect(Math.abs(c.mdl[k] - v)).toBeLessThanOrEqual(0.005));
   });
   it('matches the code-comment values AIC ≈ 1e3·[1.1808, 0.1005, 0.0714, …] (docs/references.md §6)', () => {
-    [1.1808, 0.1005, 0.0714, 0.0755, 0.0868, 0.0932, 0.096].forEach((v, k) => expect(Math.abs(c.aic[k] / 1000 - v)).toBeLessThanOrEqual(0.00005));
+    [1.1808, 0.1005, 0.0714, 0.0755, 0.0868, 0.0932, 0.096].forEach((v, k) =>
+      expect(Math.abs(c.aic[k] / 1000 - v)).toBeLessThanOrEqual(0.00005),
+    );
   });
 });
 

@@ -25,7 +25,11 @@ export const baseConfig: ArrayInputRaw = {
   steerDeg: 5,
   scanSectorDeg: 40,
   taper: { kind: 'hann' },
-  elementStates: Array.from({ length: 8 }, (_, i) => ({ enabled: true, gainDb: i === 3 ? 0.4 : 0, phaseDeg: i === 3 ? -2.5 : 0 })),
+  elementStates: Array.from({ length: 8 }, (_, i) => ({
+    enabled: true,
+    gainDb: i === 3 ? 0.4 : 0,
+    phaseDeg: i === 3 ? -2.5 : 0,
+  })),
   plannedSources: [{ bearingDeg: -20 }, { bearingDeg: 14 }, { bearingDeg: 17 }],
   snapshots: 200,
   snrDb: 12,
@@ -34,7 +38,12 @@ export const baseConfig: ArrayInputRaw = {
 export async function createArray({ user, config = baseConfig }: { user: User; config?: ArrayInputRaw }) {
   const input = arrayInputSchema.parse(config);
   const geometry = resolveArrayGeometry(input);
-  const array = await ArrayDesign.create({ teamId: user.teamId as number, name: input.name, latestRevision: 1, createdById: user.id });
+  const array = await ArrayDesign.create({
+    teamId: user.teamId as number,
+    name: input.name,
+    latestRevision: 1,
+    createdById: user.id,
+  });
   const revision = await ArrayRevision.create({
     arrayId: array.id,
     revision: 1,
@@ -49,8 +58,28 @@ export async function createArray({ user, config = baseConfig }: { user: User; c
 }
 
 /** Complex CSV (N rows of M "a+bj" cells) with round-trip number formatting. */
-export function snapshotsCsv({ elements, spacingWavelengths, bearingsDeg, snapshots, seed }: { elements: number; spacingWavelengths: number; bearingsDeg: number[]; snapshots: number; seed: number }): string {
-  const x = simulateSnapshots({ elements, spacingWavelengths, bearingsDeg, powers: bearingsDeg.map(() => 4), noisePower: 0.25, snapshots, seed });
+export function snapshotsCsv({
+  elements,
+  spacingWavelengths,
+  bearingsDeg,
+  snapshots,
+  seed,
+}: {
+  elements: number;
+  spacingWavelengths: number;
+  bearingsDeg: number[];
+  snapshots: number;
+  seed: number;
+}): string {
+  const x = simulateSnapshots({
+    elements,
+    spacingWavelengths,
+    bearingsDeg,
+    powers: bearingsDeg.map(() => 4),
+    noisePower: 0.25,
+    snapshots,
+    seed,
+  });
   const lines: string[] = [];
   for (let n = 0; n < snapshots; n++) {
     const cells: string[] = [];
@@ -64,7 +93,23 @@ export function snapshotsCsv({ elements, spacingWavelengths, bearingsDeg, snapsh
   return lines.join('\n') + '\n';
 }
 
-export async function createDataset({ user, elements, spacingWavelengths, bearingsDeg = [-20, 14], snapshots = 200, seed = 7, arrayId = null }: { user: User; elements: number; spacingWavelengths: number; bearingsDeg?: number[]; snapshots?: number; seed?: number; arrayId?: number | null }) {
+export async function createDataset({
+  user,
+  elements,
+  spacingWavelengths,
+  bearingsDeg = [-20, 14],
+  snapshots = 200,
+  seed = 7,
+  arrayId = null,
+}: {
+  user: User;
+  elements: number;
+  spacingWavelengths: number;
+  bearingsDeg?: number[];
+  snapshots?: number;
+  seed?: number;
+  arrayId?: number | null;
+}) {
   const text = snapshotsCsv({ elements, spacingWavelengths, bearingsDeg, snapshots, seed });
   const rel = path.join('datasets', String(user.teamId), `${randomUUID()}.csv`);
   const full = path.join(dataDir(), rel);
@@ -88,14 +133,39 @@ export async function createDataset({ user, elements, spacingWavelengths, bearin
   return { dataset, text };
 }
 
-export async function createRun({ user, revision, dataset, spacingWavelengths, methods = ['esprit-tls', 'root-music', 'music'] as DoaMethod[], sourceCount = 2 }: { user: User; revision: ArrayRevision; dataset: Dataset; spacingWavelengths: number; methods?: DoaMethod[]; sourceCount?: number }) {
+export async function createRun({
+  user,
+  revision,
+  dataset,
+  spacingWavelengths,
+  methods = ['esprit-tls', 'root-music', 'music'] as DoaMethod[],
+  sourceCount = 2,
+}: {
+  user: User;
+  revision: ArrayRevision;
+  dataset: Dataset;
+  spacingWavelengths: number;
+  methods?: DoaMethod[];
+  sourceCount?: number;
+}) {
   // The data as the dataset reader gives it (N × M, one snapshot per row), as the runs use it.
-  const parsed = await parseSnapshotFile({ path: path.join(dataDir(), dataset.storagePath), format: 'csv', fileName: dataset.originalName });
+  const parsed = await parseSnapshotFile({
+    path: path.join(dataDir(), dataset.storagePath),
+    format: 'csv',
+    fileName: dataset.originalName,
+  });
   const rows = { rows: parsed.snapshots, cols: parsed.elements, re: parsed.re, im: parsed.im };
   const options = { sourceCount, forwardBackward: true };
   const results = methods.map((method) => {
     const r = estimateBearings({ rows, spacingWavelengths, method, ...options });
-    return { method: r.method, sourceCount: r.sourceCount, sourceCountRule: r.sourceCountRule, bearingsDeg: r.bearingsDeg, eigenvalues: r.eigenvalues, warnings: r.warnings.map((w) => ({ code: w.code, message: w.message })) };
+    return {
+      method: r.method,
+      sourceCount: r.sourceCount,
+      sourceCountRule: r.sourceCountRule,
+      bearingsDeg: r.bearingsDeg,
+      eigenvalues: r.eigenvalues,
+      warnings: r.warnings.map((w) => ({ code: w.code, message: w.message })),
+    };
   });
   const request = { datasetId: dataset.id, arrayId: revision.arrayId as number, methods, ...options };
   const run = await EstimateRun.create({
@@ -109,8 +179,20 @@ export async function createRun({ user, revision, dataset, spacingWavelengths, m
       request,
       methods,
       options,
-      array: { elements: dataset.elements, spacingWavelengths, arrayId: revision.arrayId as number, arrayRevisionId: revision.id, revision: revision.revision },
-      dataset: { id: dataset.id, sha256: dataset.sha256, name: dataset.name, elements: dataset.elements, snapshots: dataset.snapshots },
+      array: {
+        elements: dataset.elements,
+        spacingWavelengths,
+        arrayId: revision.arrayId as number,
+        arrayRevisionId: revision.id,
+        revision: revision.revision,
+      },
+      dataset: {
+        id: dataset.id,
+        sha256: dataset.sha256,
+        name: dataset.name,
+        elements: dataset.elements,
+        snapshots: dataset.snapshots,
+      },
     },
     result: { results },
     softwareVersion: '0.1.0',

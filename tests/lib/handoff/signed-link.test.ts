@@ -31,17 +31,27 @@ describe('signed links', () => {
 
   it('refuses an expired link', () => {
     const token = createSignedToken({ purpose: 'bundle', subject: 'x', ttlSeconds: 60, secret, now: t0 });
-    expect(problemOf(() => verifySignedToken({ token, purpose: 'bundle', secret, now: new Date(t0.getTime() + 60_000) }))).toBe('expired');
+    expect(
+      problemOf(() => verifySignedToken({ token, purpose: 'bundle', secret, now: new Date(t0.getTime() + 60_000) })),
+    ).toBe('expired');
   });
 
   it('refuses a tampered payload, a tampered signature and another secret', () => {
     const token = createSignedToken({ purpose: 'bundle', subject: 'handoff-1', ttlSeconds: 60, secret, now: t0 });
     const [payload, signature] = token.split('.');
-    const forged = Buffer.from(Buffer.from(payload, 'base64url').toString().replace('handoff-1', 'handoff-2')).toString('base64url');
-    expect(problemOf(() => verifySignedToken({ token: `${forged}.${signature}`, purpose: 'bundle', secret, now: t0 }))).toBe('bad-signature');
+    const forged = Buffer.from(Buffer.from(payload, 'base64url').toString().replace('handoff-1', 'handoff-2')).toString(
+      'base64url',
+    );
+    expect(
+      problemOf(() => verifySignedToken({ token: `${forged}.${signature}`, purpose: 'bundle', secret, now: t0 })),
+    ).toBe('bad-signature');
     const flipped = signature.slice(0, -2) + (signature.endsWith('AA') ? 'BB' : 'AA');
-    expect(problemOf(() => verifySignedToken({ token: `${payload}.${flipped}`, purpose: 'bundle', secret, now: t0 }))).toBe('bad-signature');
-    expect(problemOf(() => verifySignedToken({ token, purpose: 'bundle', secret: 'other', now: t0 }))).toBe('bad-signature');
+    expect(
+      problemOf(() => verifySignedToken({ token: `${payload}.${flipped}`, purpose: 'bundle', secret, now: t0 })),
+    ).toBe('bad-signature');
+    expect(problemOf(() => verifySignedToken({ token, purpose: 'bundle', secret: 'other', now: t0 }))).toBe(
+      'bad-signature',
+    );
   });
 
   it('refuses a link made for another purpose, and malformed input', () => {

@@ -61,11 +61,25 @@ describe('single source, M = 10, N = 100, SNR sweep 0–10 dB (docs/references.m
 
 describe('CRB column', () => {
   it('equals lib/doa stochasticCrb for two sources at every point', async () => {
-    const spec: StudySpec = { ...base, bearingsDeg: [10, -5], powersDb: [3, 0], sweep: { variable: 'snapshots', values: [50, 200] }, methods: ['esprit-tls'], trials: 5 };
+    const spec: StudySpec = {
+      ...base,
+      bearingsDeg: [10, -5],
+      powersDb: [3, 0],
+      sweep: { variable: 'snapshots', values: [50, 200] },
+      methods: ['esprit-tls'],
+      trials: 5,
+    };
     const result = await runStudy(spec);
     for (const p of result.points) {
       // Sources are reported in ascending bearing: −5° (0 dB), 10° (3 dB).
-      const ref = stochasticCrb({ elements: 10, spacingWavelengths: 0.5, bearingsDeg: [-5, 10], sourcePowers: [1, 10 ** 0.3], noisePower: 1, snapshots: p.value });
+      const ref = stochasticCrb({
+        elements: 10,
+        spacingWavelengths: 0.5,
+        bearingsDeg: [-5, 10],
+        sourcePowers: [1, 10 ** 0.3],
+        noisePower: 1,
+        snapshots: p.value,
+      });
       expect(p.crbStdDeg[0]).toBe(ref.stdDeg[0]);
       expect(p.crbStdDeg[1]).toBe(ref.stdDeg[1]);
     }
@@ -78,7 +92,14 @@ describe('element-count sweep (docs/references.md §9: std ∝ M^−1.5)', () =>
     const result = await runStudy(spec);
     const slope = result.slopes.find((s) => s.method === 'root-music')!;
     const crb = result.slopes.find((s) => s.method === 'crb')!;
-    console.info('M sweep slope root-MUSIC', slope.slope?.toFixed(3), 'over M =', slope.fittedValues.join(','), '; √CRB slope', crb.slope?.toFixed(3));
+    console.info(
+      'M sweep slope root-MUSIC',
+      slope.slope?.toFixed(3),
+      'over M =',
+      slope.fittedValues.join(','),
+      '; √CRB slope',
+      crb.slope?.toFixed(3),
+    );
     expect(slope.fittedValues).toEqual([16, 24, 32]);
     expect(slope.slope!).toBeGreaterThan(-1.62);
     expect(slope.slope!).toBeLessThan(-1.38);
@@ -88,7 +109,14 @@ describe('element-count sweep (docs/references.md §9: std ∝ M^−1.5)', () =>
 });
 
 describe('determinism, progress and abort', () => {
-  const small: StudySpec = { ...base, bearingsDeg: [-2, 2], powersDb: [0, 0], sweep: { variable: 'snr', values: [-10, 20] }, methods: ['esprit-ls', 'music'], trials: 30 };
+  const small: StudySpec = {
+    ...base,
+    bearingsDeg: [-2, 2],
+    powersDb: [0, 0],
+    sweep: { variable: 'snr', values: [-10, 20] },
+    methods: ['esprit-ls', 'music'],
+    trials: 30,
+  };
 
   it('the same seed gives identical numbers; another seed does not', async () => {
     const a = await runStudy(small);
@@ -129,7 +157,13 @@ describe('determinism, progress and abort', () => {
 
 describe('refusals', () => {
   it('refuses an over-budget study and says how to shrink it', () => {
-    const big: StudySpec = { ...base, elements: 64, sweep: { variable: 'snr', values: [0, 5, 10, 15, 20] }, methods: ['music', 'mvdr', 'root-music'], trials: 5000 };
+    const big: StudySpec = {
+      ...base,
+      elements: 64,
+      sweep: { variable: 'snr', values: [0, 5, 10, 15, 20] },
+      methods: ['music', 'mvdr', 'root-music'],
+      trials: 5000,
+    };
     let err: unknown;
     try {
       validateStudySpec(big);
@@ -154,7 +188,10 @@ describe('refusals', () => {
       [{ sweep: { variable: 'snapshots', values: [10.5] } }, 'sweep.values'],
       [{ methods: ['nope' as never] }, 'methods'],
       [{ trials: 0 }, 'trials'],
-      [{ bearingsDeg: [-10, 0, 10], powersDb: [0, 0, 0], sweep: { variable: 'elements', values: [3, 8] } }, 'sweep.values'],
+      [
+        { bearingsDeg: [-10, 0, 10], powersDb: [0, 0, 0], sweep: { variable: 'elements', values: [3, 8] } },
+        'sweep.values',
+      ],
       [{ smoothing: 20 }, 'smoothing'],
     ];
     for (const [patch, field] of cases) {

@@ -14,7 +14,8 @@ export const metadata = { title: 'Array' };
 
 type Props = { params: Promise<{ id: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> };
 
-const positiveInt = (raw: string | string[] | undefined): number | undefined => (typeof raw === 'string' && /^[1-9][0-9]{0,8}$/.test(raw) ? Number(raw) : undefined);
+const positiveInt = (raw: string | string[] | undefined): number | undefined =>
+  typeof raw === 'string' && /^[1-9][0-9]{0,8}$/.test(raw) ? Number(raw) : undefined;
 
 export default async function ArrayPage({ params, searchParams }: Props) {
   const [{ id }, query] = await Promise.all([params, searchParams]);
@@ -44,7 +45,11 @@ export default async function ArrayPage({ params, searchParams }: Props) {
           </>
         }
       />
-      <ArrayWorkspace initial={array} canEdit={canEdit} readOnlyReason={canEdit ? undefined : refusalMessage(user.role, 'arrays.edit')} />
+      <ArrayWorkspace
+        initial={array}
+        canEdit={canEdit}
+        readOnlyReason={canEdit ? undefined : refusalMessage(user.role, 'arrays.edit')}
+      />
       <ArrayHandoffSection caller={user} arrayId={array.id} revision={array.revision} />
     </>
   );

@@ -50,15 +50,39 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
       <Card className="mb-6" aria-labelledby="facts-title">
         <CardHeader id="facts-title" title="Shape and provenance" />
         <dl className="grid gap-x-6 gap-y-3 px-5 py-4 text-sm sm:grid-cols-3">
-          <Fact label="Format"><Badge tone="teal">{d.format.toUpperCase()}</Badge></Fact>
-          <Fact label="Shape">{d.snapshots} snapshots × {d.elements} elements</Fact>
+          <Fact label="Format">
+            <Badge tone="teal">{d.format.toUpperCase()}</Badge>
+          </Fact>
+          <Fact label="Shape">
+            {d.snapshots} snapshots × {d.elements} elements
+          </Fact>
           <Fact label="Size">{formatSize(d.bytes)}</Fact>
-          <Fact label="SHA-256 of the uploaded bytes" wide><code className="font-mono text-xs break-all" data-testid="sha256">{d.sha256}</code></Fact>
+          <Fact label="SHA-256 of the uploaded bytes" wide>
+            <code className="font-mono text-xs break-all" data-testid="sha256">
+              {d.sha256}
+            </code>
+          </Fact>
           <Fact label="Uploaded by">{d.uploadedBy?.name ?? '—'}</Fact>
-          {details?.kind === 'wav' ? <Fact label="STFT">{String(details.frequencyHz)} Hz → bin {String(details.bin)} ({Number(details.binFrequencyHz).toFixed(2)} Hz), L = {String(details.fftLength)}, hop {String(details.hop)}, {String(details.window)}</Fact> : null}
-          {details?.kind === 'hdf5' ? <Fact label="HDF5 dataset">{String(details.datasetPath)} ({String(details.storage)})</Fact> : null}
-          {details?.kind === 'npy' ? <Fact label="NPY">dtype {String(details.dtype)}, {details.fortranOrder ? 'Fortran' : 'C'} order, version {String(details.version)}</Fact> : null}
-          {details?.kind === 'csv' && Array.isArray(details.header) ? <Fact label="CSV header">{(details.header as string[]).join(', ')}</Fact> : null}
+          {details?.kind === 'wav' ? (
+            <Fact label="STFT">
+              {String(details.frequencyHz)} Hz → bin {String(details.bin)} ({Number(details.binFrequencyHz).toFixed(2)}{' '}
+              Hz), L = {String(details.fftLength)}, hop {String(details.hop)}, {String(details.window)}
+            </Fact>
+          ) : null}
+          {details?.kind === 'hdf5' ? (
+            <Fact label="HDF5 dataset">
+              {String(details.datasetPath)} ({String(details.storage)})
+            </Fact>
+          ) : null}
+          {details?.kind === 'npy' ? (
+            <Fact label="NPY">
+              dtype {String(details.dtype)}, {details.fortranOrder ? 'Fortran' : 'C'} order, version{' '}
+              {String(details.version)}
+            </Fact>
+          ) : null}
+          {details?.kind === 'csv' && Array.isArray(details.header) ? (
+            <Fact label="CSV header">{(details.header as string[]).join(', ')}</Fact>
+          ) : null}
         </dl>
       </Card>
       {s ? (
@@ -66,19 +90,43 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
           <div className="mb-6 grid gap-6 lg:grid-cols-2">
             <Card aria-labelledby="power-title">
               <CardHeader id="power-title" title="Power per channel" />
-              <div className="px-5 py-4"><ChannelPowerChart powerDb={s.channelPowerDb} /></div>
+              <div className="px-5 py-4">
+                <ChannelPowerChart powerDb={s.channelPowerDb} />
+              </div>
             </Card>
             <Card aria-labelledby="cov-title">
               <CardHeader id="cov-title" title="Covariance magnitude |R|" />
-              <div className="px-5 py-4">{s.covarianceMagnitude ? <CovarianceHeatmap magnitude={s.covarianceMagnitude} /> : <p className="text-sm text-ink-500">Not drawn above 128 elements.</p>}</div>
+              <div className="px-5 py-4">
+                {s.covarianceMagnitude ? (
+                  <CovarianceHeatmap magnitude={s.covarianceMagnitude} />
+                ) : (
+                  <p className="text-sm text-ink-500">Not drawn above 128 elements.</p>
+                )}
+              </div>
             </Card>
           </div>
           <Card className="mb-6" aria-labelledby="eig-title">
-            <CardHeader id="eig-title" title="Eigenvalues of the sample covariance" description="R = X·Xᴴ/N over all snapshots; the source-count rules as the estimator applies them." />
-            <div className="px-5 py-4"><EigenvalueChart eigenvalues={s.eigenvalues} mdl={s.mdl} aic={s.aic} mdlChoice={s.mdlChoice} aicChoice={s.aicChoice} /></div>
+            <CardHeader
+              id="eig-title"
+              title="Eigenvalues of the sample covariance"
+              description="R = X·Xᴴ/N over all snapshots; the source-count rules as the estimator applies them."
+            />
+            <div className="px-5 py-4">
+              <EigenvalueChart
+                eigenvalues={s.eigenvalues}
+                mdl={s.mdl}
+                aic={s.aic}
+                mdlChoice={s.mdlChoice}
+                aicChoice={s.aicChoice}
+              />
+            </div>
           </Card>
           <Card aria-labelledby="preview-title">
-            <CardHeader id="preview-title" title={`First ${s.preview.re.length} snapshots`} description="Sort a column to order by magnitude." />
+            <CardHeader
+              id="preview-title"
+              title={`First ${s.preview.re.length} snapshots`}
+              description="Sort a column to order by magnitude."
+            />
             <PreviewTable re={s.preview.re} im={s.preview.im} />
           </Card>
         </>

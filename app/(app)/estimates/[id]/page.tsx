@@ -30,7 +30,14 @@ export default async function EstimateRunPage({ params }: { params: Promise<{ id
       <PageHeader
         kicker="Estimate run"
         title={`Run #${run.id}`}
-        description={<>Started by {run.createdBy?.name ?? 'a former member'} on {new Date(run.createdAt).toLocaleString('en-GB')}. <Link className="text-glass-700 hover:underline" href="/estimates">All runs</Link></>}
+        description={
+          <>
+            Started by {run.createdBy?.name ?? 'a former member'} on {new Date(run.createdAt).toLocaleString('en-GB')}.{' '}
+            <Link className="text-glass-700 hover:underline" href="/estimates">
+              All runs
+            </Link>
+          </>
+        }
       />
       <RunView id={run.id} initial={run as unknown as RunDto} canRun={can(user.role, 'estimates.run')} />
       <div className="mt-8 max-w-3xl" id="review">

@@ -27,7 +27,15 @@ export default async function StudyPage({ params }: { params: Promise<{ id: stri
       <PageHeader
         kicker="Study"
         title={study.name}
-        description={<>Started by {study.createdBy?.name ?? 'a former member'} on {new Date(study.createdAt).toLocaleString('en-GB')}. <Link className="text-glass-700 hover:underline" href="/studies">All studies</Link></>}
+        description={
+          <>
+            Started by {study.createdBy?.name ?? 'a former member'} on{' '}
+            {new Date(study.createdAt).toLocaleString('en-GB')}.{' '}
+            <Link className="text-glass-700 hover:underline" href="/studies">
+              All studies
+            </Link>
+          </>
+        }
       />
       <StudyView id={study.id} initial={study} canEdit={can(user.role, 'studies.run')} />
     </>

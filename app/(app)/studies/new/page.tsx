@@ -19,7 +19,16 @@ export default async function NewStudyPage() {
       <PageHeader
         kicker="Studies"
         title="New study"
-        description={<>Simulate the scenario many times with a seed, estimate with each method, and compare the errors with the bound. Studies above about {STUDY_COST_BUDGET.toExponential(0)} estimated operations (roughly a minute) are refused with advice on shrinking them. <Link className="text-glass-700 hover:underline" href="/studies">All studies</Link></>}
+        description={
+          <>
+            Simulate the scenario many times with a seed, estimate with each method, and compare the errors with the
+            bound. Studies above about {STUDY_COST_BUDGET.toExponential(0)} estimated operations (roughly a minute) are
+            refused with advice on shrinking them.{' '}
+            <Link className="text-glass-700 hover:underline" href="/studies">
+              All studies
+            </Link>
+          </>
+        }
       />
       <Card aria-labelledby="form-title">
         <CardHeader id="form-title" title="Scenario and sweep" />

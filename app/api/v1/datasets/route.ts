@@ -25,7 +25,10 @@ export const POST = handle(async (req) => {
     const upload = await receiveUpload(req);
     tempPath = upload.tempPath;
     const dataset = await createDataset({ caller, upload });
-    return Response.json(createdBody(dataset), { status: 201, headers: { location: `/api/v1/datasets/${dataset.id}` } });
+    return Response.json(createdBody(dataset), {
+      status: 201,
+      headers: { location: `/api/v1/datasets/${dataset.id}` },
+    });
   } catch (err) {
     if (err instanceof DatasetError) {
       const api = datasetErrorToApi(err);

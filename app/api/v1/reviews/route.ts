@@ -13,7 +13,11 @@ import { reviewCreateSchema, reviewQuerySchema } from '@/lib/handoff/validation'
 export const GET = handle(async (req) => {
   const caller = await requireApiPermission(req, 'arrays.read');
   const q = new URL(req.url).searchParams;
-  const query = reviewQuerySchema.parse({ arrayId: q.get('arrayId') ?? undefined, revision: q.get('revision') ?? undefined, runId: q.get('runId') ?? undefined });
+  const query = reviewQuerySchema.parse({
+    arrayId: q.get('arrayId') ?? undefined,
+    revision: q.get('revision') ?? undefined,
+    runId: q.get('runId') ?? undefined,
+  });
   return Response.json(await listReviews({ caller, ...query }));
 });
 

@@ -16,5 +16,8 @@ export const POST = handle(async (req) => {
   const caller = await requireApiPermission(req, 'studies.run');
   const input = parseBody(studyRequestSchema, await readJson(req));
   const { study } = await createStudy({ caller, input });
-  return Response.json({ id: study.id, status: study.status }, { status: 202, headers: { location: `/api/v1/studies/${study.id}` } });
+  return Response.json(
+    { id: study.id, status: study.status },
+    { status: 202, headers: { location: `/api/v1/studies/${study.id}` } },
+  );
 });

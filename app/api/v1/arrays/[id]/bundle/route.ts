@@ -10,7 +10,11 @@ export const GET = handle<Ctx>(async (req, ctx) => {
   const { id } = await ctx.params;
   const caller = await requireApiPermission(req, 'arrays.read');
   const query = bundleQueryFrom(req.url);
-  const bundle = await buildArrayBundle({ caller, arrayId: parseId(id, 'array'), selection: { revision: query.revision, datasetIds: query.datasets, runIds: query.runs } });
+  const bundle = await buildArrayBundle({
+    caller,
+    arrayId: parseId(id, 'array'),
+    selection: { revision: query.revision, datasetIds: query.datasets, runIds: query.runs },
+  });
   return new Response(Buffer.from(bundle.zip), {
     status: 200,
     headers: {

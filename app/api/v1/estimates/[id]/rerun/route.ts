@@ -17,7 +17,12 @@ export const POST = handle<Ctx>(async (req, ctx) => {
   const async = /\brespond-async\b/i.test(req.headers.get('prefer') ?? '');
   const out = await rerunEstimate({ caller, id: parseId(id, 'estimate run'), wait: !async });
   return Response.json(
-    { ...v1RunBody(out.run), rerunOf: out.rerunOf, softwareVersionThen: out.softwareVersionThen, comparison: out.comparison },
+    {
+      ...v1RunBody(out.run),
+      rerunOf: out.rerunOf,
+      softwareVersionThen: out.softwareVersionThen,
+      comparison: out.comparison,
+    },
     { status: async ? 202 : 201, headers: { location: `/api/v1/estimates/${out.run.id}` } },
   );
 });
