@@ -464,7 +464,29 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
 });
 
 describe('POST /api/v1/bounds', () => {
-  it('answers the §7 shape with the engine bound (docs/references.md §5 closed form checked in tests/lib/doa/bounds.test.ts)', async () => {
+  it('gives the docs/references.md §5 two-source values: (0°, 10°), M = 10, N = 100, 0 dB each → 0.20656°, 0.20975°', async () => {
+    // docs/references.md §5 [computed from the Stoica & Nehorai (1990) matrix form]; 5 significant digits there.
+    const res = await boundsRoute.POST(
+      req('POST', '/api/v1/bounds', {
+        body: {
+          array: { elements: 10, spacingWavelengths: 0.5 },
+          bearingsDeg: [0, 10],
+          sourcePowers: [1, 1],
+          noisePower: 1,
+          snapshots: 100,
+        },
+        headers: await browserHeaders('viewer'),
+      }),
+      params({}),
+    );
+    expect(res.status).toBe(200);
+    const body = await json(res);
+    expect(Math.abs(body.crbStdDeg[0] - 0.20656)).toBeLessThan(5e-6);
+    expect(Math.abs(body.crbStdDeg[1] - 0.20975)).toBeLessThan(5e-6);
+    expect(body.rayleighGapU).toBeCloseTo(0.2, 15); // 1/(M·d), docs/conventions.md §5
+    expect(body.pairs[0].belowResolvableGap).toBe(true); // sin 10° = 0.174 < 0.2
+  });
+  it('answers the §7 shape with the engine bound (consistency check against lib/doa bounds())', async () => {
     const res = await boundsRoute.POST(
       req('POST', '/api/v1/bounds', {
         body: {
@@ -481,6 +503,7 @@ describe('POST /api/v1/bounds', () => {
     const body = await json(res);
     expect(res.status).toBe(200);
     const { bounds } = await import('@/lib/doa');
+    // Consistency check: the route serves the library's answer unchanged.
     expect(body).toEqual(
       bounds({
         array: { elements: 8, spacingWavelengths: 0.5 },
