@@ -117,7 +117,7 @@ describe('matrix-form fixtures (numpy dense formulas, fixtures/doa/generate_figu
   });
 });
 
-describe('published properties and scaling (docs/references.md §5, §9)', () => {
+describe('properties and scaling (docs/references.md §5, §9: scaling computed from the closed forms; the ordering from memory)', () => {
   it('CRB_sto ≥ CRB_det (Stoica & Nehorai 1990; from memory, consistent with the computed values)', () => {
     const cases: BoundsInput[] = [
       one(),
