@@ -2,10 +2,17 @@
  * The v1 arrays API (docs/conventions.md §7) against a real temporary database:
  * create, read and patch with metrics; immutable revisions; the role matrix;
  * 422s naming the field; bearer tokens; CSRF refusals that write nothing.
+ *
+ * Sources of the metric values: a numpy/scipy evaluation of the array factor written by the
+ * committed generator fixtures/doa/generate_check_values.py (`arrayMetrics` in
+ * fixtures/doa/check-values.json) and the computed values of docs/references.md §3. Where
+ * an answer's `metrics` is compared with `arrayMetrics()` of lib/doa, that is a consistency
+ * check (the API serves the library's figures), not an outside check.
  */
 import { describe, expect, it } from 'vitest';
 import { ApiToken, ArrayDesign, ArrayRevision, AuditEvent } from '@/models';
 import { arrayMetrics } from '@/lib/doa/design/array-figures';
+import checkValues from '@/fixtures/doa/check-values.json';
 import { propagationSpeed } from '@/lib/doa/design/medium';
 import { randomSecret, sha256Hex } from '@/lib/auth/secrets';
 import * as arrays from '@/app/api/v1/arrays/route';
@@ -37,8 +44,28 @@ async function counts() {
 const close = (got: number, want: number, tol: number) =>
   expect(Math.abs(got - want), `${got} vs ${want}`).toBeLessThanOrEqual(tol);
 
+interface Metrics {
+  apertureWavelengths: number;
+  halfPowerBeamwidthDeg: number;
+  rayleighGapDeg: number;
+  peakSidelobeDb: number;
+  gratingLobeFreeScanDeg: number;
+}
+/** Outside check: the numpy evaluation for (M, d); HPBW to the 0.001° of docs/conventions.md §5. */
+function expectNumpyMetrics(metrics: Metrics, elements: number, spacingWavelengths: number) {
+  const ref = checkValues.arrayMetrics.find(
+    (r) => r.elements === elements && r.spacingWavelengths === spacingWavelengths,
+  )!;
+  expect(ref, `no numpy reference for M = ${elements}, d = ${spacingWavelengths}`).toBeDefined();
+  close(metrics.apertureWavelengths, ref.apertureWavelengths, 1e-12);
+  close(metrics.halfPowerBeamwidthDeg, ref.halfPowerBeamwidthDeg, 1e-3);
+  close(metrics.rayleighGapDeg, ref.rayleighGapDeg, 1e-9);
+  close(metrics.peakSidelobeDb, ref.peakSidelobeDb, 1e-4);
+  close(metrics.gratingLobeFreeScanDeg, ref.gratingLobeFreeScanDeg, 1e-9);
+}
+
 describe('create and read, with metrics', () => {
-  it('POST answers 201 with the array as GET gives it, and the metrics equal lib/doa and the published values', async () => {
+  it('POST answers 201 with the array as GET gives it; metrics match numpy and docs/references.md §3, and arrayMetrics() (consistency check)', async () => {
     const res = await create(tenElements);
     expect(res.status).toBe(201);
     const created = await json(res);
@@ -61,7 +88,8 @@ describe('create and read, with metrics', () => {
       'peakSidelobeDb',
       'rayleighGapDeg',
     ]);
-    expect(created.metrics).toEqual(arrayMetrics(10, 0.5));
+    expect(created.metrics).toEqual(arrayMetrics(10, 0.5)); // consistency check: the API serves lib/doa's figures
+    expectNumpyMetrics(created.metrics, 10, 0.5);
 
     // docs/references.md §3 [computed from the closed-form array factor, numpy]: M = 10, d = λ/2 at broadside:
     // HPBW 10.2092°, Rayleigh 11.537°, peak sidelobe −12.966 dB; aperture (M−1)·d = 4.5 λ (docs/conventions.md §5);
@@ -77,10 +105,13 @@ describe('create and read, with metrics', () => {
     expect(await json(read)).toEqual(created);
   });
 
-  it('M = 16 at λ/2 gives the published HPBW 6.3587°, Rayleigh 7.181° and sidelobe −13.147 dB (docs/references.md §3)', async () => {
+  it('M = 16 at λ/2 gives HPBW 6.3587°, Rayleigh 7.181° and sidelobe −13.147 dB (docs/references.md §3, computed; and numpy)', async () => {
     const body = await json(
       await create({ name: 'Sixteen', elements: 16, spacing: { value: 0.5, unit: 'wavelength' } }),
     );
+    expectNumpyMetrics(body.metrics, 16, 0.5);
+    const eight = await json(await create({ name: 'Eight', elements: 8, spacing: { value: 0.5, unit: 'wavelength' } }));
+    expectNumpyMetrics(eight.metrics, 8, 0.5);
     close(body.metrics.halfPowerBeamwidthDeg, 6.3587, 5e-5);
     close(body.metrics.rayleighGapDeg, 7.181, 5e-4);
     close(body.metrics.peakSidelobeDb, -13.147, 5e-4);
@@ -123,7 +154,7 @@ describe('create and read, with metrics', () => {
         .speedMps,
     );
     close(body.spacingWavelengths, (0.25 * 3000) / body.propagationSpeedMps, 1e-12);
-    expect(body.metrics).toEqual(arrayMetrics(12, body.spacingWavelengths));
+    expect(body.metrics).toEqual(arrayMetrics(12, body.spacingWavelengths)); // consistency check
     const row = await ArrayRevision.findOne({ where: { arrayId: body.id, revision: 1 } });
     expect(row!.propagationSpeedMps).toBe(body.propagationSpeedMps);
     expect(row!.frequencyHz).toBe(3000);
@@ -133,6 +164,7 @@ describe('create and read, with metrics', () => {
   it('d between 0.5 and 1 scans to asin(1/d − 1); d ≥ 1 has no grating-lobe-free scan (docs/conventions.md §5)', async () => {
     const b = await json(await create({ name: 'Wide', elements: 6, spacing: { value: 0.75, unit: 'wavelength' } }));
     close(b.metrics.gratingLobeFreeScanDeg, (Math.asin(1 / 0.75 - 1) * 180) / Math.PI, 1e-12);
+    expectNumpyMetrics(b.metrics, 6, 0.75);
     const c = await json(await create({ name: 'Wider', elements: 6, spacing: { value: 1.2, unit: 'wavelength' } }));
     expect(c.metrics.gratingLobeFreeScanDeg).toBe(0);
   });
@@ -155,6 +187,7 @@ describe('create and read, with metrics', () => {
       elements: 16,
       author: { name: 'Tobin Hartree' },
     });
+    // Consistency check: every listed array carries lib/doa's figures for its geometry.
     for (const item of body.items) expect(item.metrics).toEqual(arrayMetrics(item.elements, item.spacingWavelengths));
   });
 });
@@ -183,7 +216,7 @@ describe('PATCH makes a new immutable revision', () => {
       frequencyHz: 1000,
       propagationSpeedMps: 1500,
     });
-    expect(r2.metrics).toEqual(arrayMetrics(12, 0.5));
+    expect(r2.metrics).toEqual(arrayMetrics(12, 0.5)); // consistency check
     expect(r2.config.medium).toEqual({ kind: 'custom', speedMps: 1500 });
 
     const r3 = await json(await patch(created.id, { spacing: { value: 0.6, unit: 'm' }, name: 'Revised line, wider' }));
@@ -206,7 +239,8 @@ describe('PATCH makes a new immutable revision', () => {
       spacingWavelengths: 0.5,
       name: 'Revised line',
     });
-    expect(old.metrics).toEqual(arrayMetrics(10, 0.5));
+    expect(old.metrics).toEqual(arrayMetrics(10, 0.5)); // consistency check
+    expectNumpyMetrics(old.metrics, 10, 0.5);
 
     const latest = await json(await get(created.id));
     expect(latest.revision).toBe(3);

@@ -378,9 +378,10 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
     expect(orphan.body.error.fields.arrayRevision[0]).toMatch(/give arrayId too/);
   });
 
-  it('a re-run repeats the exact inputs and reports identical bearings', async () => {
+  it('a re-run repeats the exact inputs and reports identical bearings (checked here, and against numpy)', async () => {
+    const scenario = methodsFixture.scenarios[1]; // two-close-fb-m12-aic: forward–backward, AIC, as below
     const res = await estimate('engineer', {
-      snapshots: inlineOf(methodsFixture.scenarios[1]),
+      snapshots: inlineOf(scenario),
       array: { elements: 12, spacingWavelengths: 0.5 },
       methods: ['esprit-ls', 'music', 'root-music'],
       forwardBackward: true,
@@ -396,7 +397,19 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
     expect(body.rerunOf).toBe(res.body.id);
     expect(body.id).not.toBe(res.body.id);
     expect(body.comparison.map((c: { method: string }) => c.method)).toEqual(['esprit-ls', 'music', 'root-music']);
+    // Consistency check: the server's own `identical` flag ...
     for (const c of body.comparison) expect(c.identical).toBe(true);
+    // ... backed by the test's own comparison of the stored and the new bearings, number for number,
+    for (const c of body.comparison as { method: string; storedBearingsDeg: number[]; newBearingsDeg: number[] }[]) {
+      expect(c.newBearingsDeg).toHaveLength(2);
+      expect(c.newBearingsDeg).toEqual(c.storedBearingsDeg);
+      // ... and by the outside reference: numpy's bearings for the same snapshots and options
+      // (fixtures/doa/methods.json from fixtures/doa/generate.py), 1e−6° for root-MUSIC and
+      // ESPRIT, one 0.01° grid step for the MUSIC spectrum peaks.
+      const want = (scenario.bearingsDeg as Record<string, number[]>)[c.method];
+      const tol = c.method === 'music' ? 0.01 + 1e-9 : 1e-6;
+      c.newBearingsDeg.forEach((b, i) => expect(Math.abs(b - want[i]), c.method).toBeLessThanOrEqual(tol));
+    }
   });
 
   it('a re-run of a dataset whose file changed is refused (409)', async () => {
@@ -451,7 +464,29 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
 });
 
 describe('POST /api/v1/bounds', () => {
-  it('answers the §7 shape with the engine bound (docs/references.md §5 closed form checked in tests/lib/doa/bounds.test.ts)', async () => {
+  it('gives the docs/references.md §5 two-source values: (0°, 10°), M = 10, N = 100, 0 dB each → 0.20656°, 0.20975°', async () => {
+    // docs/references.md §5 [computed from the Stoica & Nehorai (1990) matrix form]; 5 significant digits there.
+    const res = await boundsRoute.POST(
+      req('POST', '/api/v1/bounds', {
+        body: {
+          array: { elements: 10, spacingWavelengths: 0.5 },
+          bearingsDeg: [0, 10],
+          sourcePowers: [1, 1],
+          noisePower: 1,
+          snapshots: 100,
+        },
+        headers: await browserHeaders('viewer'),
+      }),
+      params({}),
+    );
+    expect(res.status).toBe(200);
+    const body = await json(res);
+    expect(Math.abs(body.crbStdDeg[0] - 0.20656)).toBeLessThan(5e-6);
+    expect(Math.abs(body.crbStdDeg[1] - 0.20975)).toBeLessThan(5e-6);
+    expect(body.rayleighGapU).toBeCloseTo(0.2, 15); // 1/(M·d), docs/conventions.md §5
+    expect(body.pairs[0].belowResolvableGap).toBe(true); // sin 10° = 0.174 < 0.2
+  });
+  it('answers the §7 shape with the engine bound (consistency check against lib/doa bounds())', async () => {
     const res = await boundsRoute.POST(
       req('POST', '/api/v1/bounds', {
         body: {
@@ -468,6 +503,7 @@ describe('POST /api/v1/bounds', () => {
     const body = await json(res);
     expect(res.status).toBe(200);
     const { bounds } = await import('@/lib/doa');
+    // Consistency check: the route serves the library's answer unchanged.
     expect(body).toEqual(
       bounds({
         array: { elements: 8, spacingWavelengths: 0.5 },

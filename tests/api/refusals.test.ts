@@ -4,6 +4,7 @@
  * malformed body, invalid fields, revoked tokens.
  */
 import { describe, expect, it } from 'vitest';
+import { encode } from 'next-auth/jwt';
 import { AuditEvent, ApiToken, Team, User } from '@/models';
 import { verifyCredentials } from '@/lib/auth';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
@@ -143,7 +144,35 @@ describe('tokens and sessions that are not valid', () => {
     }
   });
 
-  it('a session cookie signed with another secret is 401', async () => {
+  it('a session cookie signed with another secret is 401 (the same claims with the server secret are 200)', async () => {
+    const engineer = await userOf('engineer');
+    const claims = {
+      sub: String(engineer.id),
+      uid: engineer.id,
+      role: engineer.role,
+      teamId: engineer.teamId as number,
+      email: engineer.email,
+      name: engineer.name,
+    };
+    const otherSecret = randomSecret('other_', 32);
+    expect(otherSecret).not.toBe(process.env.NEXTAUTH_SECRET);
+    const forged = await encode({ token: claims, secret: otherSecret });
+    const refused = await account.GET(
+      req('GET', '/api/account', { headers: { cookie: `next-auth.session-token=${forged}` } }),
+      params({}),
+    );
+    expect(refused.status).toBe(401);
+    expect((await json(refused)).error.code).toBe('unauthenticated');
+    // Control: the very same claims signed with the server's secret are accepted.
+    const genuine = await encode({ token: claims, secret: process.env.NEXTAUTH_SECRET! });
+    const accepted = await account.GET(
+      req('GET', '/api/account', { headers: { cookie: `next-auth.session-token=${genuine}` } }),
+      params({}),
+    );
+    expect(accepted.status).toBe(200);
+  });
+
+  it('a session cookie that is not a JWT at all is 401', async () => {
     const res = await account.GET(
       req('GET', '/api/account', { headers: { cookie: 'next-auth.session-token=not-a-jwt' } }),
       params({}),

@@ -9,6 +9,7 @@ import {
   deltaUToDegAtLook,
 } from '@/lib/designer/analysis';
 import { patternCsv, columnsCsv, fileSlug } from '@/lib/designer/export';
+import checkValues from '@/fixtures/doa/check-values.json';
 
 const draft = (elements: number, extra: Record<string, unknown> = {}) =>
   normalizeDraft({ name: 'x', elements, spacing: { value: 0.5, unit: 'wavelength' }, ...extra });
@@ -61,10 +62,12 @@ describe('pattern and grating lobes', () => {
 
 describe('separation chart and planned pairs (M = 10, d = λ/2, N = 100, 0 dB)', () => {
   const s0 = draft(10, { snapshots: 100, snrDb: 0 });
-  it('the statistical curve at M = 10 is Smith’s limit 1.7214° (docs/references.md §8, computed)', () => {
+  it('the statistical curve at M = 10 is Smith’s limit 1.7214° (docs/references.md §8; criterion from memory, value reproduced by fixtures/doa/generate_check_values.py)', () => {
     const c = separationCurves(s0);
     const i = Array.from(c.elements).indexOf(10);
     expect(c.statisticalLimitDeg[i]).toBeCloseTo(1.7214, 3);
+    const reference = checkValues.smithLimits.find((r) => r.snapshots === 100 && r.snrLinear === 1)!;
+    expect(Math.abs(c.statisticalLimitDeg[i] - reference.stochasticDeg)).toBeLessThan(1e-4);
     expect(c.rayleighGapU[i]).toBeCloseTo(0.2, 12);
   });
 

@@ -1,7 +1,11 @@
 // Seeded Monte Carlo: root-MUSIC efficiency against the closed-form single-source
 // stochastic CRB (docs/references.md §5, Stoica & Nehorai 1990), and MDL detection rate.
 // Scenario from issue 3: one source at broadside, 0 dB per element, N = 100,
-// d = λ/2, M from 8 to 64; 200 trials per M (RMSE ratio standard error ≈ 5 %).
+// d = λ/2, M from 8 to 64; 200 trials per M (RMSE ratio standard error ≈ 1/√(2·200) = 5 %).
+// Band 0.80 … 1.15 × √CRB (docs/references.md §9). Seven element counts are tested at once, so
+// the lower limit sits four standard errors below 1 (a family-wise false alarm below 0.05 %);
+// with these seeds M = 48 measures 0.83, which a three-standard-error limit (0.85) would reject
+// by chance alone. An estimator that beat the bound, or returned the truth, still fails.
 import { describe, expect, it } from 'vitest';
 import { simulateSnapshots } from '@/lib/doa/sim/simulate';
 import { sampleCovariance } from '@/lib/doa/covariance';
@@ -15,7 +19,7 @@ const ELEMENTS = [8, 12, 16, 24, 32, 48, 64];
 const TRIALS = 200;
 
 describe('root-MUSIC Monte Carlo (single source, 0 dB, N = 100)', () => {
-  it('stays within 1.15 × √CRB and its log–log slope against M lies in −1.5 ± 0.1', () => {
+  it('stays between 0.80 and 1.15 × √CRB and its log–log slope against M lies in −1.5 ± 0.1', () => {
     const rmse: number[] = [];
     const ratios: number[] = [];
     for (const m of ELEMENTS) {
@@ -44,12 +48,16 @@ describe('root-MUSIC Monte Carlo (single source, 0 dB, N = 100)', () => {
       'slope',
       slope.toFixed(3),
     );
-    for (const r of ratios) expect(r).toBeLessThan(1.15);
+    for (const r of ratios) {
+      expect(r).toBeGreaterThan(0.8);
+      expect(r).toBeLessThan(1.15);
+    }
     expect(slope).toBeGreaterThan(-1.6);
     expect(slope).toBeLessThan(-1.4);
     // Sanity: the CRB check value of docs/references.md §5 (M=10, N=100, 0 dB: 0.148911°).
     expect(singleSourceStochasticCrbDeg(10, 100, 1)).toBeCloseTo(0.148911, 6);
-  });
+    // 1400 root-MUSIC runs up to M = 64: measured 66–100 s on a shared, loaded 2-core machine.
+  }, 180_000);
 });
 
 describe('MDL detection rate (two sources, 10 dB, N = 200, M = 8)', () => {
