@@ -799,6 +799,42 @@ describe("another team's admin sees only their own team", () => {
     expect(ids.demoTeam).not.toBe((await userOf('otherAdmin')).teamId);
   });
 
+  it("mail to a person who has since joined another team is hidden from the first team's admin (reset links included)", async () => {
+    const drifter = 'drifter@steerwise.test';
+    // The demo admin invites the address, then revokes the invitation.
+    const invited = await callAs('admin', '/api/team/invitations', 'POST', {
+      body: { email: drifter, role: 'viewer' },
+    });
+    expect(invited.status).toBe(201);
+    const revoked = await callAs('admin', '/api/team/invitations/[id]', 'DELETE', {
+      params: { id: String((await json(invited)).id) },
+    });
+    expect(revoked.status).toBe(200);
+    // The other team invites the same address, and the person joins it with the mailed link.
+    expect(
+      (await callAs('otherAdmin', '/api/team/invitations', 'POST', { body: { email: drifter, role: 'engineer' } }))
+        .status,
+    ).toBe(201);
+    const invitation = (await OutboxMessage.findAll({ order: [['id', 'DESC']] })).find((m) => m.to.includes(drifter));
+    const token = /\/invite\?token=([A-Za-z0-9_-]+)/.exec(invitation!.text ?? '')![1];
+    const joined = await callAs('anonymous', '/api/links/complete', 'POST', {
+      body: { token, password: 'a long enough new password', name: 'Dara Fenwick' },
+    });
+    expect(joined.status).toBe(200);
+    expect((await User.findOne({ where: { email: drifter } }))!.teamId).toBe((await userOf('otherAdmin')).teamId);
+    // A password reset for the new member: its link must reach the member's team's admin only.
+    expect((await callAs('anonymous', '/api/password-reset', 'POST', { body: { email: drifter } })).status).toBe(202);
+    const reset = (await OutboxMessage.findAll({ order: [['id', 'DESC']] })).find(
+      (m) => m.to.includes(drifter) && /reset/i.test(m.subject),
+    )!;
+    const demoList = await json(await callAs('admin', '/api/outbox', 'GET'));
+    expect(demoList.items.filter((m: { to: string }) => m.to.includes(drifter))).toEqual([]);
+    const demoOne = await callAs('admin', '/api/outbox/[id]', 'GET', { params: { id: String(reset.id) } });
+    expect(demoOne.status).toBe(404);
+    const otherOne = await callAs('otherAdmin', '/api/outbox/[id]', 'GET', { params: { id: String(reset.id) } });
+    expect(otherOne.status).toBe(200);
+  });
+
   it('the plain req() helper and the Next request scope give the same answer', async () => {
     // Consistency check of the two ways of calling a handler used across the api tests.
     const mod = discovered.modules.get('/api/team/members')!;
