@@ -331,6 +331,20 @@ const MATRIX: Row[] = [
     expect: engineersAndAdmins(201, 404),
     prepare: async () => ({ body: { arrayId: ids.array, recipientEmail: emails.reviewer } }),
   },
+  // To an address without an account: only an admin's hand-off also invites it into the team (invitations are team.manage).
+  {
+    route: '/api/handoff',
+    method: 'POST',
+    variant: 'to an address without an account',
+    expect: engineersAndAdmins(201, 404),
+    prepare: async (who) => ({ body: { arrayId: ids.array, recipientEmail: `outsider-${who}@steerwise.test` } }),
+    check: async ({ who, body }) => {
+      expect(body.invited).toBe(who === 'admin');
+      expect(await AuthLink.count({ where: { email: `outsider-${who}@steerwise.test`, purpose: 'invite' } })).toBe(
+        who === 'admin' ? 1 : 0,
+      );
+    },
+  },
   // The signed link is the credential: the bundle for anyone holding it, signed in or not, of any team.
   {
     route: '/api/handoff/[token]',
