@@ -621,6 +621,14 @@ const MATRIX: Row[] = [
     expect: { anonymous: 401, viewer: 403, reviewer: 201, engineer: 403, admin: 201, otherAdmin: 404 },
     prepare: async () => ({ body: { arrayId: ids.array, revision: 1, kind: 'approval' } }),
   },
+  // An empty object: the role is checked before the body, so viewers get 403 and everyone allowed to comment 422 (arrayId, kind).
+  {
+    route: '/api/v1/reviews',
+    method: 'POST',
+    variant: 'empty body',
+    expect: { anonymous: 401, viewer: 403, reviewer: 422, engineer: 422, admin: 422, otherAdmin: 422 },
+    prepare: async () => ({ body: {} }),
+  },
   // The team's studies.
   { route: '/api/v1/studies', method: 'GET', expect: signedIn(200) },
   // A tiny study (2 trials, one point; queued, done in milliseconds): engineers and admins.
