@@ -578,6 +578,21 @@ const MATRIX: Row[] = [
       if (res.status === 201) expect(body.bearingsDeg).toHaveLength(1);
     },
   },
+  // On the tiny demo dataset: the dataset id is another team's record for the other admin, so 404.
+  {
+    route: '/api/v1/estimates',
+    method: 'POST',
+    variant: 'on a demo dataset',
+    expect: engineersAndAdmins(201, 404),
+    prepare: async () => ({
+      body: {
+        datasetId: ids.tinyDataset,
+        array: { elements: 4, spacingWavelengths: 0.5 },
+        method: 'esprit-ls',
+        sourceCount: 1,
+      },
+    }),
+  },
   // The run made in beforeAll.
   {
     route: '/api/v1/estimates/[id]',
@@ -621,6 +636,14 @@ const MATRIX: Row[] = [
     expect: { anonymous: 401, viewer: 403, reviewer: 201, engineer: 403, admin: 201, otherAdmin: 404 },
     prepare: async () => ({ body: { arrayId: ids.array, revision: 1, kind: 'approval' } }),
   },
+  // A comment on the run made in beforeAll: the run is 404 to the other team's admin.
+  {
+    route: '/api/v1/reviews',
+    method: 'POST',
+    variant: 'on a run',
+    expect: { anonymous: 401, viewer: 403, reviewer: 201, engineer: 201, admin: 201, otherAdmin: 404 },
+    prepare: async (who) => ({ body: { runId: ids.run, kind: 'comment', body: `Run checked by ${who}.` } }),
+  },
   // An empty object: the role is checked before the body, so viewers get 403 and everyone allowed to comment 422 (arrayId, kind).
   {
     route: '/api/v1/reviews',
@@ -637,6 +660,17 @@ const MATRIX: Row[] = [
     method: 'POST',
     expect: engineersAndAdmins(202, 202),
     prepare: async (who) => ({ body: tinyStudy(`Matrix study ${who}`) }),
+  },
+  // On the seeded demo array (its latest revision, 16 elements; still 2 trials): 404 for the other team's admin.
+  {
+    route: '/api/v1/studies',
+    method: 'POST',
+    variant: 'on a demo array',
+    expect: engineersAndAdmins(202, 404),
+    prepare: async (who) => {
+      const { array: _inline, ...study } = tinyStudy(`Matrix study on the demo array ${who}`);
+      return { body: { ...study, arrayId: ids.array } };
+    },
   },
   // The seeded demo study.
   {
