@@ -766,7 +766,10 @@ afterAll(async () => {
 
 describe('the matrix covers every route file', () => {
   it('every exported (route, method) has exactly one row, and every row names an exported pair', () => {
-    expect(discovered.empty.map((f) => f.file)).toEqual([]);
+    expect(
+      discovered.empty.map((f) => f.file),
+      'route files that export no HTTP method',
+    ).toEqual([]);
     expect(compareWithTable(discovered.pairs, MATRIX, TABLE_FILE)).toEqual([]);
   });
 
@@ -788,15 +791,20 @@ describe('the matrix covers every route file', () => {
   it('a route without a row, a method without a row, or a row without a route fails with a message naming it', () => {
     const found: RouteMethod[] = [
       ...discovered.pairs,
-      { route: '/api/v1/plans', method: 'POST', file: path.join(APP_DIR, 'api/v1/plans/route.ts') },
-      { route: '/api/v1/studies/[id]', method: 'PATCH', file: path.join(APP_DIR, 'api/v1/studies/[id]/route.ts') },
+      // Made-up pairs no real route will ever export: a new route, and a new method on an existing route.
+      {
+        route: '/api/v1/example-new-route',
+        method: 'POST',
+        file: path.join(APP_DIR, 'api/v1/example-new-route/route.ts'),
+      },
+      { route: '/api/health', method: 'PUT', file: path.join(APP_DIR, 'api/health/route.ts') },
     ];
-    const rows = [...MATRIX, { route: '/api/v1/gone', method: 'GET' }, MATRIX[0]];
+    const rows = [...MATRIX, { route: '/api/v1/removed-route', method: 'GET' }, MATRIX[0]];
     expect(compareWithTable(found, rows, TABLE_FILE)).toEqual([
       'GET /api/account has 2 main rows in tests/api/authorization-matrix.test.ts; keep one and give the others a variant.',
-      'POST /api/v1/plans (app/api/v1/plans/route.ts) has no row in the authorization matrix: add one to tests/api/authorization-matrix.test.ts with the expected status for every caller.',
-      'PATCH /api/v1/studies/[id] (app/api/v1/studies/[id]/route.ts) has no row in the authorization matrix: add one to tests/api/authorization-matrix.test.ts with the expected status for every caller.',
-      'GET /api/v1/gone has a row in tests/api/authorization-matrix.test.ts but no route file exports it: remove or correct the row.',
+      'POST /api/v1/example-new-route (app/api/v1/example-new-route/route.ts) has no row in the authorization matrix: add one to tests/api/authorization-matrix.test.ts with the expected status for every caller.',
+      'PUT /api/health (app/api/health/route.ts) has no row in the authorization matrix: add one to tests/api/authorization-matrix.test.ts with the expected status for every caller.',
+      'GET /api/v1/removed-route has a row in tests/api/authorization-matrix.test.ts but no route file exports it: remove or correct the row.',
     ]);
     // A module exporting only config has no method, and an extra method is found.
     expect(exportedMethods({ dynamic: 'force-dynamic' })).toEqual([]);
