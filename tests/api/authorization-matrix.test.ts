@@ -75,7 +75,9 @@ type Row = {
   variant?: string;
   expect: Expect;
   prepare?: (who: Who) => Promise<Prepared>;
-  /** More assertions on the answer, beyond the status. */
+  /** The error code of this row's 403s when it is not the role refusal ('forbidden'). */
+  refusalCode?: string;
+  /** More assertions on a successful answer (status below 400), beyond the status. */
   check?: (a: {
     who: Who;
     res: Response;
@@ -461,6 +463,18 @@ const MATRIX: Row[] = [
       body: { name: `Matrix line ${who}`, elements: 8, spacing: { value: 0.5, unit: 'wavelength' } },
     }),
   },
+  // A cookie-authenticated write without the CSRF header is refused before the role is looked at (csrf_failed).
+  {
+    route: '/api/v1/arrays',
+    method: 'POST',
+    variant: 'session cookie without the CSRF header',
+    expect: { ...publicRoute(403), anonymous: 401 },
+    prepare: async (who) => ({
+      headers: await browserHeaders(who, { csrf: false }),
+      body: { name: `No CSRF ${who}`, elements: 8, spacing: { value: 0.5, unit: 'wavelength' } },
+    }),
+    refusalCode: 'csrf_failed',
+  },
   // A seeded demo array.
   {
     route: '/api/v1/arrays/[id]',
@@ -826,7 +840,11 @@ describe('authorization matrix: every route × every caller', () => {
           expect(body.error.message.length).toBeGreaterThan(10);
         }
         if (res.status === 401) expect(body.error.code).toBe('unauthenticated');
-        if (res.status === 403) expect(body.error.message).toMatch(new RegExp(`^Your role \\(${who}\\) cannot `));
+        if (res.status === 403) {
+          // A 403 is the role refusal unless the row names another code.
+          expect(body.error.code).toBe(row.refusalCode ?? 'forbidden');
+          if (!row.refusalCode) expect(body.error.message).toMatch(new RegExp(`^Your role \\(${who}\\) cannot `));
+        }
         if (res.status < 400) await row.check?.({ who, res, body, prepared });
       });
     }
