@@ -4,9 +4,9 @@
  * read `cookies()`/`headers()` from next/headers (next-auth's catch-all
  * route) work in a plain vitest process.
  *
- * This uses two internal Next.js modules (the async-storage stores and
- * their factories); if a Next upgrade moves them, this helper is the one
- * place to adapt. Next itself installs `globalThis.AsyncLocalStorage`
+ * This uses internal Next.js modules (next/dist/server/…: the work and
+ * request async storages and their store factories); if a Next upgrade
+ * moves them, this helper is the one place to adapt. Next itself installs `globalThis.AsyncLocalStorage`
  * before loading them; tests/helpers/api-setup.ts does the same.
  */
 import { AsyncLocalStorage } from 'node:async_hooks';
