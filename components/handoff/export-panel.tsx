@@ -111,7 +111,7 @@ export function ExportPanel({
               value={recipient}
               onChange={(e) => setRecipient(e.target.value)}
               error={fieldError}
-              hint="A signed link that expires in 7 days. Someone without an account is also invited to your team as viewer."
+              hint="A signed link that expires in 7 days. When an admin sends it to someone without an account, they are also invited to your team as viewer."
             />
             <div>
               <label htmlFor="handoff-note" className="block text-sm font-medium text-ink-800">

@@ -3,8 +3,11 @@ import 'server-only';
  * E-mail hand-off: a Handoff row, a signed expiring download link
  * (lib/handoff/signed-link.ts, HMAC with the server secret, purpose
  * "handoff", subject = handoff id) and a message through the shell's mailer.
- * A recipient without an account also gets the shell's invitation (a
- * one-time link into the sender's team, role viewer; an admin can raise it).
+ * When the sender may manage the team (an admin), a recipient without an
+ * account also gets the shell's invitation (a one-time link into the
+ * sender's team, role viewer; an admin can raise it). An engineer's hand-off
+ * never invites: invitations need team.manage, and the download link works
+ * without an account.
  * If the mail cannot be sent, the row, the invitation and their audit
  * entries are removed again.
  */
@@ -12,6 +15,7 @@ import { Op } from 'sequelize';
 import { ArrayDesign, AuditEvent, AuthLink, Handoff, Team, User } from '@/models';
 import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
+import { can } from '../auth/permissions';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { appUrl, authSecret } from '../env';
@@ -83,7 +87,8 @@ export async function sendHandoff({ caller, input, origin }: { caller: Caller; i
   const member = await User.findOne({ where: { email: recipient } });
   const ttl = handoffTtlSeconds();
   const expiresAt = new Date(Date.now() + ttl * 1000);
-  const invite = member ? null : randomSecret('', 32);
+  // Inviting someone into the team is team.manage (admins); engineers send the link only.
+  const invite = member || !can(caller.role, 'team.manage') ? null : randomSecret('', 32);
 
   const { handoff, auditIds, linkId } = await db.transaction(async (transaction) => {
     const handoff = await Handoff.create(

@@ -1,4 +1,5 @@
 import 'server-only';
+import { Op } from 'sequelize';
 import { OutboxMessage } from '@/models';
 import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
@@ -8,7 +9,8 @@ import { toOutboxDto, type OutboxDto } from './dto';
 /**
  * The local sink's captured mail. It is one mailbox for the whole
  * installation (the sink cannot tell teams apart), so admins see the
- * messages addressed to members of their team, plus invitations they sent.
+ * messages addressed to members of their team, plus invitations they sent
+ * (see teamAddresses).
  */
 export async function listOutbox({ caller, limit = 200 }: { caller: Caller; limit?: number }): Promise<OutboxDto[]> {
   assertPermission(caller, 'outbox.read');
@@ -26,11 +28,23 @@ export async function getOutboxMessage({ caller, id }: { caller: Caller; id: num
   return toOutboxDto(m);
 }
 
+/**
+ * The addresses whose mail this team's admins may read: the team's members,
+ * and the addresses of invitations the team sent unless that address now has
+ * an account in another team (its mail, reset links included, belongs to
+ * that team only).
+ */
 async function teamAddresses(teamId: number): Promise<Set<string>> {
   const { User, AuthLink } = await import('@/models');
-  const users = await User.findAll({ where: { teamId }, attributes: ['email'] });
+  const members = await User.findAll({ where: { teamId }, attributes: ['email'] });
   const links = await AuthLink.findAll({ where: { teamId }, attributes: ['email'] });
-  return new Set([...users, ...links].map((r) => r.email.toLowerCase()));
+  const linkEmails = [...new Set(links.map((l) => l.email.toLowerCase()))];
+  const elsewhere = await User.findAll({
+    where: { email: { [Op.in]: linkEmails }, teamId: { [Op.ne]: teamId } },
+    attributes: ['email'],
+  });
+  const taken = new Set(elsewhere.map((u) => u.email.toLowerCase()));
+  return new Set([...members.map((u) => u.email.toLowerCase()), ...linkEmails.filter((e) => !taken.has(e))]);
 }
 
 function addressedTo(to: string, addresses: Set<string>): boolean {

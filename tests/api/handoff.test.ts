@@ -142,20 +142,33 @@ describe('e-mail hand-off', () => {
     }
   });
 
-  it('a recipient without an account also gets an invitation into the sender team (viewer)', async () => {
-    const res = await send('engineer', { arrayId, recipientEmail: 'harbour.pilot@steerwise.test' });
+  it("an admin's hand-off to a recipient without an account also invites them into the sender team (viewer)", async () => {
+    const res = await send('admin', { arrayId, recipientEmail: 'harbour.pilot@steerwise.test' });
     expect(res.status).toBe(201);
     expect((await json(res)).invited).toBe(true);
     const mails = await mailsTo('harbour.pilot@steerwise.test');
     expect(mails.map((m) => m.subject)).toEqual([
-      'Tobin Hartree sent you "Port Alder inshore line" revision 1 on Steerwise',
+      'Maren Aldous sent you "Port Alder inshore line" revision 1 on Steerwise',
       'You are invited to Kestrel Sound Laboratory on Steerwise',
     ]);
     expect(mails[0].text).toContain('also invited you to Kestrel Sound Laboratory');
     expect(mails[1].text).toMatch(/http:\/\/localhost:3000\/invite\?token=[A-Za-z0-9_-]+/);
-    const engineer = await userOf('engineer');
+    const admin = await userOf('admin');
     const link = await AuthLink.findOne({ where: { email: 'harbour.pilot@steerwise.test', purpose: 'invite' } });
-    expect(link).toMatchObject({ role: 'viewer', teamId: engineer.teamId, createdById: engineer.id, usedAt: null });
+    expect(link).toMatchObject({ role: 'viewer', teamId: admin.teamId, createdById: admin.id, usedAt: null });
+  });
+
+  it("an engineer's hand-off to a recipient without an account sends the link only: inviting is for admins", async () => {
+    const res = await send('engineer', { arrayId, recipientEmail: 'quay.surveyor@steerwise.test' });
+    expect(res.status).toBe(201);
+    expect((await json(res)).invited).toBe(false);
+    const mails = await mailsTo('quay.surveyor@steerwise.test');
+    expect(mails.map((m) => m.subject)).toEqual([
+      'Tobin Hartree sent you "Port Alder inshore line" revision 1 on Steerwise',
+    ]);
+    expect(mails[0].text).not.toContain('invited you');
+    expect(tokenIn(mails[0].text)).toBeTruthy();
+    expect(await AuthLink.count({ where: { email: 'quay.surveyor@steerwise.test' } })).toBe(0);
   });
 
   it('role matrix and bad input: viewers and reviewers may not send, another team gets 404, bad fields get 422', async () => {

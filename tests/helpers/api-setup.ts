@@ -6,7 +6,11 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { AsyncLocalStorage } from 'node:async_hooks';
 import { afterAll, beforeAll } from 'vitest';
+
+// As in Next's server runtime: its request stores need this global before they load (tests/helpers/next-request-scope.ts).
+(globalThis as { AsyncLocalStorage?: unknown }).AsyncLocalStorage ??= AsyncLocalStorage;
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-api-'));
 process.env.STEERWISE_DATA_DIR = dir;

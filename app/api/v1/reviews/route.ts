@@ -1,5 +1,5 @@
 import { handle, readJson } from '@/lib/http';
-import { getCaller, requireApiPermission } from '@/lib/auth';
+import { requireApiPermission } from '@/lib/auth';
 import { createReview, listReviews } from '@/lib/data/reviews';
 import { reviewCreateSchema, reviewQuerySchema } from '@/lib/handoff/validation';
 
@@ -22,7 +22,8 @@ export const GET = handle(async (req) => {
 });
 
 export const POST = handle(async (req) => {
-  const caller = await getCaller(req);
+  // Every kind needs review.comment (approvers hold it too), checked before the body is read; approvals need more below.
+  const caller = await requireApiPermission(req, 'review.comment');
   const input = reviewCreateSchema.parse(await readJson(req));
   return Response.json(await createReview({ caller, input, origin: new URL(req.url).origin }), { status: 201 });
 });
