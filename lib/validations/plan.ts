@@ -172,3 +172,36 @@ export function toPlanInput(v: PlanRequest): PlanInput & { speedFormula: string;
     constraints: v.constraints,
   };
 }
+
+const candidateSchema = z.object({
+  elements: z.int(),
+  spacingWavelengths: z.number().meta({ description: 'd/λ at the highest frequency' }),
+  spacingWavelengthsAtEvaluation: z.number().meta({ description: 'd/λ at the evaluation (lowest) frequency' }),
+  spacingM: z.number(),
+  snapshots: z.int(),
+  snapshotsSetBy: z.enum(['accuracy', 'resolution', 'rank']),
+  apertureM: z.number(),
+  smoothingSubarray: z.int().nullable(),
+  crbStdDeg: z.number(),
+  efficiencyFactor: z.number().meta({ description: 'RMSE/√CRB of the method (first order)' }),
+  predictedStdDeg: z.number(),
+  statisticalResolutionDeg: z.number().nullable().meta({ description: 'Smith (2005) limit of the equal pair' }),
+  rayleighGapDeg: z.number().nullable(),
+  gratingLobeFreeScanDeg: z.number(),
+  margins: z.object({ accuracyDeg: z.number(), resolutionDeg: z.number().nullable(), scanDeg: z.number() }),
+});
+
+/** The answer of POST /api/v1/plans (documentation; the route returns lib/data/plans.ts `PlanAnswer`). */
+export const planAnswerSchema = z.object({
+  candidates: z.array(candidateSchema),
+  recommendedIndex: z.int(),
+  evaluation: z.object({ frequencyHz: z.number(), wavelengthM: z.number(), spacingWavelengths: z.number() }),
+  gratingLobeDesign: z.object({ frequencyHz: z.number(), wavelengthM: z.number(), maxSpacingWavelengths: z.number() }),
+  snapshotBudget: z.int(),
+  snapshotBudgetFrom: z.enum(['snapshots', 'integrationSeconds']),
+  elementLimit: z.int(),
+  propagationSpeedMps: z.number(),
+  speedFormula: z.string(),
+  warnings: z.array(z.string()),
+  assumptions: z.array(z.string()),
+});
