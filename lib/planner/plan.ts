@@ -86,6 +86,8 @@ export interface PlanResult {
   gratingLobeDesign: { frequencyHz: number; wavelengthM: number; maxSpacingWavelengths: number };
   snapshotBudget: number;
   elementLimit: number;
+  /** The elements–snapshots plane for the chart: per M, σ at N = 1 (σ(N) = σ1/√N) and the N the resolution target needs. */
+  plane: { elements: number[]; sigmaAtOneSnapshotDeg: number[]; resolutionSnapshots: number[] | null };
   assumptions: string[];
 }
 
@@ -276,8 +278,19 @@ export function planAperture(input: PlanInput): PlanResult {
   const budget = input.snapshotBudget;
   const candidates: PlanCandidate[] = [];
   let best = Infinity;
+  const plane: PlanResult['plane'] = {
+    elements: [],
+    sigmaAtOneSnapshotDeg: [],
+    resolutionSnapshots: t.resolveDeg !== undefined ? [] : null,
+  };
+  const planeLimit = (last: number) => Math.max(2 * last, last + 8);
   for (let m = mMin; m <= mMax; m++) {
+    // Past the front (N ≥ M ≥ the fewest N so far) only the chart needs more columns.
+    if (m >= best && m > planeLimit(candidates[candidates.length - 1].elements)) break;
     const need = needAt(s, m);
+    plane.elements.push(m);
+    plane.sigmaAtOneSnapshotDeg.push(need.sigma1);
+    plane.resolutionSnapshots?.push(need.nResolution);
     if (need.n > budget || need.n >= best) continue;
     best = need.n;
     const n = need.n;
@@ -304,10 +317,15 @@ export function planAperture(input: PlanInput): PlanResult {
         scanDeg: scanFree - sector,
       },
     });
-    if (n === m && need.setBy === 'rank') break; // more elements only raise N ≥ M
   }
 
   if (candidates.length === 0) throw infeasible(s, mMin, mMax, elementField, budget);
+  // The chart shows the plane up to about twice the largest candidate.
+  const last = candidates[candidates.length - 1].elements;
+  const shown = Math.max(0, Math.min(mMax, planeLimit(last)) - mMin + 1);
+  plane.elements.length = Math.min(plane.elements.length, shown);
+  plane.sigmaAtOneSnapshotDeg.length = plane.elements.length;
+  if (plane.resolutionSnapshots) plane.resolutionSnapshots.length = plane.elements.length;
 
   return {
     candidates,
@@ -316,6 +334,7 @@ export function planAperture(input: PlanInput): PlanResult {
     gratingLobeDesign: { frequencyHz: band.highHz, wavelengthM: lambdaHigh, maxSpacingWavelengths: maxD },
     snapshotBudget: budget,
     elementLimit: mMax,
+    plane,
     assumptions: [
       `Spacing: ${k.spacingM !== undefined ? 'fixed by constraints.spacingM' : k.minSpacingM !== undefined && spacingM === k.minSpacingM ? 'constraints.minSpacingM' : `the largest grating-lobe-free spacing over ±${fmt(sector)}° at the highest frequency, ${fmt(band.highHz)} Hz (1/(1 + sin θs) wavelengths, rounded down to 3 significant figures)`}.`,
       `Accuracy and resolution are evaluated at the lowest frequency, ${fmt(band.lowHz)} Hz (worst case), where the spacing is ${fmt(dLow, 4)} wavelengths.`,

@@ -200,6 +200,11 @@ export const planAnswerSchema = z.object({
   snapshotBudget: z.int(),
   snapshotBudgetFrom: z.enum(['snapshots', 'integrationSeconds']),
   elementLimit: z.int(),
+  plane: z.object({
+    elements: z.array(z.int()),
+    sigmaAtOneSnapshotDeg: z.array(z.number()),
+    resolutionSnapshots: z.array(z.int()).nullable(),
+  }),
   propagationSpeedMps: z.number(),
   speedFormula: z.string(),
   warnings: z.array(z.string()),
