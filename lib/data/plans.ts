@@ -15,6 +15,7 @@ export type PlanAnswer = PlanResult & {
   smoothing: 'none' | 'auto';
   forwardBackward: boolean;
   snrDbPerElement: number;
+  scanSectorDeg: number;
 };
 
 /**
@@ -38,6 +39,7 @@ export function createPlan({ caller, input }: { caller: Caller; input: PlanReque
       smoothing: planInput.smoothing,
       forwardBackward: planInput.forwardBackward,
       snrDbPerElement: planInput.snrDbPerElement,
+      scanSectorDeg: planInput.scanSectorDeg,
     };
   } catch (err) {
     if (err instanceof PlanInfeasibleError)

@@ -206,6 +206,7 @@ export const planAnswerSchema = z.object({
     resolutionSnapshots: z.array(z.int()).nullable(),
   }),
   propagationSpeedMps: z.number(),
+  scanSectorDeg: z.number(),
   speedFormula: z.string(),
   warnings: z.array(z.string()),
   assumptions: z.array(z.string()),
