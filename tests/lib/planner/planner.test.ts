@@ -13,6 +13,7 @@
 import { describe, expect, it } from 'vitest';
 import fixture from '@/fixtures/planner/planner.json';
 import {
+  efficiencyFactor,
   espritLsVarianceMu,
   evaluateDesign,
   planAperture,
@@ -193,4 +194,42 @@ describe('infeasible targets', () => {
       /targets.atBearingDeg/,
     );
   });
+});
+
+describe('efficiency of the other ESPRIT forms at a larger array (engine Monte Carlo)', () => {
+  // M = 16 without smoothing, where the maximal-overlap loss is large (σ/√CRB = 1.74): TLS-ESPRIT
+  // is planned with the LS value and Unitary ESPRIT with the forward–backward LS value.
+  const TRIALS = 300;
+  it.each(['esprit-ls', 'esprit-tls', 'esprit-unitary'] as const)(
+    '%s: simulated RMSE within the 95-percent interval of the prediction',
+    async (method) => {
+      const study = await runStudy({
+        elements: 16,
+        spacingWavelengths: 0.5,
+        bearingsDeg: [15],
+        powersDb: [0],
+        snapshots: 200,
+        sweep: { variable: 'snr', values: [0] },
+        methods: [method],
+        trials: TRIALS,
+        seed: 16,
+        smoothing: 'none',
+      });
+      const point = study.points[0];
+      const eta = efficiencyFactor({
+        method,
+        elements: 16,
+        spacingWavelengths: 0.5,
+        bearingDeg: 15,
+        snr: 1,
+        smoothingSubarray: null,
+      });
+      const predicted = point.crbStdDeg[0] * eta;
+      const rmse = point.methods[0].rmseDeg;
+      const half = 1.96 / Math.sqrt(2 * TRIALS);
+      console.info(method, 'η', eta.toFixed(3), 'predicted', predicted.toFixed(4), 'simulated', rmse.toFixed(4));
+      expect(predicted).toBeGreaterThanOrEqual(rmse * (1 - half));
+      expect(predicted).toBeLessThanOrEqual(rmse * (1 + half));
+    },
+  );
 });
