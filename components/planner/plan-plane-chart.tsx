@@ -55,7 +55,7 @@ export function PlanPlaneChart({ plan, selected }: { plan: PlanePlan; selected?:
     <figure>
       <svg
         viewBox={`0 0 ${W} ${H}`}
-        className="w-full"
+        className="w-full max-w-4xl"
         role="img"
         aria-labelledby="plane-title plane-desc"
         data-testid="plan-plane-chart"
@@ -69,7 +69,7 @@ export function PlanPlaneChart({ plan, selected }: { plan: PlanePlan; selected?:
           <g key={t}>
             <line x1={PAD.l} x2={W - PAD.r} y1={y(t)} y2={y(t)} className="stroke-ink-100" />
             <text x={PAD.l - 6} y={y(t) + 3} textAnchor="end" className="fill-ink-500 text-[10px]">
-              {t >= 1e4 ? t.toExponential(0) : t}
+              {t.toLocaleString('en-GB').replace(/,/g, '\u2009')}
             </text>
           </g>
         ))}

@@ -352,7 +352,7 @@ export function Planner({ canDesign, canStudy }: { canDesign: boolean; canStudy:
   const rec = plan ? plan.candidates[plan.recommendedIndex] : null;
   const temperatureShown = medium === 'sea-water' || medium === 'fresh-water' || medium === 'air';
   return (
-    <div className="grid gap-6">
+    <div className="grid grid-cols-[minmax(0,1fr)] gap-6">
       <Card aria-labelledby="plan-form-title">
         <CardHeader
           id="plan-form-title"
