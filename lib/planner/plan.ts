@@ -259,12 +259,7 @@ export function planAperture(input: PlanInput): PlanResult {
   const byElements = k.maxElements ?? PLANNER_DEFAULT_MAX_ELEMENTS;
   const byAperture = k.maxApertureM !== undefined ? Math.floor(k.maxApertureM / spacingM + 1e-9) + 1 : Infinity;
   const mMax = Math.min(byElements, byAperture);
-  const elementField =
-    byAperture < byElements
-      ? 'constraints.maxApertureM'
-      : k.maxElements !== undefined
-        ? 'constraints.maxElements'
-        : 'constraints.maxElements';
+  const elementField = byAperture < byElements ? 'constraints.maxApertureM' : 'constraints.maxElements';
   if (mMax < mMin) {
     throw new PlanInfeasibleError(
       elementField,
@@ -394,7 +389,7 @@ function infeasible(s: Setting, mMin: number, mMax: number, elementField: string
   const limitText =
     elementField === 'constraints.maxApertureM'
       ? `constraints.maxApertureM (${mMax} elements)`
-      : `the element limit (${elementField}, ${mMax})`;
+      : `the element limit (${elementField}, ${mMax}${s.input.constraints.maxElements === undefined ? ' by default' : ''})`;
   const elementMsg =
     needM !== null
       ? `${limitText} binds: ${which} needs at least ${needM} elements within ${budget} snapshots (${needM - mMax} more)`
