@@ -239,8 +239,11 @@ export function Planner({ canDesign, canStudy }: { canDesign: boolean; canStudy:
       });
       let resId: number | undefined;
       if (t.resolveDeg !== undefined) {
+        // Two sources need a subarray of at least 3 elements: ⌈2M/3⌉ raised to 3 (none when that is all of M).
+        const l = Math.max(3, Math.ceil((2 * c.elements) / 3));
         const res = await apiSend<{ id: number }>('POST', '/api/v1/studies', {
           ...common,
+          smoothing: plan.smoothing === 'auto' && l < c.elements ? l : 'none',
           name: `Plan check: ${c.elements} elements × ${c.snapshots} snapshots, pair ${t.resolveDeg}° apart`,
           sources: {
             bearingsDeg: [t.atBearingDeg - t.resolveDeg / 2, t.atBearingDeg + t.resolveDeg / 2],
@@ -284,37 +287,6 @@ export function Planner({ canDesign, canStudy }: { canDesign: boolean; canStudy:
       ),
     },
     { accessorKey: 'snapshots', header: 'Snapshots' },
-    { accessorKey: 'snapshotsSetBy', header: 'N set by' },
-    {
-      id: 'spacing',
-      accessorFn: (r) => r.spacingM * 1000,
-      header: 'Spacing (mm)',
-      cell: (c) => p3(c.getValue() as number),
-    },
-    { accessorKey: 'spacingWavelengths', header: 'd/λ (high f)', cell: (c) => p3(c.getValue() as number) },
-    { accessorKey: 'apertureM', header: 'Aperture (m)', cell: (c) => p3(c.getValue() as number) },
-    { accessorKey: 'predictedStdDeg', header: 'Predicted σ (°)', cell: (c) => p3(c.getValue() as number) },
-    { accessorKey: 'crbStdDeg', header: '√CRB (°)', cell: (c) => p3(c.getValue() as number) },
-    { accessorKey: 'efficiencyFactor', header: 'σ/√CRB', cell: (c) => p3(c.getValue() as number) },
-    {
-      accessorKey: 'statisticalResolutionDeg',
-      header: 'Smith limit (°)',
-      cell: (c) => p3(c.getValue() as number | null),
-    },
-    { accessorKey: 'rayleighGapDeg', header: 'Rayleigh gap (°)', cell: (c) => p3(c.getValue() as number | null) },
-    { accessorKey: 'gratingLobeFreeScanDeg', header: 'GL-free scan (°)', cell: (c) => p3(c.getValue() as number) },
-    {
-      id: 'marginAccuracy',
-      accessorFn: (r) => r.margins.accuracyDeg,
-      header: 'Margin σ (°)',
-      cell: (c) => p3(c.getValue() as number),
-    },
-    {
-      id: 'marginResolution',
-      accessorFn: (r) => r.margins.resolutionDeg,
-      header: 'Margin res. (°)',
-      cell: (c) => p3(c.getValue() as number | null),
-    },
     {
       id: 'actions',
       header: 'Actions',
@@ -346,6 +318,37 @@ export function Planner({ canDesign, canStudy }: { canDesign: boolean; canStudy:
           </div>
         );
       },
+    },
+    { accessorKey: 'snapshotsSetBy', header: 'N set by' },
+    {
+      id: 'spacing',
+      accessorFn: (r) => r.spacingM * 1000,
+      header: 'Spacing (mm)',
+      cell: (c) => p3(c.getValue() as number),
+    },
+    { accessorKey: 'spacingWavelengths', header: 'd/λ (high f)', cell: (c) => p3(c.getValue() as number) },
+    { accessorKey: 'apertureM', header: 'Aperture (m)', cell: (c) => p3(c.getValue() as number) },
+    { accessorKey: 'predictedStdDeg', header: 'Predicted σ (°)', cell: (c) => p3(c.getValue() as number) },
+    { accessorKey: 'crbStdDeg', header: '√CRB (°)', cell: (c) => p3(c.getValue() as number) },
+    { accessorKey: 'efficiencyFactor', header: 'σ/√CRB', cell: (c) => p3(c.getValue() as number) },
+    {
+      accessorKey: 'statisticalResolutionDeg',
+      header: 'Smith limit (°)',
+      cell: (c) => p3(c.getValue() as number | null),
+    },
+    { accessorKey: 'rayleighGapDeg', header: 'Rayleigh gap (°)', cell: (c) => p3(c.getValue() as number | null) },
+    { accessorKey: 'gratingLobeFreeScanDeg', header: 'GL-free scan (°)', cell: (c) => p3(c.getValue() as number) },
+    {
+      id: 'marginAccuracy',
+      accessorFn: (r) => r.margins.accuracyDeg,
+      header: 'Margin σ (°)',
+      cell: (c) => p3(c.getValue() as number),
+    },
+    {
+      id: 'marginResolution',
+      accessorFn: (r) => r.margins.resolutionDeg,
+      header: 'Margin res. (°)',
+      cell: (c) => p3(c.getValue() as number | null),
     },
   ];
 
