@@ -189,6 +189,20 @@ describe('infeasible targets', () => {
       expect((e as PlanInfeasibleError).field).toBe('constraints.maxApertureM');
     }
   });
+  it('names a smallest spacing above the grating-lobe limit', () => {
+    try {
+      planAperture({ ...base, constraints: { minSpacingM: 0.5 } });
+      expect.unreachable();
+    } catch (e) {
+      expect((e as PlanInfeasibleError).field).toBe('constraints.minSpacingM');
+      expect((e as Error).message).toMatch(/exceeds the largest grating-lobe-free spacing .* by [\d.]+ mm/);
+    }
+  });
+  it('keeps every candidate within the longest aperture', () => {
+    const plan = planAperture({ ...base, constraints: { maxApertureM: 1.5 } });
+    for (const c of plan.candidates) expect(c.apertureM).toBeLessThanOrEqual(1.5);
+    expect(plan.elementLimit).toBe(Math.floor(1.5 / plan.candidates[0].spacingM) + 1);
+  });
   it('names a bearing outside the sector', () => {
     expect(() => planAperture({ ...base, targets: { accuracyDeg: 1, atBearingDeg: 50 } })).toThrow(
       /targets.atBearingDeg/,
