@@ -14,6 +14,7 @@ export const mainNav: NavItem[] = [
   { href: '/estimates', label: 'Estimates', hint: 'Bearings and bounds' },
   { href: '/handoff', label: 'Hand-off', hint: 'Bundles, e-mail, sign-off' },
   { href: '/studies', label: 'Studies', hint: 'Monte Carlo accuracy vs the CRB' },
+  { href: '/plans', label: 'Planner', hint: 'Elements and snapshots for a target' },
 ];
 
 export const teamNav: NavItem[] = [

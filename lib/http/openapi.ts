@@ -8,6 +8,7 @@ import packageJson from '@/package.json';
 import { arrayInputSchema } from '../validations/array';
 import { datasetCreatedSchema, datasetSchema, datasetUploadFormSchema } from '../validations/dataset';
 import { studyRequestSchema } from '../validations/study';
+import { planAnswerSchema, planRequestSchema } from '../validations/plan';
 import { handoffSendSchema, reviewCreateSchema, reviewQuerySchema } from '../handoff/validation';
 import { bundleQuerySchema } from '../handoff/query';
 import {
@@ -351,6 +352,15 @@ export function openApiDocument() {
           responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
         },
       },
+      '/api/v1/plans': {
+        post: {
+          summary: 'Plan an array: element count, spacing and snapshots meeting an accuracy (and resolution) target',
+          description:
+            'Stores nothing; any team member may call it. Answers the Pareto front of elements against snapshots, the first candidate being the recommended one. Quantities take a plain number in the documented unit or text with units ("3 kHz", "25 mm"). An infeasible target is 422 whose `fields` name the binding constraint (e.g. `constraints.maxElements`, `snapshots`, `constraints.spacingM`) and by how much.',
+          requestBody: { required: true, content: json('PlanRequest') },
+          responses: { '200': { description: 'OK', content: json('Plan') }, ...errors(400, 401, 403, 413, 415, 422) },
+        },
+      },
       '/api/v1/bounds': {
         post: {
           summary: 'Stochastic CRB per source and the resolvable-gap test per pair',
@@ -375,6 +385,8 @@ export function openApiDocument() {
         BoundsRequest: schema(boundsRequestSchema, 'input'),
         Bounds: schema(boundsAnswerSchema),
         StudyRequest: schema(studyRequestSchema, 'input'),
+        PlanRequest: schema(planRequestSchema, 'input'),
+        Plan: schema(planAnswerSchema),
         ReviewRequest: schema(reviewCreateSchema, 'input'),
         HandoffSend: schema(handoffSendSchema, 'input'),
       },

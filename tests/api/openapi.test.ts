@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import * as openapi from '@/app/api/v1/openapi.json/route';
 import { estimateRequestSchema } from '@/lib/validations/estimate';
+import { planRequestSchema } from '@/lib/validations/plan';
 import { handoffSendSchema, reviewCreateSchema } from '@/lib/handoff/validation';
 import { json, params, req } from '../helpers/api';
 
@@ -23,6 +24,7 @@ describe('openapi.json', () => {
       '/api/v1/estimates',
       '/api/v1/estimates/{id}',
       '/api/v1/bounds',
+      '/api/v1/plans',
       '/api/v1/openapi.json',
     ]) {
       expect(doc.paths[p], p).toBeDefined();
@@ -115,5 +117,25 @@ describe('openapi.json', () => {
       'mm',
     ]);
     expect(doc.components.schemas.DatasetUpload.properties.file.format).toBe('binary');
+  });
+
+  it('describes POST /api/v1/plans with the schema the route parses (quantities as number or text)', async () => {
+    const doc = await json(await openapi.GET(req('GET', '/api/v1/openapi.json'), params({})));
+    const post = doc.paths['/api/v1/plans'].post;
+    expect(post.requestBody.content['application/json'].schema.$ref).toBe('#/components/schemas/PlanRequest');
+    expect(post.responses['422']).toBeDefined();
+    const s = doc.components.schemas.PlanRequest;
+    expect(s).toEqual(
+      (({ $schema: _, ...rest }) => rest)(
+        z.toJSONSchema(planRequestSchema, { target: 'draft-2020-12', io: 'input', unrepresentable: 'any' }) as Record<
+          string,
+          unknown
+        >,
+      ),
+    );
+    for (const f of ['frequencyHz', 'band', 'medium', 'propagationSpeedMps', 'scanSectorDeg', 'targets', 'constraints'])
+      expect(s.properties[f], f).toBeDefined();
+    expect(s.properties.frequencyHz.type).toEqual(['number', 'string']);
+    expect(doc.components.schemas.Plan.properties.candidates.type).toBe('array');
   });
 });
