@@ -533,6 +533,22 @@ const MATRIX: Row[] = [
       },
     }),
   },
+  // Planning is pure computation on the body and stores nothing: every signed-in caller (arrays.read).
+  {
+    route: '/api/v1/plans',
+    method: 'POST',
+    expect: signedIn(200),
+    prepare: async () => ({
+      body: {
+        frequencyHz: 3000,
+        propagationSpeedMps: 1500,
+        scanSectorDeg: 60,
+        targets: { accuracyDeg: 1, atBearingDeg: 0 },
+        snrDbPerElement: 10,
+        snapshots: 200,
+      },
+    }),
+  },
   // Importing a bundle of the seeded array (no runs, so nothing is re-executed): engineers and admins, into their own team.
   {
     route: '/api/v1/bundles',
