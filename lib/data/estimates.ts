@@ -9,7 +9,7 @@ import { DatasetError, sha256File } from '../datasets';
 import { bounds, defaultSingleSnapshotSubarray, DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
 import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
 import { runMethod, usedCovariance, v1Fields, type MethodResult, type RunOptions } from '../jobs/estimate-run';
-import { resolveStoragePath } from '../storage/uploads';
+import { resolveStoragePath } from '../storage/files';
 import type { EstimateRequest } from '../validations/estimate';
 import { datasetErrorToApi, findTeamArrayRevision, loadDatasetSnapshots } from './datasets';
 

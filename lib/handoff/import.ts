@@ -15,118 +15,47 @@ import 'server-only';
 import fs from 'node:fs';
 import path from 'node:path';
 import { randomUUID } from 'node:crypto';
-import { Readable } from 'node:stream';
-import busboy from 'busboy';
 import { z } from 'zod';
 import { ArrayDesign, ArrayRevision, Dataset, EstimateRun } from '@/models';
 import { ApiError } from '@/lib/http';
+import { receiveFile } from '@/lib/http/multipart';
 import { assertPermission, type Caller } from '@/lib/auth';
 import { recordAudit } from '@/lib/data/record-audit';
 import { getDb } from '@/lib/db';
-import { dataDir } from '@/lib/env';
+import { maxBundleBytes } from '@/lib/env';
 import { BundleError, readBundle, sha256Hex, type BundleManifest } from '@/lib/bundle/bundle';
 import { DatasetError, parseSnapshotFile, type SnapshotFormat } from '@/lib/datasets';
 import type { ComplexMatrix } from '@/lib/doa';
 import { arrayInputSchema, resolveArrayGeometry } from '@/lib/validations/array';
 import { REVISION_PATH } from './export';
 import { inlineSnapshots, reproduceRun, type RunComparison } from './runs';
-import { removeQuietly, resolveDataPath } from './storage';
+import { newTempPath, removeQuietly, resolveStoragePath } from '@/lib/storage/files';
 
-export const DEFAULT_MAX_BUNDLE_BYTES = 256 * 1024 * 1024;
-
-/** Largest bundle upload (STEERWISE_MAX_BUNDLE_BYTES, default 256 MiB); larger is 413. */
-export function maxBundleBytes(): number {
-  const raw = Number(process.env.STEERWISE_MAX_BUNDLE_BYTES);
-  return Number.isFinite(raw) && raw > 0 ? Math.floor(raw) : DEFAULT_MAX_BUNDLE_BYTES;
-}
-
-const tooLarge = (limit: number) =>
-  new ApiError('too_large', `The bundle is larger than the limit of ${limit} bytes (STEERWISE_MAX_BUNDLE_BYTES).`, {
-    fields: { file: [`larger than ${limit} bytes`] },
-  });
-
-/** Reads the multipart `file` field into memory under the size limit (a bundle is read whole anyway). */
+/**
+ * Reads the multipart `file` of POST /api/v1/bundles under
+ * STEERWISE_MAX_BUNDLE_BYTES (lib/http/multipart.ts) and returns its bytes:
+ * a bundle is checked and read whole, so the temp file is removed at once.
+ */
 export async function receiveBundle(
   req: Request,
   maxBytes = maxBundleBytes(),
-): Promise<{ bytes: Uint8Array; fileName: string }> {
-  const type = req.headers.get('content-type') ?? '';
-  if (!/^multipart\/form-data\b/i.test(type) || !/boundary=/i.test(type)) {
-    throw new ApiError(
-      'unsupported_format',
-      `Send the bundle as multipart/form-data with a "file" field (got ${type.split(';')[0] || 'no content type'}).`,
-    );
-  }
-  const declared = Number(req.headers.get('content-length') ?? NaN);
-  if (Number.isFinite(declared) && declared > maxBytes + 64 * 1024) throw tooLarge(maxBytes);
-  if (!req.body)
-    throw new ApiError('validation_failed', 'The request has no body: send a "file" field.', {
-      fields: { file: ['a file is required'] },
-    });
-  let bb: busboy.Busboy;
-  try {
-    bb = busboy({
-      headers: { 'content-type': type },
-      limits: { files: 1, fileSize: maxBytes, fields: 10, fieldSize: 2000, parts: 11 },
-    });
-  } catch (err) {
-    throw new ApiError('unsupported_format', `The multipart body cannot be read: ${(err as Error).message}.`);
-  }
-  return new Promise((resolve, reject) => {
-    const chunks: Buffer[] = [];
-    let fileName = '';
-    let seen = false;
-    let failure: ApiError | null = null;
-    const fail = (e: ApiError) => {
-      failure ??= e;
-    };
-    bb.on('file', (name, stream, info) => {
-      if (name !== 'file' || seen) {
-        stream.resume();
-        if (name !== 'file')
-          fail(
-            new ApiError(
-              'validation_failed',
-              `Unexpected file field "${name}": send the bundle in a field named "file".`,
-              { fields: { file: ['a file is required'] } },
-            ),
-          );
-        return;
-      }
-      seen = true;
-      fileName = (info.filename ?? '').trim();
-      stream.on('data', (c: Buffer) => {
-        if (!failure) chunks.push(c);
-      });
-      stream.on('limit', () => {
-        fail(tooLarge(maxBytes));
-        chunks.length = 0;
-      });
-    });
-    bb.on('filesLimit', () =>
-      fail(
-        new ApiError('validation_failed', 'Send one bundle per upload.', {
-          fields: { file: ['only one file per upload'] },
-        }),
-      ),
-    );
-    bb.on('error', (err: Error) =>
-      reject(failure ?? new ApiError('validation_failed', `The upload could not be read: ${err.message}.`)),
-    );
-    bb.on('close', () => {
-      if (failure) return reject(failure);
-      if (!seen)
-        return reject(
-          new ApiError('validation_failed', 'No file: send the bundle in a multipart field named "file".', {
-            fields: { file: ['a file is required'] },
-          }),
-        );
-      resolve({ bytes: new Uint8Array(Buffer.concat(chunks)), fileName });
-    });
-    Readable.fromWeb(req.body as import('node:stream/web').ReadableStream<Uint8Array>)
-      .on('error', (err) => reject(new ApiError('validation_failed', `The upload was interrupted: ${err.message}.`)))
-      .pipe(bb);
+): Promise<{ bytes: Uint8Array; fileName: string; sha256: string }> {
+  const upload = await receiveFile(req, {
+    noun: 'bundle',
+    maxBytes,
+    maxFields: 10,
+    tooLarge: (limit) =>
+      new ApiError('too_large', `The bundle is larger than the limit of ${limit} bytes (STEERWISE_MAX_BUNDLE_BYTES).`, {
+        fields: { file: [`larger than ${limit} bytes`] },
+      }),
+    missingFile: 'No file: send the bundle in a multipart field named "file".',
   });
+  try {
+    const bytes = new Uint8Array(await fs.promises.readFile(upload.tempPath));
+    return { bytes, fileName: upload.originalName, sha256: upload.sha256 };
+  } finally {
+    await removeQuietly(upload.tempPath);
+  }
 }
 
 const revisionJsonSchema = z.object({
@@ -299,7 +228,6 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
     );
   }
 
-  const tmpDir = path.join(dataDir(), 'uploads', 'tmp');
   const temps: string[] = [];
   const moved: string[] = [];
   try {
@@ -325,9 +253,7 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
         refuse(`the dataset has ${meta.elements} elements but the array has ${config.data.elements}`, entry.path);
       const options = datasetOptionsSchema.safeParse(meta.options ?? {});
       if (!options.success) refuse(`options: ${options.error.issues[0].message}`, entry.path);
-      await fs.promises.mkdir(tmpDir, { recursive: true });
-      const ext = path.extname(meta.file).toLowerCase();
-      const temp = path.join(tmpDir, `${randomUUID()}${ext}.part`);
+      const temp = await newTempPath(`${path.extname(meta.file).toLowerCase()}.part`);
       temps.push(temp);
       await fs.promises.writeFile(temp, data, { flag: 'wx' });
       let parsed;
@@ -453,7 +379,7 @@ export async function importBundle({ caller, bytes }: { caller: Caller; bytes: U
           },
           { transaction },
         );
-        const finalPath = resolveDataPath(rel);
+        const finalPath = resolveStoragePath(rel);
         await fs.promises.mkdir(path.dirname(finalPath), { recursive: true });
         await fs.promises.rename(d.temp, finalPath);
         moved.push(finalPath);
