@@ -5,8 +5,8 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Card, CardHeader } from '@/components/ui/card';
 import { FormMessage } from '@/components/ui/field';
-import type { ImportResult } from '@/lib/handoff/import';
-import { sendWithCsrf } from './csrf-fetch';
+import type { ImportResult } from '@/lib/data/bundles';
+import { apiSend } from '@/lib/client/fetcher';
 
 const deg = (v: number) => `${v.toFixed(6)}°`;
 
@@ -88,7 +88,7 @@ export function ImportForm({ linkToken }: { linkToken?: string }) {
   async function importBlob(blob: Blob, name: string) {
     const form = new FormData();
     form.append('file', blob, name);
-    setResult(await sendWithCsrf<ImportResult>('/api/v1/bundles', { method: 'POST', form }));
+    setResult(await apiSend<ImportResult>('POST', '/api/v1/bundles', form));
   }
 
   async function run(action: () => Promise<void>) {

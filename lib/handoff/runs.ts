@@ -205,3 +205,27 @@ export function reproduceRun({
   }
   return { reproduced: methods.length > 0 && methods.every((m) => m.reproduced), methods };
 }
+
+/** The run's inputs with the ids of the source team replaced by the new records' ids. */
+export function remapRunInputs(
+  inputs: Record<string, unknown>,
+  ids: { datasetId: number | null; arrayId: number; arrayRevisionId: number },
+): Record<string, unknown> {
+  const out: Record<string, unknown> = JSON.parse(JSON.stringify(inputs));
+  const fix = (o: Record<string, unknown> | undefined) => {
+    if (!o || typeof o !== 'object') return;
+    if ('datasetId' in o) o.datasetId = ids.datasetId ?? undefined;
+    if ('arrayId' in o) o.arrayId = ids.arrayId;
+    if ('arrayRevisionId' in o) o.arrayRevisionId = ids.arrayRevisionId;
+    if ('revision' in o && 'arrayRevisionId' in o) o.revision = 1;
+  };
+  fix(out);
+  fix(out.request as Record<string, unknown>);
+  fix(out.array as Record<string, unknown>);
+  const ds = out.dataset as Record<string, unknown> | undefined;
+  if (ds && typeof ds === 'object') {
+    if (ids.datasetId === null) delete out.dataset;
+    else ds.id = ids.datasetId;
+  }
+  return JSON.parse(JSON.stringify(out));
+}

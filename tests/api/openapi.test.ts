@@ -3,7 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import * as openapi from '@/app/api/v1/openapi.json/route';
 import { estimateRequestSchema } from '@/lib/validations/estimate';
-import { handoffSendSchema, reviewCreateSchema } from '@/lib/handoff/validation';
+import { handoffSendSchema } from '@/lib/validations/handoff';
+import { reviewCreateSchema } from '@/lib/validations/review';
 import { json, params, req } from '../helpers/api';
 
 describe('openapi.json', () => {
