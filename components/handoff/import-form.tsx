@@ -22,8 +22,8 @@ function ImportReport({ result }: { result: ImportResult }) {
       </FormMessage>
       <p className="text-sm text-ink-600">
         Bundle “{result.bundle.title}” by {result.bundle.author.name} ({result.bundle.author.email}), written{' '}
-        {new Date(result.bundle.createdAt).toUTCString()} with {result.bundle.softwareVersion}; {result.bundle.files}{' '}
-        files, every SHA-256 checked.
+        {new Date(result.bundle.createdAt).toUTCString()} with software {result.bundle.softwareVersion};{' '}
+        {result.bundle.files} files, every SHA-256 checked.
         {result.signOffsInSource.length
           ? ` Signed off at the sender’s by ${result.signOffsInSource.map((s) => s.by).join(', ')} (a sign-off does not carry over: review it here).`
           : ''}

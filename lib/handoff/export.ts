@@ -27,7 +27,7 @@ import { designFigures, pairAdvice } from '@/lib/designer/analysis';
 import { beamPatternSvg, separationChartSvg } from './charts';
 import { resolveStoragePath } from '@/lib/storage/files';
 import { storedResults } from './runs';
-import { SOFTWARE_VERSION } from './version';
+import { SOFTWARE_VERSION } from '@/lib/version';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 const parseJson = <T>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
@@ -106,7 +106,7 @@ export function summaryText({
   L.push(`STEERWISE HAND-OFF: ${arrayName}, revision ${revision}`);
   L.push('='.repeat(Math.min(78, L[0].length)));
   L.push(
-    `Revision saved ${createdAt} by ${author}. Bundle written ${new Date().toISOString()} by ${exportedBy} (${SOFTWARE_VERSION}).`,
+    `Revision saved ${createdAt} by ${author}. Bundle written ${new Date().toISOString()} by ${exportedBy} (Steerwise ${SOFTWARE_VERSION}).`,
   );
   L.push('');
   L.push('ARRAY');
