@@ -43,7 +43,13 @@ let csrf: Promise<string | undefined> | undefined;
  * Sends a write with the CSRF header that cookie-authenticated changes need:
  * a FormData body goes as multipart/form-data (file uploads), anything else as JSON.
  */
-export async function apiSend<T>(method: 'POST' | 'PATCH' | 'PUT' | 'DELETE', url: string, body?: unknown): Promise<T> {
+export async function apiSend<T>(
+  method: 'POST' | 'PATCH' | 'PUT' | 'DELETE',
+  url: string,
+  body?: unknown,
+  /** Extra request headers, e.g. `prefer: respond-async`. */
+  extraHeaders: Record<string, string> = {},
+): Promise<T> {
   csrf ??= getCsrfToken();
   const token = await csrf;
   const form = typeof FormData !== 'undefined' && body instanceof FormData;
@@ -53,6 +59,7 @@ export async function apiSend<T>(method: 'POST' | 'PATCH' | 'PUT' | 'DELETE', ur
       ...(form ? {} : { 'content-type': 'application/json' }),
       accept: 'application/json',
       ...(token ? { 'x-csrf-token': token } : {}),
+      ...extraHeaders,
     },
     body: body === undefined ? undefined : form ? (body as FormData) : JSON.stringify(body),
   });
