@@ -8,6 +8,7 @@ import { FieldError, FormMessage, inputClass } from '@/components/ui/field';
 import { apiSend, ClientApiError } from '@/lib/client/fetcher';
 import { applyServerFields, errorAt } from '@/lib/client/form-errors';
 import { cn } from '@/lib/client/cn';
+import { useHydrated } from '@/lib/client/use-hydrated';
 import type { ArrayChoice, DatasetDto } from '@/lib/data/datasets';
 import type { EstimateRunDto } from '@/lib/data/estimates';
 import { estimateRequestSchema, type EstimateRequest } from '@/lib/validations/estimate';
@@ -85,6 +86,7 @@ export function EstimateForm({
   initialDatasetId?: number;
 }) {
   const router = useRouter();
+  const hydrated = useHydrated();
   const resolver = useMemo<Resolver<EstimateFormValues, unknown, EstimateRequest>>(
     () => (values, context, options) =>
       schemaResolver(
@@ -161,165 +163,167 @@ export function EstimateForm({
       aria-label="New estimate"
       noValidate
     >
-      <div className="grid gap-4 md:grid-cols-2">
-        <div>
-          <label htmlFor="datasetId" className="block text-sm font-medium text-ink-800">
-            Dataset
-          </label>
-          <select id="datasetId" className={cn(inputClass, 'mt-1')} {...register('datasetId')}>
-            {datasets.length === 0 ? <option value="">No datasets yet</option> : null}
-            {datasets.map((d) => (
-              <option key={d.id} value={String(d.id)}>
-                {d.name} ({d.snapshots} × {d.elements}, {d.format.toUpperCase()})
-              </option>
-            ))}
-          </select>
-        </div>
-        <fieldset>
-          <legend className="block text-sm font-medium text-ink-800">Array geometry</legend>
-          <div className="mt-1 flex gap-4 text-sm">
-            <label className="flex items-center gap-1.5">
-              <input type="radio" value="array" {...register('geometry')} disabled={!arrays.length} /> A saved array
+      <fieldset disabled={!hydrated} className="contents">
+        <div className="grid gap-4 md:grid-cols-2">
+          <div>
+            <label htmlFor="datasetId" className="block text-sm font-medium text-ink-800">
+              Dataset
             </label>
-            <label className="flex items-center gap-1.5">
-              <input type="radio" value="inline" {...register('geometry')} /> Spacing only
-            </label>
-          </div>
-          {geometry === 'array' ? (
-            <select
-              aria-label="Array"
-              id="arrayId"
-              className={cn(inputClass, 'mt-2')}
-              {...register('arrayId')}
-              value={chosenArray ? keyOf(chosenArray) : ''}
-              aria-invalid={mismatch || arrayNote ? true : undefined}
-              aria-describedby="arrayId-note"
-            >
-              {matching.length === 0 ? <option value="">No array with {elements} elements</option> : null}
-              {(dataset ? matching : arrays).map((a) => (
-                <option key={keyOf(a)} value={keyOf(a)}>
-                  {a.name} r{a.revision} — {a.elements} elements, d = {Number(a.spacingWavelengths.toPrecision(4))} λ
-                  {a.disabledElements.length ? ' (has disabled elements)' : ''}
+            <select id="datasetId" className={cn(inputClass, 'mt-1')} {...register('datasetId')}>
+              {datasets.length === 0 ? <option value="">No datasets yet</option> : null}
+              {datasets.map((d) => (
+                <option key={d.id} value={String(d.id)}>
+                  {d.name} ({d.snapshots} × {d.elements}, {d.format.toUpperCase()})
                 </option>
               ))}
             </select>
-          ) : (
-            <div className="mt-2 flex items-center gap-2 text-sm">
-              <span className="tabular">M = {elements || '—'}</span>
-              <label htmlFor="spacing" className="ml-3">
-                d (wavelengths)
+          </div>
+          <fieldset>
+            <legend className="block text-sm font-medium text-ink-800">Array geometry</legend>
+            <div className="mt-1 flex gap-4 text-sm">
+              <label className="flex items-center gap-1.5">
+                <input type="radio" value="array" {...register('geometry')} disabled={!arrays.length} /> A saved array
+              </label>
+              <label className="flex items-center gap-1.5">
+                <input type="radio" value="inline" {...register('geometry')} /> Spacing only
+              </label>
+            </div>
+            {geometry === 'array' ? (
+              <select
+                aria-label="Array"
+                id="arrayId"
+                className={cn(inputClass, 'mt-2')}
+                {...register('arrayId')}
+                value={chosenArray ? keyOf(chosenArray) : ''}
+                aria-invalid={mismatch || arrayNote ? true : undefined}
+                aria-describedby="arrayId-note"
+              >
+                {matching.length === 0 ? <option value="">No array with {elements} elements</option> : null}
+                {(dataset ? matching : arrays).map((a) => (
+                  <option key={keyOf(a)} value={keyOf(a)}>
+                    {a.name} r{a.revision} — {a.elements} elements, d = {Number(a.spacingWavelengths.toPrecision(4))} λ
+                    {a.disabledElements.length ? ' (has disabled elements)' : ''}
+                  </option>
+                ))}
+              </select>
+            ) : (
+              <div className="mt-2 flex items-center gap-2 text-sm">
+                <span className="tabular">M = {elements || '—'}</span>
+                <label htmlFor="spacing" className="ml-3">
+                  d (wavelengths)
+                </label>
+                <input
+                  id="spacing"
+                  type="number"
+                  step="any"
+                  min="0"
+                  className={cn(inputClass, 'w-28')}
+                  {...register('array.spacingWavelengths')}
+                  aria-invalid={arrayNote ? true : undefined}
+                />
+              </div>
+            )}
+            <p
+              id="arrayId-note"
+              className={cn('mt-1 text-xs', mismatch || arrayNote ? 'text-coral-700' : 'text-ink-500')}
+            >
+              {arrayNote ??
+                (mismatch
+                  ? `The array has ${chosenArray!.elements} elements but the dataset has ${elements} columns.`
+                  : 'Only arrays whose element count equals the dataset’s columns are listed; each saved revision is a choice, and the run keeps the one you pick.')}
+            </p>
+          </fieldset>
+        </div>
+
+        <fieldset>
+          <legend className="text-sm font-medium text-ink-800">Methods</legend>
+          <div className="mt-1 flex flex-wrap gap-x-5 gap-y-2 text-sm">
+            {METHODS.map((m) => (
+              <label key={m} className="flex items-center gap-1.5">
+                <input type="checkbox" value={m} {...register('methods')} />
+                {METHOD_LABELS[m]}
+              </label>
+            ))}
+          </div>
+          <FieldError id="methods" error={fieldError('methods', 'method')} />
+        </fieldset>
+
+        <div className="grid gap-4 md:grid-cols-2">
+          <fieldset>
+            <legend className="text-sm font-medium text-ink-800">Source count</legend>
+            <div className="mt-1 flex flex-wrap items-center gap-4 text-sm">
+              <label className="flex items-center gap-1.5">
+                <input type="radio" value="mdl" {...register('sourceCountRule')} /> MDL (default)
+              </label>
+              <label className="flex items-center gap-1.5">
+                <input type="radio" value="aic" {...register('sourceCountRule')} /> AIC
+              </label>
+              <label className="flex items-center gap-1.5">
+                <input type="radio" value="given" {...register('sourceCountRule')} /> Known:
               </label>
               <input
-                id="spacing"
+                aria-label="Known source count"
                 type="number"
-                step="any"
-                min="0"
-                className={cn(inputClass, 'w-28')}
-                {...register('array.spacingWavelengths')}
-                aria-invalid={arrayNote ? true : undefined}
+                min={0}
+                className={cn(inputClass, 'w-20')}
+                {...register('sourceCount')}
+                disabled={countMode !== 'given'}
+                aria-invalid={fieldError('sourceCount') ? true : undefined}
+                aria-describedby={fieldError('sourceCount') ? 'sourceCount-error' : undefined}
               />
             </div>
-          )}
-          <p
-            id="arrayId-note"
-            className={cn('mt-1 text-xs', mismatch || arrayNote ? 'text-coral-700' : 'text-ink-500')}
-          >
-            {arrayNote ??
-              (mismatch
-                ? `The array has ${chosenArray!.elements} elements but the dataset has ${elements} columns.`
-                : 'Only arrays whose element count equals the dataset’s columns are listed; each saved revision is a choice, and the run keeps the one you pick.')}
-          </p>
-        </fieldset>
-      </div>
-
-      <fieldset>
-        <legend className="text-sm font-medium text-ink-800">Methods</legend>
-        <div className="mt-1 flex flex-wrap gap-x-5 gap-y-2 text-sm">
-          {METHODS.map((m) => (
-            <label key={m} className="flex items-center gap-1.5">
-              <input type="checkbox" value={m} {...register('methods')} />
-              {METHOD_LABELS[m]}
-            </label>
-          ))}
+            <FieldError id="sourceCount" error={fieldError('sourceCount', 'sourceCountRule')} />
+          </fieldset>
+          <fieldset>
+            <legend className="text-sm font-medium text-ink-800">Covariance</legend>
+            <div className="mt-1 grid gap-2 text-sm">
+              <label className="flex items-center gap-1.5">
+                <input type="checkbox" {...register('forwardBackward')} /> Forward–backward averaging
+              </label>
+              <label className="flex items-center gap-1.5">
+                Spatial smoothing subarray L
+                <input
+                  aria-label="Smoothing subarray"
+                  type="number"
+                  min={2}
+                  placeholder="none"
+                  className={cn(inputClass, 'w-24')}
+                  {...register('smoothingSubarray')}
+                  aria-invalid={fieldError('smoothingSubarray') ? true : undefined}
+                />
+                {elements ? (
+                  <span className="text-xs text-ink-500">
+                    (for coherent sources, about {Math.ceil((2 * elements) / 3)})
+                  </span>
+                ) : null}
+              </label>
+              <label className="flex items-center gap-1.5">
+                <input type="checkbox" {...register('singleSnapshot')} /> Single-snapshot arrangement, L =
+                <input
+                  aria-label="Single-snapshot subarray"
+                  type="number"
+                  min={2}
+                  placeholder={elements ? String(Math.floor(elements / 2) + 1) : ''}
+                  className={cn(inputClass, 'w-20')}
+                  {...register('singleSnapshotSubarray')}
+                  disabled={!single}
+                  aria-invalid={fieldError('singleSnapshotSubarray') ? true : undefined}
+                />
+              </label>
+              <FieldError
+                id="smoothingSubarray"
+                error={fieldError('smoothingSubarray', 'singleSnapshotSubarray', 'singleSnapshot', 'forwardBackward')}
+              />
+            </div>
+          </fieldset>
         </div>
-        <FieldError id="methods" error={fieldError('methods', 'method')} />
+        {message ? <FormMessage tone="error">{message}</FormMessage> : null}
+        <div>
+          <Button type="submit" disabled={busy || !dataset}>
+            {busy ? 'Starting…' : 'Estimate bearings'}
+          </Button>
+        </div>
       </fieldset>
-
-      <div className="grid gap-4 md:grid-cols-2">
-        <fieldset>
-          <legend className="text-sm font-medium text-ink-800">Source count</legend>
-          <div className="mt-1 flex flex-wrap items-center gap-4 text-sm">
-            <label className="flex items-center gap-1.5">
-              <input type="radio" value="mdl" {...register('sourceCountRule')} /> MDL (default)
-            </label>
-            <label className="flex items-center gap-1.5">
-              <input type="radio" value="aic" {...register('sourceCountRule')} /> AIC
-            </label>
-            <label className="flex items-center gap-1.5">
-              <input type="radio" value="given" {...register('sourceCountRule')} /> Known:
-            </label>
-            <input
-              aria-label="Known source count"
-              type="number"
-              min={0}
-              className={cn(inputClass, 'w-20')}
-              {...register('sourceCount')}
-              disabled={countMode !== 'given'}
-              aria-invalid={fieldError('sourceCount') ? true : undefined}
-              aria-describedby={fieldError('sourceCount') ? 'sourceCount-error' : undefined}
-            />
-          </div>
-          <FieldError id="sourceCount" error={fieldError('sourceCount', 'sourceCountRule')} />
-        </fieldset>
-        <fieldset>
-          <legend className="text-sm font-medium text-ink-800">Covariance</legend>
-          <div className="mt-1 grid gap-2 text-sm">
-            <label className="flex items-center gap-1.5">
-              <input type="checkbox" {...register('forwardBackward')} /> Forward–backward averaging
-            </label>
-            <label className="flex items-center gap-1.5">
-              Spatial smoothing subarray L
-              <input
-                aria-label="Smoothing subarray"
-                type="number"
-                min={2}
-                placeholder="none"
-                className={cn(inputClass, 'w-24')}
-                {...register('smoothingSubarray')}
-                aria-invalid={fieldError('smoothingSubarray') ? true : undefined}
-              />
-              {elements ? (
-                <span className="text-xs text-ink-500">
-                  (for coherent sources, about {Math.ceil((2 * elements) / 3)})
-                </span>
-              ) : null}
-            </label>
-            <label className="flex items-center gap-1.5">
-              <input type="checkbox" {...register('singleSnapshot')} /> Single-snapshot arrangement, L =
-              <input
-                aria-label="Single-snapshot subarray"
-                type="number"
-                min={2}
-                placeholder={elements ? String(Math.floor(elements / 2) + 1) : ''}
-                className={cn(inputClass, 'w-20')}
-                {...register('singleSnapshotSubarray')}
-                disabled={!single}
-                aria-invalid={fieldError('singleSnapshotSubarray') ? true : undefined}
-              />
-            </label>
-            <FieldError
-              id="smoothingSubarray"
-              error={fieldError('smoothingSubarray', 'singleSnapshotSubarray', 'singleSnapshot', 'forwardBackward')}
-            />
-          </div>
-        </fieldset>
-      </div>
-      {message ? <FormMessage tone="error">{message}</FormMessage> : null}
-      <div>
-        <Button type="submit" disabled={busy || !dataset}>
-          {busy ? 'Starting…' : 'Estimate bearings'}
-        </Button>
-      </div>
     </form>
   );
 }

@@ -7,6 +7,7 @@ import { Button } from '@/components/ui/button';
 import { apiSend, ClientApiError } from '@/lib/client/fetcher';
 import { applyServerFields, errorAt } from '@/lib/client/form-errors';
 import { cn } from '@/lib/client/cn';
+import { useHydrated } from '@/lib/client/use-hydrated';
 import type { ArrayChoice } from '@/lib/data/datasets';
 import type { StudyDto } from '@/lib/data/studies';
 import { studyRequestSchema, type StudyRequest } from '@/lib/validations/study';
@@ -91,6 +92,7 @@ const DEFAULTS: StudyFormValues = {
 /** Scenario, sweep, methods and trials; submits POST /api/v1/studies and opens the study. */
 export function StudyForm({ arrays }: { arrays: ArrayChoice[] }) {
   const router = useRouter();
+  const hydrated = useHydrated();
   const usable = arrays.filter((a) => a.disabledElements.length === 0);
   const form = useForm<StudyFormValues, unknown, StudyRequest>({ resolver, defaultValues: DEFAULTS });
   const { register, handleSubmit, setError, control, formState } = form;
@@ -126,189 +128,195 @@ export function StudyForm({ arrays }: { arrays: ArrayChoice[] }) {
     (Object.keys(errors).length ? 'Some values need attention: see the messages beside them.' : null);
   return (
     <form onSubmit={(e) => submit(e).catch(() => undefined)} className="grid gap-6 p-5" noValidate>
-      <Field
-        id="study-name"
-        label="Name"
-        {...register('name')}
-        placeholder="e.g. Harbour line: root-MUSIC vs SNR"
-        error={fieldError('name')}
-      />
-
-      <fieldset className="grid gap-4 sm:grid-cols-3">
-        <legend className="mb-2 text-sm font-semibold text-ink-800">Array</legend>
-        <div>
-          <label htmlFor="study-array" className="block text-sm font-medium text-ink-800">
-            Geometry
-          </label>
-          <select
-            id="study-array"
-            className={cn(inputClass, 'mt-1')}
-            {...register('arrayId')}
-            aria-describedby={fieldError('arrayId') ? 'study-array-error' : undefined}
-          >
-            <option value="inline">Elements and spacing (below)</option>
-            {usable.map((a) => (
-              <option key={a.id} value={String(a.id)}>
-                {a.name} r{a.revision} ({a.elements} × {a.spacingWavelengths.toPrecision(3)} λ)
-              </option>
-            ))}
-          </select>
-          {arraySource !== 'inline' && sweepsElements ? (
-            <p className="mt-1 text-xs text-ink-500">The sweep values set M; this array&apos;s spacing is kept.</p>
-          ) : null}
-          <FieldError id="study-array" error={fieldError('arrayId')} />
-        </div>
-        {arraySource === 'inline' ? (
-          <>
-            {sweepsElements ? (
-              <Field
-                id="study-elements"
-                label="Elements M"
-                value=""
-                placeholder="from the sweep"
-                disabled
-                readOnly
-                hint="Set by the sweep values below"
-                error={fieldError('array', 'array.elements')}
-              />
-            ) : (
-              <Field
-                id="study-elements"
-                label="Elements M"
-                inputMode="numeric"
-                {...register('array.elements')}
-                error={fieldError('array.elements', 'array')}
-              />
-            )}
-            <Field
-              id="study-spacing"
-              label="Spacing d (wavelengths)"
-              inputMode="decimal"
-              {...register('array.spacingWavelengths')}
-              error={fieldError('array.spacingWavelengths')}
-            />
-          </>
-        ) : null}
-      </fieldset>
-
-      <fieldset className="grid gap-4 sm:grid-cols-3">
-        <legend className="mb-2 text-sm font-semibold text-ink-800">Sources (noise power 1 per element)</legend>
+      <fieldset disabled={!hydrated} className="contents">
         <Field
-          id="study-bearings"
-          label="Bearings (degrees)"
-          {...register('sources.bearingsDeg')}
-          hint="Comma-separated, from broadside"
-          error={fieldError('sources.bearingsDeg', 'sources')}
+          id="study-name"
+          label="Name"
+          {...register('name')}
+          placeholder="e.g. Harbour line: root-MUSIC vs SNR"
+          error={fieldError('name')}
         />
-        <Field
-          id="study-powers"
-          label="Powers (dB, per-element SNR)"
-          {...register('sources.powersDb')}
-          hint="One per bearing"
-          error={fieldError('sources.powersDb')}
-        />
-        <Field
-          id="study-correlation"
-          label="Correlation ρ (0–1)"
-          inputMode="decimal"
-          {...register('sources.correlation')}
-          error={fieldError('sources.correlation')}
-        />
-      </fieldset>
 
-      <fieldset className="grid gap-4 sm:grid-cols-3">
-        <legend className="mb-2 text-sm font-semibold text-ink-800">Sweep</legend>
-        <div>
-          <label htmlFor="study-variable" className="block text-sm font-medium text-ink-800">
-            Swept variable
-          </label>
-          <select id="study-variable" className={cn(inputClass, 'mt-1')} {...register('sweep.variable')}>
-            {Object.entries(VARIABLE_LABELS).map(([k, v]) => (
-              <option key={k} value={k}>
-                {v.name}
-              </option>
-            ))}
-          </select>
-        </div>
-        <Field
-          id="study-values"
-          label={`Values (${unit})`}
-          {...register('sweep.values')}
-          hint={
-            variable === 'snr'
-              ? 'SNR of the first source; the others keep their offsets'
-              : 'Comma-separated whole numbers'
-          }
-          error={fieldError('sweep.values', 'sweep')}
-        />
-        {variable !== 'snapshots' ? (
-          <Field
-            id="study-snapshots"
-            label="Snapshots N"
-            inputMode="numeric"
-            {...register('snapshots')}
-            error={fieldError('snapshots')}
-          />
-        ) : (
-          <div />
-        )}
-      </fieldset>
-
-      <fieldset>
-        <legend className="mb-2 text-sm font-semibold text-ink-800">Methods</legend>
-        <div className="flex flex-wrap gap-x-5 gap-y-2">
-          {Object.entries(METHOD_LABELS).map(([k, label]) => (
-            <label key={k} className="flex items-center gap-2 text-sm">
-              <input type="checkbox" value={k} {...register('methods')} />
-              {label}
+        <fieldset className="grid gap-4 sm:grid-cols-3">
+          <legend className="mb-2 text-sm font-semibold text-ink-800">Array</legend>
+          <div>
+            <label htmlFor="study-array" className="block text-sm font-medium text-ink-800">
+              Geometry
             </label>
-          ))}
-        </div>
-        {fieldError('methods') ? (
-          <p className="mt-1 text-xs font-medium text-coral-600">{fieldError('methods')}</p>
-        ) : null}
-        <p className="mt-1 text-xs text-ink-500">
-          The source count is known to every method. MUSIC, Bartlett and MVDR search the 0.01° grid and cost the most.
-        </p>
-      </fieldset>
+            <select
+              id="study-array"
+              className={cn(inputClass, 'mt-1')}
+              {...register('arrayId')}
+              aria-describedby={fieldError('arrayId') ? 'study-array-error' : undefined}
+            >
+              <option value="inline">Elements and spacing (below)</option>
+              {usable.map((a) => (
+                <option key={a.id} value={String(a.id)}>
+                  {a.name} r{a.revision} ({a.elements} × {a.spacingWavelengths.toPrecision(3)} λ)
+                </option>
+              ))}
+            </select>
+            {arraySource !== 'inline' && sweepsElements ? (
+              <p className="mt-1 text-xs text-ink-500">The sweep values set M; this array&apos;s spacing is kept.</p>
+            ) : null}
+            <FieldError id="study-array" error={fieldError('arrayId')} />
+          </div>
+          {arraySource === 'inline' ? (
+            <>
+              {sweepsElements ? (
+                <Field
+                  id="study-elements"
+                  label="Elements M"
+                  value=""
+                  placeholder="from the sweep"
+                  disabled
+                  readOnly
+                  hint="Set by the sweep values below"
+                  error={fieldError('array', 'array.elements')}
+                />
+              ) : (
+                <Field
+                  id="study-elements"
+                  label="Elements M"
+                  inputMode="numeric"
+                  {...register('array.elements')}
+                  error={fieldError('array.elements', 'array')}
+                />
+              )}
+              <Field
+                id="study-spacing"
+                label="Spacing d (wavelengths)"
+                inputMode="decimal"
+                {...register('array.spacingWavelengths')}
+                error={fieldError('array.spacingWavelengths')}
+              />
+            </>
+          ) : null}
+        </fieldset>
 
-      <fieldset className="grid gap-4 sm:grid-cols-4">
-        <legend className="mb-2 text-sm font-semibold text-ink-800">Trials and covariance</legend>
-        <Field
-          id="study-trials"
-          label="Trials per point"
-          inputMode="numeric"
-          {...register('trials')}
-          error={fieldError('trials')}
-        />
-        <Field id="study-seed" label="Seed" inputMode="numeric" {...register('seed')} error={fieldError('seed')} />
-        <div>
-          <label htmlFor="study-smoothing" className="block text-sm font-medium text-ink-800">
-            Spatial smoothing
+        <fieldset className="grid gap-4 sm:grid-cols-3">
+          <legend className="mb-2 text-sm font-semibold text-ink-800">Sources (noise power 1 per element)</legend>
+          <Field
+            id="study-bearings"
+            label="Bearings (degrees)"
+            {...register('sources.bearingsDeg')}
+            hint="Comma-separated, from broadside"
+            error={fieldError('sources.bearingsDeg', 'sources')}
+          />
+          <Field
+            id="study-powers"
+            label="Powers (dB, per-element SNR)"
+            {...register('sources.powersDb')}
+            hint="One per bearing"
+            error={fieldError('sources.powersDb')}
+          />
+          <Field
+            id="study-correlation"
+            label="Correlation ρ (0–1)"
+            inputMode="decimal"
+            {...register('sources.correlation')}
+            error={fieldError('sources.correlation')}
+          />
+        </fieldset>
+
+        <fieldset className="grid gap-4 sm:grid-cols-3">
+          <legend className="mb-2 text-sm font-semibold text-ink-800">Sweep</legend>
+          <div>
+            <label htmlFor="study-variable" className="block text-sm font-medium text-ink-800">
+              Swept variable
+            </label>
+            <select id="study-variable" className={cn(inputClass, 'mt-1')} {...register('sweep.variable')}>
+              {Object.entries(VARIABLE_LABELS).map(([k, v]) => (
+                <option key={k} value={k}>
+                  {v.name}
+                </option>
+              ))}
+            </select>
+          </div>
+          <Field
+            id="study-values"
+            label={`Values (${unit})`}
+            {...register('sweep.values')}
+            hint={
+              variable === 'snr'
+                ? 'SNR of the first source; the others keep their offsets'
+                : 'Comma-separated whole numbers'
+            }
+            error={fieldError('sweep.values', 'sweep')}
+          />
+          {variable !== 'snapshots' ? (
+            <Field
+              id="study-snapshots"
+              label="Snapshots N"
+              inputMode="numeric"
+              {...register('snapshots')}
+              error={fieldError('snapshots')}
+            />
+          ) : (
+            <div />
+          )}
+        </fieldset>
+
+        <fieldset>
+          <legend className="mb-2 text-sm font-semibold text-ink-800">Methods</legend>
+          <div className="flex flex-wrap gap-x-5 gap-y-2">
+            {Object.entries(METHOD_LABELS).map(([k, label]) => (
+              <label key={k} className="flex items-center gap-2 text-sm">
+                <input type="checkbox" value={k} {...register('methods')} />
+                {label}
+              </label>
+            ))}
+          </div>
+          {fieldError('methods') ? (
+            <p className="mt-1 text-xs font-medium text-coral-600">{fieldError('methods')}</p>
+          ) : null}
+          <p className="mt-1 text-xs text-ink-500">
+            The source count is known to every method. MUSIC, Bartlett and MVDR search the 0.01° grid and cost the most.
+          </p>
+        </fieldset>
+
+        <fieldset className="grid gap-4 sm:grid-cols-4">
+          <legend className="mb-2 text-sm font-semibold text-ink-800">Trials and covariance</legend>
+          <Field
+            id="study-trials"
+            label="Trials per point"
+            inputMode="numeric"
+            {...register('trials')}
+            error={fieldError('trials')}
+          />
+          <Field id="study-seed" label="Seed" inputMode="numeric" {...register('seed')} error={fieldError('seed')} />
+          <div>
+            <label htmlFor="study-smoothing" className="block text-sm font-medium text-ink-800">
+              Spatial smoothing
+            </label>
+            <select id="study-smoothing" className={cn(inputClass, 'mt-1')} {...register('smoothingMode')}>
+              <option value="none">None</option>
+              <option value="auto">Auto (≈ 2M/3)</option>
+              <option value="size">Subarray size…</option>
+            </select>
+            {smoothingMode === 'size' ? (
+              <input
+                aria-label="Smoothing subarray size"
+                className={cn(inputClass, 'mt-2')}
+                {...register('smoothing')}
+              />
+            ) : null}
+            {fieldError('smoothing') ? (
+              <p className="mt-1 text-xs font-medium text-coral-600">{fieldError('smoothing')}</p>
+            ) : null}
+          </div>
+          <label className="flex items-center gap-2 self-end pb-2 text-sm">
+            <input type="checkbox" {...register('forwardBackward')} /> Forward–backward averaging
           </label>
-          <select id="study-smoothing" className={cn(inputClass, 'mt-1')} {...register('smoothingMode')}>
-            <option value="none">None</option>
-            <option value="auto">Auto (≈ 2M/3)</option>
-            <option value="size">Subarray size…</option>
-          </select>
-          {smoothingMode === 'size' ? (
-            <input aria-label="Smoothing subarray size" className={cn(inputClass, 'mt-2')} {...register('smoothing')} />
-          ) : null}
-          {fieldError('smoothing') ? (
-            <p className="mt-1 text-xs font-medium text-coral-600">{fieldError('smoothing')}</p>
-          ) : null}
-        </div>
-        <label className="flex items-center gap-2 self-end pb-2 text-sm">
-          <input type="checkbox" {...register('forwardBackward')} /> Forward–backward averaging
-        </label>
-      </fieldset>
+        </fieldset>
 
-      {message ? <FormMessage tone="error">{message}</FormMessage> : null}
-      <div>
-        <Button type="submit" disabled={busy}>
-          {busy ? 'Starting…' : 'Start study'}
-        </Button>
-      </div>
+        {message ? <FormMessage tone="error">{message}</FormMessage> : null}
+        <div>
+          <Button type="submit" disabled={busy}>
+            {busy ? 'Starting…' : 'Start study'}
+          </Button>
+        </div>
+      </fieldset>
     </form>
   );
 }
