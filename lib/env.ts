@@ -56,3 +56,19 @@ export function mailFrom(): string {
 export function maxJsonBytes(): number {
   return Number(process.env.STEERWISE_MAX_JSON_BYTES || 1_000_000);
 }
+
+export const DEFAULT_MAX_UPLOAD_BYTES = 200 * 1024 * 1024;
+
+/** Largest dataset upload (STEERWISE_MAX_UPLOAD_BYTES, default 200 MiB); larger is 413. */
+export function maxUploadBytes(): number {
+  const raw = Number(process.env.STEERWISE_MAX_UPLOAD_BYTES);
+  return Number.isFinite(raw) && raw > 0 ? Math.floor(raw) : DEFAULT_MAX_UPLOAD_BYTES;
+}
+
+export const DEFAULT_MAX_BUNDLE_BYTES = 256 * 1024 * 1024;
+
+/** Largest bundle upload (STEERWISE_MAX_BUNDLE_BYTES, default 256 MiB); larger is 413. */
+export function maxBundleBytes(): number {
+  const raw = Number(process.env.STEERWISE_MAX_BUNDLE_BYTES);
+  return Number.isFinite(raw) && raw > 0 ? Math.floor(raw) : DEFAULT_MAX_BUNDLE_BYTES;
+}

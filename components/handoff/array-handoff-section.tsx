@@ -1,17 +1,14 @@
-import { Op } from 'sequelize';
-import { ArrayDesign, ArrayRevision, Dataset, EstimateRun } from '@/models';
 import type { Caller } from '@/lib/auth';
 import { can } from '@/lib/auth/permissions';
+import { getArrayHandoffPanel } from '@/lib/data/bundles';
 import { listReviews } from '@/lib/data/reviews';
-import { mayExportDatasets } from '@/lib/handoff/export';
-import { storedResults } from '@/lib/handoff/runs';
 import { ReviewPanel } from '@/components/review/review-panel';
-import { ExportPanel, type RunChoice } from './export-panel';
+import { ExportPanel } from './export-panel';
 
 /**
  * Review, sign-off, export and e-mail hand-off of one array revision: the
  * panels the array page shows under the designer. Server component; reads
- * within the caller's team.
+ * within the caller's team through lib/data.
  */
 export async function ArrayHandoffSection({
   caller,
@@ -22,43 +19,18 @@ export async function ArrayHandoffSection({
   arrayId: number;
   revision: number;
 }) {
-  const array = await ArrayDesign.findOne({ where: { id: arrayId, teamId: caller.teamId } });
-  const rev = array ? await ArrayRevision.findOne({ where: { arrayId, revision } }) : null;
-  if (!array || !rev)
+  const panel = await getArrayHandoffPanel({ caller, arrayId, revision });
+  if (!panel)
     return (
       <p className="text-sm text-coral-700">
         No array {arrayId} with revision {revision} in your team.
       </p>
     );
-  const runs = await EstimateRun.findAll({
-    where: { teamId: caller.teamId, arrayRevisionId: rev.id, status: 'done' },
-    order: [['id', 'DESC']],
-    limit: 20,
-  });
-  const datasets = await Dataset.findAll({
-    where: { id: { [Op.in]: runs.map((r) => r.datasetId as number).filter(Boolean) }, teamId: caller.teamId },
-    attributes: ['id', 'name'],
-  });
-  const choices: RunChoice[] = runs.map((r) => {
-    let methods = '';
-    try {
-      methods = storedResults(r.result)
-        .map((m) => m.method)
-        .join(', ');
-    } catch {
-      methods = 'result not readable';
-    }
-    return {
-      id: r.id,
-      label: `Run ${r.id} (${methods})`,
-      datasetName: datasets.find((d) => d.id === r.datasetId)?.name ?? null,
-    };
-  });
   const thread = await listReviews({ caller, arrayId, revision });
   return (
     <div className="mt-8 grid gap-6 lg:grid-cols-2" id="handoff">
       <h2 className="text-lg font-semibold lg:col-span-2">
-        {array.name}, revision {revision}
+        {panel.arrayName}, revision {revision}
       </h2>
       <ReviewPanel
         initial={thread}
@@ -70,9 +42,9 @@ export async function ArrayHandoffSection({
       <ExportPanel
         arrayId={arrayId}
         revision={revision}
-        runs={choices}
+        runs={panel.runs}
         canSend={can(caller.role, 'arrays.edit')}
-        datasetsAllowed={await mayExportDatasets(caller)}
+        datasetsAllowed={panel.datasetsAllowed}
       />
     </div>
   );

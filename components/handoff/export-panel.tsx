@@ -4,9 +4,8 @@ import { buttonClass, Button } from '@/components/ui/button';
 import { Card, CardHeader } from '@/components/ui/card';
 import { Field, FormMessage, inputClass } from '@/components/ui/field';
 import { cn } from '@/lib/client/cn';
-import { sendWithCsrf } from './csrf-fetch';
-
-export type RunChoice = { id: number; label: string; datasetName: string | null };
+import { apiSend } from '@/lib/client/fetcher';
+import type { HandoffRunChoice } from '@/lib/data/bundles';
 
 /** Export (download) and e-mail hand-off of one array revision, with the runs to include. */
 export function ExportPanel({
@@ -18,7 +17,7 @@ export function ExportPanel({
 }: {
   arrayId: number;
   revision: number;
-  runs: RunChoice[];
+  runs: HandoffRunChoice[];
   canSend: boolean;
   datasetsAllowed: boolean;
 }) {
@@ -40,10 +39,17 @@ export function ExportPanel({
     setStatus(null);
     setFieldError(undefined);
     try {
-      const out = await sendWithCsrf<{ recipientEmail: string; expiresAt: string; invited: boolean }>('/api/handoff', {
-        method: 'POST',
-        json: { arrayId, revision, recipientEmail: recipient, note: note || undefined, runs: chosen },
-      });
+      const out = await apiSend<{ recipientEmail: string; expiresAt: string; invited: boolean }>(
+        'POST',
+        '/api/handoff',
+        {
+          arrayId,
+          revision,
+          recipientEmail: recipient,
+          note: note || undefined,
+          runs: chosen,
+        },
+      );
       setStatus({
         tone: 'ok',
         text: `Sent to ${out.recipientEmail}. The link works until ${new Date(out.expiresAt).toUTCString()}.${out.invited ? ' They have no account yet, so they were also invited to your team as viewer.' : ''}`,

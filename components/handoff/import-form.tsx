@@ -5,8 +5,8 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { Card, CardHeader } from '@/components/ui/card';
 import { FormMessage } from '@/components/ui/field';
-import type { ImportResult } from '@/lib/handoff/import';
-import { sendWithCsrf } from './csrf-fetch';
+import type { ImportResult } from '@/lib/data/bundles';
+import { apiSend } from '@/lib/client/fetcher';
 
 const deg = (v: number) => `${v.toFixed(6)}°`;
 
@@ -22,8 +22,8 @@ function ImportReport({ result }: { result: ImportResult }) {
       </FormMessage>
       <p className="text-sm text-ink-600">
         Bundle “{result.bundle.title}” by {result.bundle.author.name} ({result.bundle.author.email}), written{' '}
-        {new Date(result.bundle.createdAt).toUTCString()} with {result.bundle.softwareVersion}; {result.bundle.files}{' '}
-        files, every SHA-256 checked.
+        {new Date(result.bundle.createdAt).toUTCString()} with software {result.bundle.softwareVersion};{' '}
+        {result.bundle.files} files, every SHA-256 checked.
         {result.signOffsInSource.length
           ? ` Signed off at the sender’s by ${result.signOffsInSource.map((s) => s.by).join(', ')} (a sign-off does not carry over: review it here).`
           : ''}
@@ -88,7 +88,7 @@ export function ImportForm({ linkToken }: { linkToken?: string }) {
   async function importBlob(blob: Blob, name: string) {
     const form = new FormData();
     form.append('file', blob, name);
-    setResult(await sendWithCsrf<ImportResult>('/api/v1/bundles', { method: 'POST', form }));
+    setResult(await apiSend<ImportResult>('POST', '/api/v1/bundles', form));
   }
 
   async function run(action: () => Promise<void>) {

@@ -6,7 +6,7 @@ import { Card, CardHeader } from '@/components/ui/card';
 import { FormMessage, inputClass } from '@/components/ui/field';
 import { cn } from '@/lib/client/cn';
 import type { ReviewThreadDto } from '@/lib/data/reviews';
-import { sendWithCsrf } from '@/components/handoff/csrf-fetch';
+import { apiSend } from '@/lib/client/fetcher';
 
 const when = (iso: string) =>
   new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' }) + ' UTC';
@@ -70,10 +70,7 @@ export function ReviewPanel({
     setBusy(true);
     setError(null);
     try {
-      const next = await sendWithCsrf<ReviewThreadDto>('/api/v1/reviews', {
-        method: 'POST',
-        json: { ...target, kind, body },
-      });
+      const next = await apiSend<ReviewThreadDto>('POST', '/api/v1/reviews', { ...target, kind, body });
       setThread(next);
       setBody('');
     } catch (err) {

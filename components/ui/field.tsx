@@ -11,7 +11,7 @@ export function Field({
   hint,
   className,
   ...input
-}: React.InputHTMLAttributes<HTMLInputElement> & { id: string; label: string; error?: string; hint?: string }) {
+}: React.ComponentProps<'input'> & { id: string; label: string; error?: string; hint?: string }) {
   const describedBy = [error ? `${id}-error` : null, hint ? `${id}-hint` : null].filter(Boolean).join(' ') || undefined;
   return (
     <div className={className}>

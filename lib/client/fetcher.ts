@@ -39,18 +39,29 @@ export async function fetcher<T>(url: string): Promise<T> {
 
 let csrf: Promise<string | undefined> | undefined;
 
-/** Sends a write with the CSRF header that cookie-authenticated changes need. */
-export async function apiSend<T>(method: 'POST' | 'PATCH' | 'PUT' | 'DELETE', url: string, body?: unknown): Promise<T> {
+/**
+ * Sends a write with the CSRF header that cookie-authenticated changes need:
+ * a FormData body goes as multipart/form-data (file uploads), anything else as JSON.
+ */
+export async function apiSend<T>(
+  method: 'POST' | 'PATCH' | 'PUT' | 'DELETE',
+  url: string,
+  body?: unknown,
+  /** Extra request headers, e.g. `prefer: respond-async`. */
+  extraHeaders: Record<string, string> = {},
+): Promise<T> {
   csrf ??= getCsrfToken();
   const token = await csrf;
+  const form = typeof FormData !== 'undefined' && body instanceof FormData;
   const res = await fetch(url, {
     method,
     headers: {
-      'content-type': 'application/json',
+      ...(form ? {} : { 'content-type': 'application/json' }),
       accept: 'application/json',
       ...(token ? { 'x-csrf-token': token } : {}),
+      ...extraHeaders,
     },
-    body: body === undefined ? undefined : JSON.stringify(body),
+    body: body === undefined ? undefined : form ? (body as FormData) : JSON.stringify(body),
   });
   if (res.status === 403) csrf = undefined; // a stale token is fetched afresh next time
   if (!res.ok) throw await toError(res);

@@ -9,11 +9,12 @@ import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { DatasetError, detectFormat, parseSnapshotFile, type ParsedSnapshots, type ParseOptions, type SnapshotFormat } from '../datasets';
 import { summarise, type DatasetSummary } from '../storage/summary';
-import { datasetsDir, maxUploadBytes, removeQuietly, resolveStoragePath, type ReceivedUpload } from '../storage/uploads';
+import { datasetsDir, removeQuietly, resolveStoragePath } from '../storage/files';
+import { formatBytes, receiveFile, type ReceivedFile } from '../http/multipart';
 import { datasetUploadFieldsSchema } from '../validations/dataset';
 
 export { summarise, type DatasetSummary };
-import { dataDir } from '../env';
+import { dataDir, maxUploadBytes } from '../env';
 
 export interface DatasetDto {
   id: number;
@@ -96,11 +97,24 @@ function parseOptionsOf(fields: ReturnType<typeof datasetUploadFieldsSchema.pars
 }
 
 /**
+ * Reads the dataset upload of POST /api/v1/datasets (multipart `file` plus the
+ * optional fields of datasetUploadFieldsSchema) into a temp file, under
+ * STEERWISE_MAX_UPLOAD_BYTES. The caller removes the temp file in `finally`.
+ */
+export function receiveDatasetUpload(req: Request): Promise<ReceivedFile> {
+  return receiveFile(req, {
+    noun: 'dataset',
+    maxBytes: maxUploadBytes(),
+    tooLarge: (max) => new ApiError('too_large', `The file is larger than the upload limit of ${formatBytes(max)} (${max} bytes).`),
+  });
+}
+
+/**
  * Parses a received upload and stores it: the temp file is renamed into
  * datasets/<team>/ and the row inserted in one transaction. On any failure
  * neither the row nor a file remains (the caller deletes the temp file).
  */
-export async function createDataset({ caller, upload }: { caller: Caller; upload: ReceivedUpload }): Promise<DatasetDto> {
+export async function createDataset({ caller, upload }: { caller: Caller; upload: ReceivedFile }): Promise<DatasetDto> {
   assertPermission(caller, 'datasets.upload');
   const fields = datasetUploadFieldsSchema.parse(upload.fields);
   const format = detectFormat(upload.originalName);

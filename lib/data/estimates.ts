@@ -1,6 +1,5 @@
 import 'server-only';
 import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, User } from '@/models';
-import packageJson from '@/package.json';
 import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
@@ -9,11 +8,11 @@ import { DatasetError, sha256File } from '../datasets';
 import { bounds, defaultSingleSnapshotSubarray, DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
 import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
 import { runMethod, usedCovariance, v1Fields, type MethodResult, type RunOptions } from '../jobs/estimate-run';
-import { resolveStoragePath } from '../storage/uploads';
+import { resolveStoragePath } from '../storage/files';
+import { compareRuns, type RerunComparison } from '../runs/compare';
+import { SOFTWARE_VERSION } from '../version';
 import type { EstimateRequest } from '../validations/estimate';
 import { datasetErrorToApi, findTeamArrayRevision, loadDatasetSnapshots } from './datasets';
-
-export const SOFTWARE_VERSION: string = packageJson.version;
 
 /** The geometry a run used, stored with it. */
 export interface RunArray {
@@ -358,14 +357,6 @@ export async function listEstimateRuns({ caller, limit = 50 }: { caller: Caller;
   });
 }
 
-export interface RerunComparison {
-  method: DoaMethod;
-  storedBearingsDeg: number[];
-  newBearingsDeg: number[];
-  maxAbsDifferenceDeg: number | null;
-  identical: boolean;
-}
-
 /**
  * Runs a stored run again with its exact inputs: the same array revision
  * (not the array's latest), the same dataset file (its SHA-256 is checked
@@ -389,19 +380,6 @@ export async function rerunEstimate({ caller, id, wait }: { caller: Caller; id: 
   const run = await submitEstimate({ caller, input: request, wait, pinnedRevisionId: inputs.array.arrayRevisionId, rerunOf: id });
   const comparison = run.status === 'done' && old.status === 'done' ? compareRuns(old.results, run.results) : null;
   return { run, rerunOf: id, comparison, softwareVersionThen: old.softwareVersion };
-}
-
-export function compareRuns(before: MethodResult[], after: MethodResult[]): RerunComparison[] {
-  return after.map((r) => {
-    const prev = before.find((b) => b.method === r.method);
-    const stored = prev?.bearingsDeg ?? [];
-    let max: number | null = null;
-    if (stored.length === r.bearingsDeg.length) {
-      max = 0;
-      for (let i = 0; i < stored.length; i++) max = Math.max(max, Math.abs(stored[i] - r.bearingsDeg[i]));
-    }
-    return { method: r.method, storedBearingsDeg: stored, newBearingsDeg: r.bearingsDeg, maxAbsDifferenceDeg: max, identical: max === 0 };
-  });
 }
 
 /** POST /api/v1/bounds: lib/doa bounds() with engine errors as 422. */

@@ -23,7 +23,7 @@ import { sendMail } from '../mail/send';
 import { randomSecret, sha256Hex } from '../auth/secrets';
 import { buildArrayBundle } from '../handoff/export';
 import { createSignedToken, verifySignedToken, SignedLinkError } from '../handoff/signed-link';
-import type { HandoffSendInput } from '../handoff/validation';
+import type { HandoffSendInput } from '../validations/handoff';
 import { INVITE_TTL_MS } from './links';
 
 export const HANDOFF_PURPOSE = 'handoff';

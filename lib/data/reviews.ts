@@ -16,7 +16,7 @@ import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { appUrl } from '../env';
 import { sendMail } from '../mail/send';
-import type { ReviewCreateInput } from '../handoff/validation';
+import type { ReviewCreateInput } from '../validations/review';
 
 export type ReviewDto = { id: number; kind: ReviewKind; body: string; author: { id: number; name: string; role: string } | null; createdAt: string };
 export type SignOffDto = { by: string; role: string; at: string; note: string };

@@ -1,6 +1,5 @@
 import 'server-only';
 import { Study, User } from '@/models';
-import packageJson from '@/package.json';
 import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
@@ -9,14 +8,13 @@ import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
 import { StudyAbortedError, StudyBudgetError, StudyInputError, runStudy, validateStudySpec, type StudyResult, type StudySpec } from '../studies/monte-carlo';
 import type { StudyRequest } from '../validations/study';
 import { findTeamArrayRevision } from './datasets';
+import { SOFTWARE_VERSION } from '../version';
 
 /**
  * Studies: stored, queued Monte Carlo runs of lib/studies/monte-carlo.ts.
  * Creating or deleting one needs `studies.run` (engineers, admins); reading needs
  * `arrays.read` (every role). Everything is scoped by the caller's team.
  */
-export const SOFTWARE_VERSION: string = packageJson.version;
-
 export interface StudyInputs {
   request: StudyRequest;
   spec: StudySpec;

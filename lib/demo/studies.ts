@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize';
 import { Study } from '@/models';
-import packageJson from '@/package.json';
+import { SOFTWARE_VERSION } from '../version';
 import { runStudy, type StudySpec } from '../studies/monte-carlo';
 
 /**
@@ -59,7 +59,7 @@ export async function seedDemoStudy({
       } as unknown as Record<string, unknown>,
       result: result as unknown as Record<string, unknown>,
       error: null,
-      softwareVersion: packageJson.version,
+      softwareVersion: SOFTWARE_VERSION,
       createdById,
     },
     { transaction },

@@ -7,79 +7,27 @@ import 'server-only';
  * + results), each listed with its SHA-256 in manifest.json (lib/bundle).
  */
 import fs from 'node:fs';
-import { Op } from 'sequelize';
-import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, Review, Team, User } from '@/models';
-import { ApiError } from '@/lib/http';
-import { assertPermission, type Caller } from '@/lib/auth';
+import type { Caller } from '@/lib/auth';
 import { recordAudit } from '@/lib/data/record-audit';
-import { getDb } from '@/lib/db';
+import { loadArrayBundleSources, type BundleSelection } from '@/lib/data/bundles';
 import { writeBundle, sha256Hex, type BundleFileInput, type BundleManifest } from '@/lib/bundle/bundle';
+import {
+  BEAM_CHART_PATH,
+  CALIBRATION_PATH,
+  REVISION_PATH,
+  SEPARATION_CHART_PATH,
+  SUMMARY_PATH,
+  type BundleDatasetJson,
+  type BundleRevisionJson,
+  type BundleRunJson,
+} from '@/lib/bundle/contents';
 import { arrayInputSchema, type ArrayInput } from '@/lib/validations/array';
 import { normalizeDraft, type DesignerDraft } from '@/lib/designer/state';
 import { designFigures, pairAdvice } from '@/lib/designer/analysis';
 import { beamPatternSvg, separationChartSvg } from './charts';
-import { resolveDataPath } from './storage';
+import { resolveStoragePath } from '@/lib/storage/files';
 import { storedResults } from './runs';
-import { SOFTWARE_VERSION } from './version';
-
-export const REVISION_PATH = 'array/revision.json';
-export const CALIBRATION_PATH = 'array/calibration.csv';
-export const BEAM_CHART_PATH = 'charts/beam-pattern.svg';
-export const SEPARATION_CHART_PATH = 'charts/separation-vs-aperture.svg';
-export const SUMMARY_PATH = 'summary.txt';
-
-export interface BundleSelection {
-  /** Revision number; default the latest. */
-  revision?: number;
-  datasetIds?: number[];
-  runIds?: number[];
-}
-
-/** array/revision.json */
-export interface BundleRevisionJson {
-  format: 'steerwise-array-revision';
-  name: string;
-  revision: number;
-  createdAt: string;
-  author: { name: string; email: string } | null;
-  elements: number;
-  spacingWavelengths: number;
-  frequencyHz: number | null;
-  propagationSpeedMps: number | null;
-  /** The validated array input (lib/validations/array.ts), exactly as stored. */
-  config: Record<string, unknown>;
-  signOffs: { by: string; at: string; note: string }[];
-}
-
-/** datasets/<id>/dataset.json */
-export interface BundleDatasetJson {
-  format: 'steerwise-dataset';
-  originalId: number;
-  name: string;
-  fileFormat: string;
-  elements: number;
-  snapshots: number;
-  sha256: string;
-  bytes: number;
-  originalName: string;
-  options: Record<string, unknown> | null;
-  createdAt: string;
-  /** Path of the data file inside the bundle. */
-  file: string;
-}
-
-/** runs/<id>.json */
-export interface BundleRunJson {
-  format: 'steerwise-estimate-run';
-  originalId: number;
-  createdAt: string;
-  softwareVersion: string;
-  datasetSha256: string | null;
-  /** Folder of the run's dataset inside the bundle (datasets/<id>), or null when the data is not included. */
-  dataset: string | null;
-  inputs: Record<string, unknown>;
-  result: Record<string, unknown>;
-}
+import { SOFTWARE_VERSION } from '@/lib/version';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 const parseJson = <T>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
@@ -93,13 +41,6 @@ export function slug(text: string, fallback = 'array'): string {
     .replace(/^-+|-+$/g, '')
     .slice(0, 60);
   return s || fallback;
-}
-
-/** Whether this caller may put dataset files into a bundle (viewers only when the team allows it). */
-export async function mayExportDatasets(caller: Caller): Promise<boolean> {
-  if (caller.role !== 'viewer') return true;
-  const team = await Team.findByPk(caller.teamId);
-  return Boolean(team?.settings.allowViewerDatasetExport);
 }
 
 /** Per-element state as CSV: position along the axis, enabled, gain and phase calibration. */
@@ -165,7 +106,7 @@ export function summaryText({
   L.push(`STEERWISE HAND-OFF: ${arrayName}, revision ${revision}`);
   L.push('='.repeat(Math.min(78, L[0].length)));
   L.push(
-    `Revision saved ${createdAt} by ${author}. Bundle written ${new Date().toISOString()} by ${exportedBy} (${SOFTWARE_VERSION}).`,
+    `Revision saved ${createdAt} by ${author}. Bundle written ${new Date().toISOString()} by ${exportedBy} (Steerwise ${SOFTWARE_VERSION}).`,
   );
   L.push('');
   L.push('ARRAY');
@@ -287,19 +228,11 @@ export async function buildArrayBundle({
   selection?: BundleSelection;
   audit?: boolean;
 }): Promise<{ zip: Uint8Array; fileName: string; manifest: BundleManifest; revision: number; sha256: string }> {
-  assertPermission(caller, 'arrays.read');
-  await getDb();
-  const array = await ArrayDesign.findOne({ where: { id: arrayId, teamId: caller.teamId } });
-  if (!array) throw new ApiError('not_found', `No array with id ${arrayId} in your team.`);
-  const revisionNumber = selection.revision ?? array.latestRevision;
-  const rev = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: revisionNumber } });
-  if (!rev)
-    throw new ApiError(
-      'not_found',
-      `Array "${array.name}" has no revision ${revisionNumber} (latest is ${array.latestRevision}).`,
-      { fields: { revision: [`no revision ${revisionNumber}`] } },
-    );
-
+  const { array, rev, runs, datasets, author, signOffs, datasetsAllowed } = await loadArrayBundleSources({
+    caller,
+    arrayId,
+    selection,
+  });
   const config = parseJson<Record<string, unknown>>(rev.config);
   const parsedConfig = arrayInputSchema.safeParse(config);
   if (!parsedConfig.success)
@@ -309,71 +242,6 @@ export async function buildArrayBundle({
   const input: ArrayInput = parsedConfig.data;
   const draft = normalizeDraft(input);
   const fig = designFigures(draft);
-
-  const datasetIds = [...new Set(selection.datasetIds ?? [])];
-  const runIds = [...new Set(selection.runIds ?? [])];
-  const datasetsAllowed = await mayExportDatasets(caller);
-  if (datasetIds.length && !datasetsAllowed) {
-    throw new ApiError(
-      'forbidden',
-      'Your role (viewer) cannot export dataset files in this team: an admin can allow it in the team settings. Export without datasets instead.',
-    );
-  }
-
-  const runs = runIds.length
-    ? await EstimateRun.findAll({ where: { id: { [Op.in]: runIds }, teamId: caller.teamId } })
-    : [];
-  for (const id of runIds)
-    if (!runs.some((r) => r.id === id))
-      throw new ApiError('not_found', `No estimate run with id ${id} in your team.`, {
-        fields: { runs: [`no run ${id}`] },
-      });
-  for (const r of runs) {
-    if (r.status !== 'done')
-      throw new ApiError(
-        'validation_failed',
-        `Estimate run ${r.id} is ${r.status}; only finished runs go into a bundle.`,
-        { fields: { runs: [`run ${r.id} is ${r.status}`] } },
-      );
-    if (r.arrayRevisionId !== rev.id) {
-      const used = r.arrayRevisionId ? await ArrayRevision.findByPk(r.arrayRevisionId as number) : null;
-      const what = used
-        ? used.arrayId === array.id
-          ? `revision ${used.revision} of this array`
-          : 'another array'
-        : 'an inline array';
-      throw new ApiError(
-        'validation_failed',
-        `Estimate run ${r.id} used ${what}, not revision ${rev.revision}; export the revision it used.`,
-        { fields: { runs: [`run ${r.id} used ${what}`] } },
-      );
-    }
-  }
-  // Runs bring their datasets along when the caller may export data.
-  const wanted = new Set(datasetIds);
-  if (datasetsAllowed) for (const r of runs) if (r.datasetId) wanted.add(r.datasetId as number);
-  const datasets = wanted.size
-    ? await Dataset.findAll({ where: { id: { [Op.in]: [...wanted] }, teamId: caller.teamId }, order: [['id', 'ASC']] })
-    : [];
-  for (const id of datasetIds)
-    if (!datasets.some((d) => d.id === id))
-      throw new ApiError('not_found', `No dataset with id ${id} in your team.`, {
-        fields: { datasets: [`no dataset ${id}`] },
-      });
-
-  const author = rev.authorId ? await User.findByPk(rev.authorId as number) : null;
-  const approvals = await Review.findAll({
-    where: { teamId: caller.teamId, arrayRevisionId: rev.id, kind: 'approval' },
-    order: [['createdAt', 'ASC']],
-  });
-  const approvers = await User.findAll({
-    where: { id: { [Op.in]: approvals.map((a) => a.authorId as number).filter(Boolean) } },
-  });
-  const signOffs = approvals.map((a) => ({
-    by: approvers.find((u) => u.id === a.authorId)?.name ?? 'a former member',
-    at: iso(a.createdAt),
-    note: a.body,
-  }));
 
   const revisionJson: BundleRevisionJson = {
     format: 'steerwise-array-revision',
@@ -404,7 +272,7 @@ export async function buildArrayBundle({
   for (const d of datasets) {
     const ext = (d.originalName.match(/\.([A-Za-z0-9]{1,8})$/)?.[1] ?? d.format).toLowerCase();
     const folder = `datasets/${d.id}`;
-    const bytes = await fs.promises.readFile(resolveDataPath(d.storagePath));
+    const bytes = await fs.promises.readFile(resolveStoragePath(d.storagePath));
     if (sha256Hex(bytes) !== d.sha256) throw new Error(`stored file of dataset ${d.id} no longer matches its SHA-256`);
     const meta: BundleDatasetJson = {
       format: 'steerwise-dataset',

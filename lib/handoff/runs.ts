@@ -9,14 +9,13 @@
  * level) and a single answer with `bearingsDeg` are read too. The same
  * options are given again to lib/doa estimateBearings on the imported data,
  * in the file layout (N × M, one snapshot per row) as the runs use it, and
- * bearings (degrees from broadside, ascending) are compared element by element.
+ * bearings (degrees from broadside, ascending) are compared element by element
+ * (lib/runs/compare.ts: the one definition of "reproduced").
  */
 import { estimateBearings, type ComplexMatrix } from '@/lib/doa';
 import { DOA_METHODS, type DoaMethod } from '@/lib/doa/methods/registry';
 import type { RunOptions } from '@/lib/jobs/estimate-run';
-
-/** Largest bearing difference (degrees) still called "reproduced". */
-export const REPRODUCE_TOLERANCE_DEG = 1e-9;
+import { compareBearings, type MethodComparison } from '@/lib/runs/compare';
 
 export interface StoredMethodResult {
   method: DoaMethod;
@@ -25,17 +24,6 @@ export interface StoredMethodResult {
 
 /** A stored run's covariance and source-count options (as lib/jobs runs them) plus its methods. */
 export type RerunOptions = Omit<RunOptions, 'includeSpectrum'> & { methods: DoaMethod[] };
-
-export interface MethodComparison {
-  method: DoaMethod;
-  storedDeg: number[];
-  recomputedDeg: number[];
-  /** recomputed − stored, element by element; null when the counts differ. */
-  differencesDeg: number[] | null;
-  maxAbsDifferenceDeg: number | null;
-  reproduced: boolean;
-  message: string;
-}
 
 export interface RunComparison {
   reproduced: boolean;
@@ -128,42 +116,6 @@ export function inlineSnapshots(inputs: unknown): ComplexMatrix | null {
   return out;
 }
 
-const fmtDeg = (v: number) => (Math.abs(v) < 1e-3 && v !== 0 ? v.toExponential(3) : v.toFixed(6));
-
-/** Compares one method's stored and recomputed bearings. */
-export function compareBearings(
-  method: DoaMethod,
-  stored: number[],
-  recomputed: number[],
-  tolerance = REPRODUCE_TOLERANCE_DEG,
-): MethodComparison {
-  if (stored.length !== recomputed.length) {
-    return {
-      method,
-      storedDeg: stored,
-      recomputedDeg: recomputed,
-      differencesDeg: null,
-      maxAbsDifferenceDeg: null,
-      reproduced: false,
-      message: `${method}: the bundle stores ${stored.length} bearing(s), re-running gives ${recomputed.length} (${recomputed.map(fmtDeg).join(', ') || 'none'})`,
-    };
-  }
-  const diffs = recomputed.map((v, k) => v - stored[k]);
-  const max = diffs.reduce((a, d) => Math.max(a, Math.abs(d)), 0);
-  const reproduced = max <= tolerance;
-  return {
-    method,
-    storedDeg: stored,
-    recomputedDeg: recomputed,
-    differencesDeg: diffs,
-    maxAbsDifferenceDeg: max,
-    reproduced,
-    message: reproduced
-      ? `${method}: reproduced (largest difference ${max.toExponential(2)}°, tolerance ${tolerance}°)`
-      : `${method}: differs by up to ${max.toExponential(3)}°: ${diffs.map((d, k) => `bearing ${k + 1} stored ${fmtDeg(stored[k])}°, now ${fmtDeg(recomputed[k])}° (Δ ${d.toExponential(3)}°)`).join('; ')}`,
-  };
-}
-
 /** Re-executes every method of a run on `rows` (N × M, one snapshot per row) and compares with what it stored. */
 export function reproduceRun({
   rows,
@@ -204,4 +156,28 @@ export function reproduceRun({
     }
   }
   return { reproduced: methods.length > 0 && methods.every((m) => m.reproduced), methods };
+}
+
+/** The run's inputs with the ids of the source team replaced by the new records' ids. */
+export function remapRunInputs(
+  inputs: Record<string, unknown>,
+  ids: { datasetId: number | null; arrayId: number; arrayRevisionId: number },
+): Record<string, unknown> {
+  const out: Record<string, unknown> = JSON.parse(JSON.stringify(inputs));
+  const fix = (o: Record<string, unknown> | undefined) => {
+    if (!o || typeof o !== 'object') return;
+    if ('datasetId' in o) o.datasetId = ids.datasetId ?? undefined;
+    if ('arrayId' in o) o.arrayId = ids.arrayId;
+    if ('arrayRevisionId' in o) o.arrayRevisionId = ids.arrayRevisionId;
+    if ('revision' in o && 'arrayRevisionId' in o) o.revision = 1;
+  };
+  fix(out);
+  fix(out.request as Record<string, unknown>);
+  fix(out.array as Record<string, unknown>);
+  const ds = out.dataset as Record<string, unknown> | undefined;
+  if (ds && typeof ds === 'object') {
+    if (ids.datasetId === null) delete out.dataset;
+    else ds.id = ids.datasetId;
+  }
+  return JSON.parse(JSON.stringify(out));
 }

@@ -9,8 +9,8 @@ import { arrayInputSchema } from '../validations/array';
 import { datasetCreatedSchema, datasetSchema, datasetUploadFormSchema } from '../validations/dataset';
 import { studyRequestSchema } from '../validations/study';
 import { planAnswerSchema, planRequestSchema } from '../validations/plan';
-import { handoffSendSchema, reviewCreateSchema, reviewQuerySchema } from '../handoff/validation';
-import { bundleQuerySchema } from '../handoff/query';
+import { bundleQuerySchema, handoffSendSchema } from '../validations/handoff';
+import { reviewCreateSchema, reviewQuerySchema } from '../validations/review';
 import {
   boundsAnswerSchema,
   boundsRequestSchema,

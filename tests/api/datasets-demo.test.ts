@@ -11,7 +11,7 @@ import { getDb } from '@/lib/db';
 import { seedDemo } from '@/lib/demo/seed';
 import { DEMO_RECORDINGS } from '@/lib/demo/recordings';
 import { sha256File } from '@/lib/datasets';
-import { resolveStoragePath } from '@/lib/storage/uploads';
+import { resolveStoragePath } from '@/lib/storage/files';
 import { estimate } from './datasets.helpers';
 
 async function byName(name: string) {

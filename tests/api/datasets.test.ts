@@ -14,7 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ArrayDesign, ArrayRevision, Dataset } from '@/models';
 import * as datasets from '@/app/api/v1/datasets/route';
 import * as datasetById from '@/app/api/v1/datasets/[id]/route';
-import { resolveStoragePath } from '@/lib/storage/uploads';
+import { resolveStoragePath } from '@/lib/storage/files';
 import { browserHeaders, everyone, json, ORIGIN, params, req, userOf, type Who } from '../helpers/api';
 import { fixture, footprint, multipart, upload } from './datasets.helpers';
 import { float64LE, garbage, npy } from '../helpers/hostile-bytes';

@@ -420,7 +420,7 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
       method: 'esprit-ls',
     });
     const { Dataset } = await import('@/models');
-    const { resolveStoragePath } = await import('@/lib/storage/uploads');
+    const { resolveStoragePath } = await import('@/lib/storage/files');
     const row = await Dataset.findByPk(up.body.id);
     (await import('node:fs')).appendFileSync(resolveStoragePath(row!.storagePath), '\n');
     const rr = await rerunRoute.POST(

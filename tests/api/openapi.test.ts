@@ -4,7 +4,8 @@ import { z } from 'zod';
 import * as openapi from '@/app/api/v1/openapi.json/route';
 import { estimateRequestSchema } from '@/lib/validations/estimate';
 import { planRequestSchema } from '@/lib/validations/plan';
-import { handoffSendSchema, reviewCreateSchema } from '@/lib/handoff/validation';
+import { handoffSendSchema } from '@/lib/validations/handoff';
+import { reviewCreateSchema } from '@/lib/validations/review';
 import { json, params, req } from '../helpers/api';
 
 describe('openapi.json', () => {

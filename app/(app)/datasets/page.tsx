@@ -6,7 +6,7 @@ import { DatasetsTable } from '@/components/datasets/datasets-table';
 import { requirePagePermission } from '@/lib/auth';
 import { can } from '@/lib/auth/permissions';
 import { listArrayChoices, listDatasets } from '@/lib/data/datasets';
-import { maxUploadBytes } from '@/lib/storage/uploads';
+import { maxUploadBytes } from '@/lib/env';
 
 export const metadata = { title: 'Datasets' };
 export const dynamic = 'force-dynamic';

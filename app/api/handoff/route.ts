@@ -1,7 +1,7 @@
 import { handle, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { listHandoffs, sendHandoff } from '@/lib/data/handoffs';
-import { handoffSendSchema } from '@/lib/handoff/validation';
+import { handoffSendSchema } from '@/lib/validations/handoff';
 
 /** GET: the team's sent hand-offs. */
 export const GET = handle(async (req) => {

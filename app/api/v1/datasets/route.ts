@@ -1,8 +1,8 @@
-import { ApiError, handle } from '@/lib/http';
+import { handle } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
-import { createDataset, createdBody, datasetErrorToApi, listDatasets } from '@/lib/data/datasets';
+import { createDataset, createdBody, datasetErrorToApi, listDatasets, receiveDatasetUpload } from '@/lib/data/datasets';
 import { DatasetError } from '@/lib/datasets';
-import { receiveUpload, removeQuietly, UploadAborted } from '@/lib/storage/uploads';
+import { removeQuietly } from '@/lib/storage/files';
 
 export const dynamic = 'force-dynamic';
 
@@ -22,7 +22,7 @@ export const POST = handle(async (req) => {
   const caller = await requireApiPermission(req, 'datasets.upload');
   let tempPath: string | null = null;
   try {
-    const upload = await receiveUpload(req);
+    const upload = await receiveDatasetUpload(req);
     tempPath = upload.tempPath;
     const dataset = await createDataset({ caller, upload });
     return Response.json(createdBody(dataset), {
@@ -34,7 +34,6 @@ export const POST = handle(async (req) => {
       const api = datasetErrorToApi(err);
       if (api) throw api;
     }
-    if (err instanceof UploadAborted) throw new ApiError('validation_failed', err.message);
     throw err;
   } finally {
     await removeQuietly(tempPath);

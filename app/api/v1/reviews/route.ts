@@ -1,7 +1,7 @@
 import { handle, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { createReview, listReviews } from '@/lib/data/reviews';
-import { reviewCreateSchema, reviewQuerySchema } from '@/lib/handoff/validation';
+import { reviewCreateSchema, reviewQuerySchema } from '@/lib/validations/review';
 
 /**
  * Reviews of one array revision (?arrayId=&revision=) or one run (?runId=).

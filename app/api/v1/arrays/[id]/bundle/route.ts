@@ -1,7 +1,7 @@
 import { handle, parseId } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { buildArrayBundle } from '@/lib/handoff/export';
-import { bundleQueryFrom } from '@/lib/handoff/query';
+import { bundleQueryFrom } from '@/lib/validations/handoff';
 
 type Ctx = { params: Promise<{ id: string }> };
 

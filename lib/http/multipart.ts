@@ -1,50 +1,25 @@
 import 'server-only';
 import fs from 'node:fs';
-import path from 'node:path';
-import { randomUUID } from 'node:crypto';
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import busboy from 'busboy';
-import { ApiError } from '../http';
-import { dataDir } from '../env';
 import { Sha256PassThrough } from '../datasets';
+import { newTempPath, removeQuietly } from '../storage/files';
+import { ApiError } from './errors';
 
 /**
- * Streams a multipart upload to a temporary file under the data folder while
- * hashing it (SHA-256 of the bytes as received), under a size limit.
+ * The one multipart/form-data receiver: every route that takes a file
+ * (dataset upload, bundle import) reads its request with `receiveFile`.
  *
- * Layout under STEERWISE_DATA_DIR:
- *   uploads/tmp/<uuid>.part    — a file being received (deleted by the caller's finally)
- *   datasets/<team>/<uuid><ext> — stored datasets (moved there by rename, same file system)
- *
- * The limit comes from STEERWISE_MAX_UPLOAD_BYTES (default 200 MiB). A file
- * over the limit is refused with 413 as soon as the limit is crossed; the
- * partial temp file is removed.
+ * The `file` part is streamed to a temporary file under the data folder
+ * (lib/storage/files.ts, `uploads/tmp/<uuid>.part`) while hashed (SHA-256 of
+ * the bytes as received), under a size limit: a file over the limit is
+ * refused with 413 as soon as the limit is crossed. Text fields are collected
+ * by name. A client that goes away (the request signal) stops the reading at
+ * once. On any failure the temp file is removed before the promise rejects;
+ * on success the caller renames or deletes it.
  */
-export const DEFAULT_MAX_UPLOAD_BYTES = 200 * 1024 * 1024;
-
-export function maxUploadBytes(): number {
-  const raw = Number(process.env.STEERWISE_MAX_UPLOAD_BYTES);
-  return Number.isFinite(raw) && raw > 0 ? Math.floor(raw) : DEFAULT_MAX_UPLOAD_BYTES;
-}
-
-export function tempDir(): string {
-  return path.join(dataDir(), 'uploads', 'tmp');
-}
-
-export function datasetsDir(): string {
-  return path.join(dataDir(), 'datasets');
-}
-
-/** Absolute path of a stored dataset from its storagePath (relative to the data folder). Refuses paths that leave it. */
-export function resolveStoragePath(storagePath: string): string {
-  const root = dataDir();
-  const full = path.resolve(root, storagePath);
-  if (!full.startsWith(root + path.sep)) throw new Error(`storage path ${storagePath} leaves the data folder`);
-  return full;
-}
-
-export interface ReceivedUpload {
+export interface ReceivedFile {
   /** Absolute path of the temporary file; the caller renames or deletes it. */
   tempPath: string;
   originalName: string;
@@ -54,48 +29,59 @@ export interface ReceivedUpload {
   fields: Record<string, string>;
 }
 
-const MAX_FIELDS = 20;
+export interface ReceiveFileOptions {
+  /** What the file holds, for messages: "dataset", "bundle". */
+  noun: string;
+  maxBytes: number;
+  /** The 413 for a file over maxBytes (it names the setting that raises the limit). */
+  tooLarge: (maxBytes: number) => ApiError;
+  /** The message when the form has no `file` part. */
+  missingFile?: string;
+  /** Most text fields accepted (default 20); each at most 2000 bytes. */
+  maxFields?: number;
+}
+
 const MAX_FIELD_BYTES = 2000;
+/** Room for the form's own bytes around the file when a declared length is checked against the limit. */
+const FORM_OVERHEAD_BYTES = 64 * 1024;
 
 /**
  * Reads a multipart/form-data request with one `file` part. Resolves when the
- * whole body has been read and the file flushed to disk. On any failure the
- * temp file is removed before the promise rejects.
+ * whole body has been read and the file flushed to disk. Refusals are
+ * ApiErrors: 415 for another content type, 413 over the limit, 422 for a
+ * missing, doubled or misnamed file, too many or too long fields, a malformed
+ * or interrupted body.
  */
-export async function receiveUpload(
+export async function receiveFile(
   req: Request,
-  { maxBytes = maxUploadBytes() }: { maxBytes?: number } = {},
-): Promise<ReceivedUpload> {
+  { noun, maxBytes, tooLarge, missingFile, maxFields = 20 }: ReceiveFileOptions,
+): Promise<ReceivedFile> {
   const type = req.headers.get('content-type') ?? '';
   if (!/^multipart\/form-data\b/i.test(type) || !/boundary=/i.test(type)) {
     throw new ApiError(
       'unsupported_format',
-      `Send the dataset as multipart/form-data with a "file" field (got ${type.split(';')[0] || 'no content type'}).`,
+      `Send the ${noun} as multipart/form-data with a "file" field (got ${type.split(';')[0] || 'no content type'}).`,
     );
   }
   if (!req.body)
     throw new ApiError('validation_failed', 'The request has no body: send a "file" field.', {
       fields: { file: ['a file is required'] },
     });
-  // A declared length far above the limit is refused before reading (the form
-  // adds a little overhead around the file, hence the margin).
+  // A declared length far above the limit is refused before reading.
   const declared = Number(req.headers.get('content-length') ?? NaN);
-  if (Number.isFinite(declared) && declared > maxBytes + 64 * 1024) {
-    throw tooLarge(maxBytes);
-  }
+  if (Number.isFinite(declared) && declared > maxBytes + FORM_OVERHEAD_BYTES) throw tooLarge(maxBytes);
 
-  fs.mkdirSync(tempDir(), { recursive: true });
-  const tempPath = path.join(tempDir(), `${randomUUID()}.part`);
   let bb: busboy.Busboy;
   try {
     bb = busboy({
       headers: { 'content-type': type },
-      limits: { files: 1, fileSize: maxBytes, fields: MAX_FIELDS, fieldSize: MAX_FIELD_BYTES, parts: MAX_FIELDS + 1 },
+      limits: { files: 1, fileSize: maxBytes, fields: maxFields, fieldSize: MAX_FIELD_BYTES, parts: maxFields + 1 },
     });
   } catch (err) {
     throw new ApiError('unsupported_format', `The multipart body cannot be read: ${(err as Error).message}.`);
   }
 
+  const tempPath = await newTempPath();
   const fields: Record<string, string> = {};
   let fileWrite: Promise<void> | null = null;
   let originalName = '';
@@ -104,6 +90,7 @@ export async function receiveUpload(
   const fail = (err: ApiError) => {
     failure ??= err;
   };
+  const interrupted = (detail: string) => new ApiError('validation_failed', `The upload was interrupted: ${detail}`);
 
   bb.on('field', (name, value, info) => {
     if (info.valueTruncated)
@@ -114,7 +101,7 @@ export async function receiveUpload(
       );
     fields[name] = value;
   });
-  bb.on('fieldsLimit', () => fail(new ApiError('validation_failed', `The form has more than ${MAX_FIELDS} fields.`)));
+  bb.on('fieldsLimit', () => fail(new ApiError('validation_failed', `The form has more than ${maxFields} fields.`)));
   bb.on('filesLimit', () =>
     fail(
       new ApiError('validation_failed', 'Send one file per upload.', {
@@ -129,8 +116,10 @@ export async function receiveUpload(
         fail(
           new ApiError(
             'validation_failed',
-            `Unexpected file field "${name}": send the dataset in a field named "file".`,
-            { fields: { file: ['a file is required'] } },
+            `Unexpected file field "${name}": send the ${noun} in a field named "file".`,
+            {
+              fields: { file: ['a file is required'] },
+            },
           ),
         );
       return;
@@ -166,53 +155,35 @@ export async function receiveUpload(
       if (/Unexpected end of form|Malformed|boundary/i.test(message)) {
         throw new ApiError('validation_failed', `The multipart body is incomplete or malformed: ${message}.`);
       }
-      throw new UploadAborted(message);
+      throw interrupted(message);
     }
     if (fileWrite) {
       try {
         await fileWrite;
       } catch (err) {
         if (failure) throw failure;
-        throw new UploadAborted((err as Error)?.message ?? String(err));
+        throw interrupted((err as Error)?.message ?? String(err));
       }
     }
     if (failure) throw failure;
     if (!fileWrite || !tap) {
-      throw new ApiError('validation_failed', 'No file was sent: put the dataset in a form field named "file".', {
-        fields: { file: ['a file is required'] },
-      });
+      throw new ApiError(
+        'validation_failed',
+        missingFile ?? `No file was sent: put the ${noun} in a form field named "file".`,
+        { fields: { file: ['a file is required'] } },
+      );
     }
     const t = tap as Sha256PassThrough;
-    if (!originalName) originalName = 'upload';
-    return { tempPath, originalName, sha256: t.digestHex(), bytes: t.bytes, fields };
+    return { tempPath, originalName: originalName || 'upload', sha256: t.digestHex(), bytes: t.bytes, fields };
   } catch (err) {
     await removeQuietly(tempPath);
     throw err;
   }
 }
 
-/** The client went away or the body stream failed part-way: nothing is kept. */
-export class UploadAborted extends Error {
-  constructor(detail: string) {
-    super(`The upload was interrupted: ${detail}`);
-    this.name = 'UploadAborted';
-  }
-}
-
-function tooLarge(maxBytes: number): ApiError {
-  return new ApiError(
-    'too_large',
-    `The file is larger than the upload limit of ${formatBytes(maxBytes)} (${maxBytes} bytes).`,
-  );
-}
-
+/** A byte count for messages: "200 MiB", "1.5 KiB", "900 bytes". */
 export function formatBytes(n: number): string {
   if (n >= 1024 * 1024) return `${(n / (1024 * 1024)).toFixed(n % (1024 * 1024) === 0 ? 0 : 1)} MiB`;
   if (n >= 1024) return `${(n / 1024).toFixed(n % 1024 === 0 ? 0 : 1)} KiB`;
   return `${n} bytes`;
-}
-
-export async function removeQuietly(file: string | null | undefined): Promise<void> {
-  if (!file) return;
-  await fs.promises.rm(file, { force: true }).catch(() => undefined);
 }

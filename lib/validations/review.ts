@@ -1,39 +1,4 @@
 import { z } from 'zod';
-import { emailSchema } from '@/lib/validations/account';
-
-const idList = (field: string) =>
-  z
-    .array(
-      z
-        .number({ error: `${field} must list ids` })
-        .int({ error: `${field} must list whole-number ids` })
-        .positive({ error: `${field} must list ids ≥ 1` }),
-      { error: `${field} must be a list of ids` },
-    )
-    .max(50, { error: `${field}: at most 50 per bundle` })
-    .optional();
-
-/** POST /api/handoff: send a bundle of an array revision to a colleague by e-mail. */
-export const handoffSendSchema = z.strictObject({
-  arrayId: z
-    .number({ error: 'arrayId is required' })
-    .int({ error: 'arrayId must be a whole number' })
-    .positive({ error: 'arrayId must be ≥ 1' }),
-  revision: z
-    .number({ error: 'revision must be a whole number' })
-    .int({ error: 'revision must be a whole number' })
-    .positive({ error: 'revision must be ≥ 1' })
-    .optional(),
-  recipientEmail: emailSchema,
-  note: z
-    .string({ error: 'note must be text' })
-    .trim()
-    .max(2000, { error: 'note must be at most 2000 characters' })
-    .optional(),
-  datasets: idList('datasets'),
-  runs: idList('runs'),
-});
-export type HandoffSendInput = z.infer<typeof handoffSendSchema>;
 
 const queryId = (field: string) =>
   z
