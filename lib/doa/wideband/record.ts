@@ -1,0 +1,168 @@
+/**
+ * The bearing–time record of a recording: blocks (docs/conventions.md §9), one
+ * BlockAnalyzer pass per block, then tracks.
+ *
+ * Memory: the record keeps one block of samples as float32 (M × B), moving it
+ * by the block step (copyWithin) and reading only the new samples; the STFT of
+ * one block (bins × frames × M complex); and the output rows (one float32 dB
+ * row of the grid per block). A 5-minute 16-channel recording at 16 kHz with
+ * 1 s blocks holds about 1 MB of samples at a time.
+ *
+ * Progress and cancellation: `onProgress(done, total)` after every block; the
+ * signal is checked between blocks, and the promise then rejects with its reason.
+ * `yieldEvery` blocks, the loop awaits a macrotask so a server stays responsive.
+ */
+import { BlockAnalyzer, type BlockAnalysis } from './analyze';
+import { blockCount, planWideband, WidebandInputError, type WidebandOptions, type WidebandPlan } from './plan';
+import type { SampleSource } from './source';
+import { trackBearings, type Track, type TrackerOptions } from './tracker';
+
+export interface BearingTimeBlock {
+  index: number;
+  startS: number;
+  endS: number;
+  sourceCount: number;
+  bearingsDeg: number[];
+  stdDeg: number[];
+  warnings: string[];
+}
+
+export interface BearingTimeRecord {
+  sampleRate: number;
+  channels: number;
+  blocks: BearingTimeBlock[];
+  tracks: Track[];
+  /** Rows of the image: levelsDb[b·count + i] = 10·log10 P_b(θ_i), the normalised wideband spectrum. */
+  image: { startDeg: number; stepDeg: number; count: number; levelsDb: Float32Array };
+  bins: { count: number; lowHz: number; highHz: number; gratingLobeBins: number; excludedBins: number };
+  framesPerBlock: number;
+  /** η of the wideband CRB (crb.ts). */
+  crbRedundancy: number;
+  /** Plan-level warnings (e.g. 'few-frames'). */
+  warnings: { code: string; message: string }[];
+}
+
+export interface RecordHooks {
+  onProgress?: (done: number, total: number) => void;
+  /** Called with each block's full analysis (e.g. to keep the spectrum of selected blocks). */
+  onBlock?: (block: BearingTimeBlock, analysis: BlockAnalysis) => void;
+  signal?: AbortSignal;
+  tracker?: TrackerOptions;
+  /** Await a macrotask every this many blocks (default 4; 0 = never). */
+  yieldEvery?: number;
+}
+
+function checkAborted(signal: AbortSignal | undefined): void {
+  if (signal?.aborted) throw signal.reason ?? new Error('aborted');
+}
+
+export async function bearingTimeRecord(
+  source: SampleSource,
+  options: WidebandOptions,
+  hooks: RecordHooks = {},
+): Promise<BearingTimeRecord> {
+  const plan: WidebandPlan = planWideband(options, { sampleRate: source.sampleRate, channels: source.channels });
+  const total = blockCount(plan, source.samplesPerChannel);
+  if (total === 0) {
+    throw new WidebandInputError(
+      'blockSeconds',
+      `the recording lasts ${(source.samplesPerChannel / source.sampleRate).toFixed(3)} s (${source.samplesPerChannel} samples), shorter than one block of ${options.blockSeconds} s`,
+    );
+  }
+  const analyzer = new BlockAnalyzer(plan);
+  const m = plan.elements;
+  const bl = plan.blockSamples;
+  const step = plan.stepSamples;
+  const buffers = Array.from({ length: m }, () => new Float32Array(bl));
+  const count = analyzer.angles.length;
+  const levels = new Float32Array(total * count);
+  const blocks: BearingTimeBlock[] = [];
+  const warnings: { code: string; message: string }[] = [];
+  if (plan.framesPerBlock < m) {
+    warnings.push({
+      code: 'few-frames',
+      message: `each block has ${plan.framesPerBlock} frames for ${m} elements: the per-bin covariances are rank-deficient; lengthen the blocks or shorten the hop`,
+    });
+  }
+  if (plan.gratingLobeBins > 0) {
+    warnings.push({
+      code: 'grating-lobe-bins',
+      message: `${plan.gratingLobeBins} bins of the band have a spacing above half a wavelength and can alias`,
+    });
+  }
+  const yieldEvery = hooks.yieldEvery ?? 4;
+  const fs = plan.sampleRate;
+  try {
+    for (let b = 0; b < total; b++) {
+      checkAborted(hooks.signal);
+      let need: number;
+      let at: number;
+      if (b === 0 || step >= bl) {
+        // First block, or blocks that do not overlap: skip the gap, then read a whole block.
+        if (b > 0 && step > bl) await skip(source, buffers, step - bl);
+        need = bl;
+        at = 0;
+      } else {
+        for (let c = 0; c < m; c++) buffers[c].copyWithin(0, step, bl);
+        need = step;
+        at = bl - step;
+      }
+      const got = await source.read(buffers, at, need);
+      if (got !== need) {
+        throw new WidebandInputError(
+          'recording',
+          `the recording ended early: block ${b + 1} needed ${need} more samples, got ${got}`,
+        );
+      }
+      const analysis = analyzer.analyze(buffers);
+      const row = levels.subarray(b * count, (b + 1) * count);
+      for (let i = 0; i < count; i++) row[i] = 10 * Math.log10(analysis.spectrum[i]);
+      const block: BearingTimeBlock = {
+        index: b,
+        startS: (b * step) / fs,
+        endS: (b * step + bl) / fs,
+        sourceCount: analysis.sourceCount,
+        bearingsDeg: analysis.bearingsDeg,
+        stdDeg: analysis.stdDeg,
+        warnings: analysis.warnings,
+      };
+      blocks.push(block);
+      hooks.onBlock?.(block, analysis);
+      hooks.onProgress?.(b + 1, total);
+      if (yieldEvery > 0 && (b + 1) % yieldEvery === 0) await new Promise((r) => setTimeout(r, 0));
+    }
+  } finally {
+    await source.close();
+  }
+  const tracks = trackBearings(
+    blocks.map((bk) => ({ tS: 0.5 * (bk.startS + bk.endS), bearingsDeg: bk.bearingsDeg, stdDeg: bk.stdDeg })),
+    hooks.tracker,
+  );
+  return {
+    sampleRate: fs,
+    channels: m,
+    blocks,
+    tracks,
+    image: { startDeg: plan.grid.startDeg, stepDeg: plan.grid.stepDeg, count, levelsDb: levels },
+    bins: {
+      count: plan.bins.length,
+      lowHz: plan.binHz[0],
+      highHz: plan.binHz[plan.binHz.length - 1],
+      gratingLobeBins: plan.gratingLobeBins,
+      excludedBins: plan.excludedBins,
+    },
+    framesPerBlock: plan.framesPerBlock,
+    crbRedundancy: analyzer.redundancy,
+    warnings,
+  };
+}
+
+async function skip(source: SampleSource, buffers: Float32Array[], count: number): Promise<void> {
+  let left = count;
+  while (left > 0) {
+    const n = Math.min(left, buffers[0].length);
+    const got = await source.read(buffers, 0, n);
+    if (got !== n) throw new WidebandInputError('recording', 'the recording ended early while skipping between blocks');
+    left -= n;
+  }
+}
