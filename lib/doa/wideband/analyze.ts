@@ -49,7 +49,7 @@ import { musicDenominatorFromPhasors, noiseProjector, SPECTRUM_DENOMINATOR_FLOOR
 import { rootMusicElectricalAngles } from '../methods/root-music';
 import { estimateSourceCount } from '../methods/source-count';
 import { diagonalSums, gridAngles, gridPhasors, hermitianFormFromDiagonalSums, pickPeaks } from '../methods/spectrum';
-import { binFisherInformation, widebandCrb, windowTimeFrequencyRedundancy } from './crb';
+import { binFisherInformation, stdFromFisher, windowTimeFrequencyRedundancy } from './crb';
 import type { WidebandPlan } from './plan';
 
 export interface BlockBearings {
@@ -275,22 +275,32 @@ export class BlockAnalyzer {
       for (let j = k; j < m; j++) s += Math.max(eigs[b].values[j], 0);
       noise[b] = s / (m - k);
     }
-    let bearings = peaks;
-    if (plan.estimator !== 'spectrum-peaks' && peaks.length > 0) {
-      bearings = this.perBinBearings(peaks, covs, eigs, noise, k, warnings);
+    // Per-bin Fisher information at the wideband peaks, with the plug-in powers: the weights of
+    // the per-bin estimators and, summed, the block's ±σ (the shift from the peaks to the final
+    // bearings is far below the bound's scale).
+    const q = peaks.length;
+    const theta0 = Float64Array.from(peaks, (p) => p * RAD_PER_DEG);
+    const fishers: (Float64Array | null)[] = new Array(nb);
+    const total = new Float64Array(q * q);
+    for (let b = 0; b < nb; b++) {
+      const powers = estimatePowers(covs[b], noise[b], m, binSpacing[b], peaks);
+      const fi = powers.some((p) => p > 0) ? binFisherInformation(m, binSpacing[b], theta0, powers, noise[b], T) : null;
+      fishers[b] = fi;
+      if (fi) for (let i = 0; i < q * q; i++) total[i] += fi[i];
     }
-    bearings = bearings.slice().sort((a, c) => a - c);
-    const powers = covs.map((r, b) => estimatePowers(r, noise[b], m, binSpacing[b], bearings));
-    const crb = widebandCrb({
-      elements: m,
-      binSpacing,
-      bearingsDeg: bearings,
-      powers,
-      noisePowers: noise,
-      snapshots: T,
-      redundancy: this.redundancy,
-    });
-    return { sourceCount: k, bearingsDeg: bearings, stdDeg: crb.stdDeg, warnings: [...warnings], spectrum };
+    let bearings = peaks;
+    if (plan.estimator !== 'spectrum-peaks' && q > 0) {
+      bearings = this.perBinBearings(peaks, eigs, fishers, k, warnings);
+    }
+    const std = stdFromFisher(total, q, this.redundancy);
+    const order = bearings.map((_, i) => i).sort((a, c) => bearings[a] - bearings[c]);
+    return {
+      sourceCount: k,
+      bearingsDeg: order.map((i) => bearings[i]),
+      stdDeg: order.map((i) => std[i]),
+      warnings: [...warnings],
+      spectrum,
+    };
   }
 
   /** Narrowband spectrum of bin b on the grid; stores its Hermitian-form diagonal sums for off-grid use. */
@@ -350,17 +360,15 @@ export class BlockAnalyzer {
 
   private perBinBearings(
     peaks: number[],
-    covs: ComplexMatrix[],
     eigs: { values: Float64Array; vectors: ComplexMatrix }[],
-    noise: Float64Array,
+    fishers: (Float64Array | null)[],
     k: number,
     warnings: Set<string>,
   ): number[] {
-    const { elements: m, binSpacing, framesPerBlock: T, estimator } = this.plan;
+    const { elements: m, binSpacing, estimator } = this.plan;
     const nb = binSpacing.length;
     const q = peaks.length;
     const u0 = peaks.map((p) => Math.sin(p * RAD_PER_DEG));
-    const theta0 = Float64Array.from(peaks, (p) => p * RAD_PER_DEG);
     const sumW = new Float64Array(q);
     const sumWU = new Float64Array(q);
     for (let b = 0; b < nb; b++) {
@@ -391,8 +399,7 @@ export class BlockAnalyzer {
           }
         }
       }
-      const powers = estimatePowers(covs[b], noise[b], m, d, peaks);
-      const fisher = binFisherInformation(m, d, theta0, powers, noise[b], T);
+      const fisher = fishers[b];
       if (!fisher) continue;
       const crb = invertSymmetric(fisher, q);
       for (let p = 0; p < q; p++) {

@@ -181,24 +181,29 @@ export function widebandCrb(input: WidebandCrbInput): WidebandCrb {
     binsUsed++;
     for (let i = 0; i < k * k; i++) total[i] += fi[i];
   }
+  return { stdDeg: stdFromFisher(total, k, eta), fisher: total, binsUsed };
+}
+
+/**
+ * √diag(η·F⁻¹) in degrees for a summed Fisher information F (K × K, 1/rad²),
+ * inverted on the sources with information; Infinity for a source without any.
+ */
+export function stdFromFisher(total: Float64Array, k: number, eta: number): number[] {
   const stdDeg = new Array<number>(k).fill(Infinity);
-  if (k === 0) return { stdDeg, fisher: total, binsUsed };
-  // Invert on the sources that have information (a zero row means no bin saw that source).
   const live: number[] = [];
   for (let i = 0; i < k; i++) if (total[i * k + i] > 0) live.push(i);
-  if (live.length > 0) {
-    const q = live.length;
-    const sub = zeros(q, q);
-    for (let a = 0; a < q; a++) for (let b = 0; b < q; b++) sub.re[a * q + b] = total[live[a] * k + live[b]];
-    try {
-      const inv = inverse(sub);
-      for (let a = 0; a < q; a++) {
-        const v = inv.re[a * q + a] * eta;
-        if (v > 0) stdDeg[live[a]] = Math.sqrt(v) / RAD_PER_DEG;
-      }
-    } catch {
-      // singular: leave Infinity
+  if (live.length === 0) return stdDeg;
+  const q = live.length;
+  const sub = zeros(q, q);
+  for (let a = 0; a < q; a++) for (let b = 0; b < q; b++) sub.re[a * q + b] = total[live[a] * k + live[b]];
+  try {
+    const inv = inverse(sub);
+    for (let a = 0; a < q; a++) {
+      const v = inv.re[a * q + a] * eta;
+      if (v > 0) stdDeg[live[a]] = Math.sqrt(v) / RAD_PER_DEG;
     }
+  } catch {
+    // singular: the sources cannot be told apart; leave Infinity
   }
-  return { stdDeg, fisher: total, binsUsed };
+  return stdDeg;
 }
