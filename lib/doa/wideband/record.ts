@@ -166,3 +166,61 @@ async function skip(source: SampleSource, buffers: Float32Array[], count: number
     left -= n;
   }
 }
+
+export interface DecimatedImage {
+  /** Bearing of each column (the centre of its group of grid points), degrees. */
+  bearingsDeg: number[];
+  /** Time of each row (the centre of its group of block centres), seconds. */
+  timesS: number[];
+  /** levelsDb[r][c]: the maximum dB over the group (peaks survive decimation). */
+  levelsDb: number[][];
+}
+
+/**
+ * A display grid of at most maxRows × maxCols from the image rows of a record:
+ * consecutive blocks and grid points are grouped evenly and each cell keeps the
+ * group's maximum in dB, so narrow tracks stay visible. Rows keep time order.
+ */
+export function decimateImage(
+  record: Pick<BearingTimeRecord, 'image' | 'blocks'>,
+  maxRows: number,
+  maxCols: number,
+): DecimatedImage {
+  const { startDeg, stepDeg, count, levelsDb } = record.image;
+  const nBlocks = record.blocks.length;
+  if (!Number.isInteger(maxRows) || maxRows < 1 || !Number.isInteger(maxCols) || maxCols < 1) {
+    throw new WidebandInputError('image', `maxRows ${maxRows} and maxCols ${maxCols} must be positive integers`);
+  }
+  const rows = Math.min(maxRows, nBlocks);
+  const cols = Math.min(maxCols, count);
+  const rowEdge = (r: number) => Math.round((r * nBlocks) / rows);
+  const colEdge = (c: number) => Math.round((c * count) / cols);
+  const bearingsDeg: number[] = [];
+  for (let c = 0; c < cols; c++) {
+    const a = colEdge(c);
+    const b = colEdge(c + 1) - 1;
+    bearingsDeg.push(startDeg + 0.5 * (a + b) * stepDeg);
+  }
+  const timesS: number[] = [];
+  const out: number[][] = [];
+  for (let r = 0; r < rows; r++) {
+    const r0 = rowEdge(r);
+    const r1 = rowEdge(r + 1);
+    const first = record.blocks[r0];
+    const last = record.blocks[r1 - 1];
+    timesS.push(0.25 * (first.startS + first.endS + last.startS + last.endS));
+    const line: number[] = [];
+    for (let c = 0; c < cols; c++) {
+      const c0 = colEdge(c);
+      const c1 = colEdge(c + 1);
+      let best = -Infinity;
+      for (let b = r0; b < r1; b++) {
+        const row = b * count;
+        for (let i = c0; i < c1; i++) if (levelsDb[row + i] > best) best = levelsDb[row + i];
+      }
+      line.push(best);
+    }
+    out.push(line);
+  }
+  return { bearingsDeg, timesS, levelsDb: out };
+}

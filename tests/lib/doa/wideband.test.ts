@@ -9,6 +9,7 @@ import {
   bearingAt,
   bearingTimeRecord,
   binFisherInformation,
+  decimateImage,
   kalataBeta,
   memorySampleSource,
   planWideband,
@@ -91,6 +92,25 @@ describe('wideband spectrum against scipy.signal.stft (fixtures/wideband/generat
       }
     });
   }
+
+  it('decimates the image for display by group maxima (consistency check)', async () => {
+    const source = await openTimeSeries({ path: wavPath });
+    const record = await bearingTimeRecord(source, fixtureOptions('music'));
+    const small = decimateImage(record, 2, 10);
+    expect(small.levelsDb).toHaveLength(2);
+    expect(small.levelsDb[0]).toHaveLength(10);
+    expect(small.bearingsDeg).toHaveLength(10);
+    // Blocks 0–2 of 5 form the first row group (edge round(5/2) = 3); grid points 0–35 of 361
+    // (edge round(361/10) = 36) the first column group.
+    const count = record.image.count;
+    let best = -Infinity;
+    for (const b of [0, 1, 2]) for (let i = 0; i < 36; i++) best = Math.max(best, record.image.levelsDb[b * count + i]);
+    expect(small.levelsDb[0][0]).toBe(best);
+    expect(small.timesS[0]).toBeCloseTo(0.25 * (0 + 1 + 1 + 2), 12);
+    // The global maximum survives.
+    const all = Math.max(...record.image.levelsDb);
+    expect(Math.max(...small.levelsDb.flat())).toBe(all);
+  });
 
   it('finds the generator’s two bearings (frequency-domain delays in numpy, docs/conventions.md §9 sign)', async () => {
     const source = await openTimeSeries({ path: wavPath });
