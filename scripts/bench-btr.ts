@@ -4,7 +4,9 @@
  *   npm run bench:btr            human-readable summary
  *   npm run bench:btr -- --json  one JSON line: {"case": "btr-16ch-16k-300s", ...}
  *   --seconds N                  recording length (default 300)
- *   --keep PATH                  write the recording to PATH and keep it
+ *   --keep PATH                  write the recording to PATH and keep it (reused if it exists)
+ *   --workers N                  split the blocks over N worker threads (default 1); CPU time
+ *                                then counts every thread of the process
  *
  * Case: a 5-minute, 16-channel, 16 kHz, 16-bit PCM WAV (about 147 MiB), written
  * to a temporary file by a child process with the broadband simulator (two
@@ -17,16 +19,77 @@
  * Goal (issue 14): ≥ 20× real time, RSS ≤ 800 MB.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, openSync, rmSync, writeSync, closeSync } from 'node:fs';
+import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
+import { closeSync, existsSync, mkdtempSync, openSync, rmSync, writeSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { openTimeSeries } from '../lib/datasets/time-series';
-import { bearingTimeRecord, BroadbandSimulator } from '../lib/doa/wideband';
+import {
+  bearingTimeRecord,
+  blockCount,
+  BroadbandSimulator,
+  planWideband,
+  trackBearings,
+  type BearingTimeBlock,
+  type WidebandOptions,
+} from '../lib/doa/wideband';
 
 const FS = 16000;
 const M = 16;
 const C = 1500;
 const SPACING_M = C / (2 * 4000); // half a wavelength at 4 kHz
+
+const OPTIONS: WidebandOptions = {
+  elements: M,
+  spacingM: SPACING_M,
+  propagationSpeedMps: C,
+  band: { lowHz: 1000, highHz: 4000 },
+  blockSeconds: 1,
+  blockOverlap: 0.5,
+  fftLength: 1024,
+  hop: 512,
+  window: 'hann',
+  method: 'music',
+  sourceCount: 2,
+};
+
+/** Worker body: one block range of the file; posts the blocks back. */
+async function workerMain(): Promise<void> {
+  const { file, first, count } = workerData as { file: string; first: number; count: number };
+  const source = await openTimeSeries({ path: file, maxBytes: 1024 * 1024 * 1024 });
+  const rec = await bearingTimeRecord(source, OPTIONS, { blockRange: { first, count }, yieldEvery: 0 });
+  parentPort!.postMessage({ blocks: rec.blocks, rows: rec.image.levelsDb.length });
+}
+
+/** Splits the blocks over `workers` threads of this process and tracks the joined blocks. */
+async function recordWithWorkers(
+  file: string,
+  workers: number,
+): Promise<{ blocks: number; bins: number; frames: number; tracks: number }> {
+  const probe = await openTimeSeries({ path: file, maxBytes: 1024 * 1024 * 1024 });
+  const plan = planWideband(OPTIONS, probe);
+  const total = blockCount(plan, probe.samplesPerChannel);
+  await probe.close();
+  const parts: Promise<BearingTimeBlock[]>[] = [];
+  for (let w = 0; w < workers; w++) {
+    const first = Math.round((w * total) / workers);
+    const count = Math.round(((w + 1) * total) / workers) - first;
+    parts.push(
+      new Promise((resolve, reject) => {
+        // The worker loads this TypeScript file through tsx's CommonJS hook.
+        const boot = `require('tsx/cjs'); require(${JSON.stringify(__filename)});`;
+        const worker = new Worker(boot, { eval: true, workerData: { file, first, count } });
+        worker.once('message', (m: { blocks: BearingTimeBlock[] }) => resolve(m.blocks));
+        worker.once('error', reject);
+      }),
+    );
+  }
+  const blocks = (await Promise.all(parts)).flat();
+  const tracks = trackBearings(
+    blocks.map((b) => ({ tS: 0.5 * (b.startS + b.endS), bearingsDeg: b.bearingsDeg, stdDeg: b.stdDeg })),
+  );
+  return { blocks: blocks.length, bins: plan.bins.length, frames: plan.framesPerBlock, tracks: tracks.length };
+}
 
 function arg(name: string): string | undefined {
   const i = process.argv.indexOf(name);
@@ -104,44 +167,47 @@ async function main(): Promise<void> {
     return;
   }
   const json = process.argv.includes('--json');
+  const workers = Number(arg('--workers') ?? 1);
   const keep = arg('--keep');
   const dir = keep ? null : mkdtempSync(path.join(os.tmpdir(), 'bench-btr-'));
   const file = keep ?? path.join(dir!, 'recording.wav');
   try {
     const g0 = performance.now();
-    const child = spawnSync(
-      process.execPath,
-      [...process.execArgv, __filename, '--write', file, '--seconds', String(seconds)],
-      {
-        stdio: ['ignore', 'inherit', 'inherit'],
-      },
-    );
-    if (child.status !== 0) throw new Error(`writing the recording failed (${child.status ?? child.signal})`);
+    if (!(keep && existsSync(keep))) {
+      const child = spawnSync(
+        process.execPath,
+        [...process.execArgv, __filename, '--write', file, '--seconds', String(seconds)],
+        {
+          stdio: ['ignore', 'inherit', 'inherit'],
+        },
+      );
+      if (child.status !== 0) throw new Error(`writing the recording failed (${child.status ?? child.signal})`);
+    }
     const generateS = (performance.now() - g0) / 1000;
     const loadBefore = os.loadavg()[0];
     const rssBefore = process.memoryUsage().rss;
     const t0 = performance.now();
     const cpu0 = process.cpuUsage();
-    const source = await openTimeSeries({ path: file, maxBytes: 1024 * 1024 * 1024 });
-    const fileMb = (source.samplesPerChannel * M * 2) / 1e6;
-    const record = await bearingTimeRecord(source, {
-      elements: M,
-      spacingM: SPACING_M,
-      propagationSpeedMps: C,
-      band: { lowHz: 1000, highHz: 4000 },
-      blockSeconds: 1,
-      blockOverlap: 0.5,
-      fftLength: 1024,
-      hop: 512,
-      window: 'hann',
-      method: 'music',
-      sourceCount: 2,
-    });
+    let summary: { blocks: number; bins: number; frames: number; tracks: number };
+    if (workers > 1) summary = await recordWithWorkers(file, workers);
+    else {
+      const record = await bearingTimeRecord(
+        await openTimeSeries({ path: file, maxBytes: 1024 * 1024 * 1024 }),
+        OPTIONS,
+      );
+      summary = {
+        blocks: record.blocks.length,
+        bins: record.bins.count,
+        frames: record.framesPerBlock,
+        tracks: record.tracks.length,
+      };
+    }
+    const fileMb = (seconds * FS * M * 2) / 1e6;
     const elapsed = (performance.now() - t0) / 1000;
     const cpu = process.cpuUsage(cpu0);
     const cpuSeconds = (cpu.user + cpu.system) / 1e6;
     const row = {
-      case: `btr-${M}ch-${FS / 1000}k-${seconds}s`,
+      case: `btr-${M}ch-${FS / 1000}k-${seconds}s${workers > 1 ? `-${workers}workers` : ''}`,
       seconds: Number(elapsed.toFixed(2)),
       realTimeFactor: Number((seconds / elapsed).toFixed(1)),
       cpuSeconds: Number(cpuSeconds.toFixed(2)),
@@ -151,10 +217,10 @@ async function main(): Promise<void> {
       rssBeforeMb: Math.round(rssBefore / 1e6),
       goalRssMb: 800,
       fileMb: Number(fileMb.toFixed(1)),
-      blocks: record.blocks.length,
-      bins: record.bins.count,
-      framesPerBlock: record.framesPerBlock,
-      tracks: record.tracks.length,
+      blocks: summary.blocks,
+      bins: summary.bins,
+      framesPerBlock: summary.frames,
+      tracks: summary.tracks,
       loadAverage1m: [Number(loadBefore.toFixed(2)), Number(os.loadavg()[0].toFixed(2))],
       cpus: os.cpus().length,
       generateSeconds: Number(generateS.toFixed(1)),
@@ -173,7 +239,7 @@ async function main(): Promise<void> {
   }
 }
 
-main().catch((error: unknown) => {
+(isMainThread ? main() : workerMain()).catch((error: unknown) => {
   console.error(error);
   process.exit(1);
 });

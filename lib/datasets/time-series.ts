@@ -199,6 +199,12 @@ export async function openTimeSeries(options: TimeSeriesOptions): Promise<TimeSe
       }
       return done;
     },
+    async seek(sample) {
+      if (!Number.isInteger(sample) || sample < 0 || sample > layout.samplesPerChannel) {
+        throw new RangeError(`seek: sample ${sample} lies outside 0 … ${layout.samplesPerChannel}`);
+      }
+      position = sample;
+    },
     async close() {
       if (closed) return;
       closed = true;

@@ -32,7 +32,7 @@ export interface BearingTimeRecord {
   channels: number;
   blocks: BearingTimeBlock[];
   tracks: Track[];
-  /** Rows of the image: levelsDb[b·count + i] = 10·log10 P_b(θ_i), the normalised wideband spectrum. */
+  /** Rows of the image: levelsDb[j·count + i] = 10·log10 P(θ_i) of blocks[j], the normalised wideband spectrum. */
   image: { startDeg: number; stepDeg: number; count: number; levelsDb: Float32Array };
   bins: { count: number; lowHz: number; highHz: number; gratingLobeBins: number; excludedBins: number };
   framesPerBlock: number;
@@ -50,24 +50,53 @@ export interface RecordHooks {
   tracker?: TrackerOptions;
   /** Await a macrotask every this many blocks (default 4; 0 = never). */
   yieldEvery?: number;
+  /**
+   * Only blocks first … first + count − 1 (0-based; default all), so a worker pool can share a
+   * recording: the source must support `seek`. Block indices and times stay those of the whole
+   * recording. Tracks are formed over the blocks analysed; to track a recording split across
+   * workers, concatenate the blocks in order and call trackBearings once.
+   */
+  blockRange?: { first: number; count: number };
 }
 
 function checkAborted(signal: AbortSignal | undefined): void {
   if (signal?.aborted) throw signal.reason ?? new Error('aborted');
 }
 
+/** The record of a recording. The source is closed when the promise settles, also on errors. */
 export async function bearingTimeRecord(
   source: SampleSource,
   options: WidebandOptions,
   hooks: RecordHooks = {},
 ): Promise<BearingTimeRecord> {
+  try {
+    return await recordBlocks(source, options, hooks);
+  } finally {
+    await source.close();
+  }
+}
+
+async function recordBlocks(source: SampleSource, options: WidebandOptions, hooks: RecordHooks): Promise<BearingTimeRecord> {
   const plan: WidebandPlan = planWideband(options, { sampleRate: source.sampleRate, channels: source.channels });
-  const total = blockCount(plan, source.samplesPerChannel);
-  if (total === 0) {
+  const all = blockCount(plan, source.samplesPerChannel);
+  if (all === 0) {
     throw new WidebandInputError(
       'blockSeconds',
       `the recording lasts ${(source.samplesPerChannel / source.sampleRate).toFixed(3)} s (${source.samplesPerChannel} samples), shorter than one block of ${options.blockSeconds} s`,
     );
+  }
+  const first = hooks.blockRange?.first ?? 0;
+  const total = hooks.blockRange?.count ?? all;
+  if (!Number.isInteger(first) || !Number.isInteger(total) || first < 0 || total < 1 || first + total > all) {
+    throw new WidebandInputError(
+      'blockRange',
+      `blockRange {first: ${first}, count: ${total}} does not fit the ${all} blocks of this recording`,
+    );
+  }
+  if (first > 0) {
+    if (!source.seek)
+      throw new WidebandInputError('blockRange', 'this sample source cannot seek, so blockRange must start at 0');
+    await source.seek(first * plan.stepSamples);
   }
   const analyzer = new BlockAnalyzer(plan);
   const m = plan.elements;
@@ -93,13 +122,14 @@ export async function bearingTimeRecord(
   const yieldEvery = hooks.yieldEvery ?? 4;
   const fs = plan.sampleRate;
   try {
-    for (let b = 0; b < total; b++) {
+    for (let j = 0; j < total; j++) {
+      const b = first + j;
       checkAborted(hooks.signal);
       let need: number;
       let at: number;
-      if (b === 0 || step >= bl) {
+      if (j === 0 || step >= bl) {
         // First block, or blocks that do not overlap: skip the gap, then read a whole block.
-        if (b > 0 && step > bl) await skip(source, buffers, step - bl);
+        if (j > 0 && step > bl) await skip(source, buffers, step - bl);
         need = bl;
         at = 0;
       } else {
@@ -115,7 +145,7 @@ export async function bearingTimeRecord(
         );
       }
       const analysis = analyzer.analyze(buffers);
-      const row = levels.subarray(b * count, (b + 1) * count);
+      const row = levels.subarray(j * count, (j + 1) * count);
       for (let i = 0; i < count; i++) row[i] = 10 * Math.log10(analysis.spectrum[i]);
       const block: BearingTimeBlock = {
         index: b,
@@ -128,8 +158,8 @@ export async function bearingTimeRecord(
       };
       blocks.push(block);
       hooks.onBlock?.(block, analysis);
-      hooks.onProgress?.(b + 1, total);
-      if (yieldEvery > 0 && (b + 1) % yieldEvery === 0) await new Promise((r) => setTimeout(r, 0));
+      hooks.onProgress?.(j + 1, total);
+      if (yieldEvery > 0 && (j + 1) % yieldEvery === 0) await new Promise((r) => setTimeout(r, 0));
     }
   } finally {
     await source.close();

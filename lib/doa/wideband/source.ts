@@ -21,6 +21,8 @@ export interface SampleSource {
    * error (e.g. a truncated file).
    */
   read(out: Float32Array[], offset: number, count: number): Promise<number>;
+  /** Moves the read position to sample `sample` (0-based), if the source supports it. */
+  seek?(sample: number): Promise<void>;
   /** Releases the file, if any. Safe to call twice. */
   close(): Promise<void>;
 }
@@ -43,6 +45,9 @@ export function memorySampleSource(channels: ArrayLike<number>[], sampleRate: nu
       }
       position += take;
       return take;
+    },
+    async seek(sample) {
+      position = Math.max(0, Math.min(total, Math.floor(sample)));
     },
     async close() {},
   };

@@ -112,6 +112,21 @@ describe('wideband spectrum against scipy.signal.stft (fixtures/wideband/generat
     expect(Math.max(...small.levelsDb.flat())).toBe(all);
   });
 
+  it('a block range of a seeking source gives the same blocks and rows as the whole record (consistency check)', async () => {
+    const whole = await bearingTimeRecord(await openTimeSeries({ path: wavPath }), fixtureOptions('music'));
+    const part = await bearingTimeRecord(await openTimeSeries({ path: wavPath }), fixtureOptions('music'), {
+      blockRange: { first: 2, count: 3 },
+    });
+    expect(part.blocks).toEqual(whole.blocks.slice(2));
+    const count = whole.image.count;
+    expect(Array.from(part.image.levelsDb)).toEqual(Array.from(whole.image.levelsDb.subarray(2 * count)));
+    await expect(
+      bearingTimeRecord(await openTimeSeries({ path: wavPath }), fixtureOptions('music'), {
+        blockRange: { first: 4, count: 2 },
+      }),
+    ).rejects.toMatchObject({ field: 'blockRange' });
+  });
+
   it('finds the generator’s two bearings (frequency-domain delays in numpy, docs/conventions.md §9 sign)', async () => {
     const source = await openTimeSeries({ path: wavPath });
     const record = await bearingTimeRecord(source, { ...fixtureOptions('music'), bearingEstimator: 'per-bin-music' });
