@@ -76,7 +76,11 @@ export async function bearingTimeRecord(
   }
 }
 
-async function recordBlocks(source: SampleSource, options: WidebandOptions, hooks: RecordHooks): Promise<BearingTimeRecord> {
+async function recordBlocks(
+  source: SampleSource,
+  options: WidebandOptions,
+  hooks: RecordHooks,
+): Promise<BearingTimeRecord> {
   const plan: WidebandPlan = planWideband(options, { sampleRate: source.sampleRate, channels: source.channels });
   const all = blockCount(plan, source.samplesPerChannel);
   if (all === 0) {
