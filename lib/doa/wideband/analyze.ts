@@ -35,10 +35,11 @@
  *  w_k,i = 1/CRB_k,i, the inverse of the per-bin stochastic CRB at the wideband
  *  peak with the estimated powers (inverse-variance weighting).
  *
- * ±σ: the wideband CRB (crb.ts) at the block's bearings, with per-bin noise
+ * ±σ: the wideband CRB (crb.ts) at the (refined) wideband peaks, with per-bin noise
  * σ̂_k² = mean of the M − K smallest eigenvalues and powers
  * p̂_k = max(0, diag(A⁺(R_k − σ̂_k²I)A⁺ᴴ)) — the same plug-in rule as the
- * narrowband estimate runs — and the redundancy η of crb.ts.
+ * narrowband estimate runs — and the redundancy η of crb.ts. The per-bin Fisher
+ * informations are computed once and serve both as weights and, summed, as the bound.
  */
 import FFT from 'fft.js';
 import { RAD_PER_DEG } from '../angles';
