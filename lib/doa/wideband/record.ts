@@ -170,7 +170,7 @@ async function recordBlocks(
   }
   const tracks = trackBearings(
     blocks.map((bk) => ({ tS: 0.5 * (bk.startS + bk.endS), bearingsDeg: bk.bearingsDeg, stdDeg: bk.stdDeg })),
-    hooks.tracker,
+    { mergeDeg: defaultMergeDeg(plan), ...hooks.tracker },
   );
   return {
     sampleRate: fs,
@@ -189,6 +189,16 @@ async function recordBlocks(
     crbRedundancy: analyzer.redundancy,
     warnings,
   };
+}
+
+/**
+ * The tracker's merge distance for a plan: the broadside Rayleigh gap asin(min(1, 1/(M·d)))
+ * (docs/conventions.md §5) at the spacing of the middle bin, in degrees. Closer than about
+ * this, two contacts often give one peak in the wideband spectrum.
+ */
+export function defaultMergeDeg(plan: Pick<WidebandPlan, 'elements' | 'binSpacing'>): number {
+  const d = plan.binSpacing[plan.binSpacing.length >> 1];
+  return Math.asin(Math.min(1, 1 / (plan.elements * d))) / (Math.PI / 180);
 }
 
 async function skip(source: SampleSource, buffers: Float32Array[], count: number): Promise<void> {

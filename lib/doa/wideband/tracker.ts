@@ -38,7 +38,7 @@ export interface TrackerOptions {
   gateSigmas?: number;
   confirmHits?: number;
   maxMissed?: number;
-  /** Two tracks predicted this close (degrees) may share one unresolved peak; default 6. */
+  /** Two tracks predicted this close (degrees) may share one unresolved peak; default 6 (bearingTimeRecord passes the array's Rayleigh gap, defaultMergeDeg). */
   mergeDeg?: number;
 }
 
