@@ -10,6 +10,7 @@ import {
   bearingTimeRecord,
   binFisherInformation,
   decimateImage,
+  defaultMergeDeg,
   kalataBeta,
   memorySampleSource,
   planWideband,
@@ -433,6 +434,15 @@ describe('tracks from a simulated recording: crossing contacts and a late one', 
 });
 
 describe('α–β tracker (tracker.ts)', () => {
+  it('a record merges tracks closer than the broadside Rayleigh gap asin(1/(M·d)) of docs/conventions.md §5 at the middle bin', () => {
+    const plan = planWideband(
+      { ...fixtureOptions('music') },
+      { sampleRate: reference.sampleRate, channels: reference.elements },
+    );
+    const d = plan.binSpacing[plan.binSpacing.length >> 1];
+    expect(defaultMergeDeg(plan)).toBeCloseTo((Math.asin(1 / (reference.elements * d)) * 180) / Math.PI, 12);
+  });
+
   it("uses Kalata's steady-state relation β = 2(2 − α) − 4√(1 − α) by default (Kalata 1984)", () => {
     expect(kalataBeta(0.5)).toBeCloseTo(3 - 2 * Math.SQRT2, 12);
   });
