@@ -8,7 +8,8 @@
  * State per track: bearing θ (degrees) and rate v (degrees per second). At each
  * block time t (the block's centre) every track predicts θ̂ = θ + v·Δt. A
  * measurement z may update a track when |z − θ̂| ≤ gate, with
- * gate = gateDeg + gateSigmas·σ_z (σ_z the block's ±σ). Pairs inside the gates
+ * gate = gateDeg + gateSigmas·σ_z + gateGrowthDegPerS·(t − t_last) (σ_z the block's ±σ,
+ * t_last the time of the track's last point: the gate grows while a track coasts). Pairs inside the gates
  * are assigned greedily in order of increasing |z − θ̂| (each track and each
  * measurement at most once). An assigned track updates with the residual
  * r = z − θ̂: θ = θ̂ + α·r, v = v + β·r/Δt. The second point of a track sets
@@ -24,11 +25,14 @@
  * unresolved peak. It updates neither and starts no track; both coast on their
  * predictions without counting a miss, keep their rates through the merge and
  * pick up their own bearings on the far side (a simple form of the
- * unresolved-measurement idea discussed by Bar-Shalom & Fortmann 1988).
+ * unresolved-measurement idea discussed by Bar-Shalom & Fortmann 1988). On entering
+ * a merge, each track's rate is reset to the least-squares slope of its points of the
+ * last `mergeRateWindowS` seconds, because the half-merged peaks of the approach pull
+ * the α–β rate toward the other track.
  *
  * Defaults: α = 0.5 and β from Kalata's steady-state relation
  * β = 2(2 − α) − 4·√(1 − α) (= 0.172); gateDeg 2°, gateSigmas 3, confirmHits 3,
- * maxMissed 3, mergeDeg 6°. Identities survive a crossing as long as the rates differ.
+ * maxMissed 3, mergeDeg 6°, gateGrowthDegPerS 0.05, mergeRateWindowS 30. Identities survive a crossing as long as the rates differ.
  */
 export interface TrackerOptions {
   alpha?: number;
@@ -40,6 +44,10 @@ export interface TrackerOptions {
   maxMissed?: number;
   /** Two tracks predicted this close (degrees) may share one unresolved peak; default 6 (bearingTimeRecord passes the array's Rayleigh gap, defaultMergeDeg). */
   mergeDeg?: number;
+  /** The gate widens by this much per second since the track's last point (rate uncertainty while coasting); default 0.05 °/s. */
+  gateGrowthDegPerS?: number;
+  /** Entering a merge, the rate becomes the least-squares slope of the points of this many seconds; default 30. */
+  mergeRateWindowS?: number;
 }
 
 export interface TrackInputBlock {
@@ -79,6 +87,7 @@ interface Working {
   hits: number;
   missed: number;
   confirmed: boolean;
+  merging: boolean;
   id: number;
   points: TrackPoint[];
 }
@@ -92,6 +101,8 @@ export function trackBearings(blocks: TrackInputBlock[], options: TrackerOptions
   const confirmHits = options.confirmHits ?? 3;
   const maxMissed = options.maxMissed ?? 3;
   const mergeDeg = options.mergeDeg ?? 6;
+  const gateGrowthDegPerS = options.gateGrowthDegPerS ?? 0.05;
+  const mergeRateWindowS = options.mergeRateWindowS ?? 30;
   const active: Working[] = [];
   const finished: Working[] = [];
   let nextId = 1;
@@ -105,7 +116,10 @@ export function trackBearings(blocks: TrackInputBlock[], options: TrackerOptions
       const pred = tr.theta + tr.rate * (t - tr.lastT);
       for (let j = 0; j < z.length; j++) {
         const sigma = block.stdDeg?.[j];
-        const gate = gateDeg + gateSigmas * (sigma !== undefined && Number.isFinite(sigma) ? sigma : 0);
+        const gate =
+          gateDeg +
+          gateSigmas * (sigma !== undefined && Number.isFinite(sigma) ? sigma : 0) +
+          gateGrowthDegPerS * (t - tr.lastT);
         const dist = Math.abs(z[j] - pred);
         if (dist <= gate) pairs.push({ tr: i, me: j, dist });
       }
@@ -138,6 +152,16 @@ export function trackBearings(blocks: TrackInputBlock[], options: TrackerOptions
     const trackUsed = new Set<number>();
     const measUsed = new Set<number>();
     for (const me of dropMeas) measUsed.add(me);
+    // Entering a merge: coast on the least-squares rate of the last mergeRateWindowS seconds of
+    // points, which the bias of the approaching, half-merged peaks disturbs less than the α–β rate.
+    for (const i of merged) {
+      const tr = active[i];
+      if (tr.merging) continue;
+      tr.merging = true;
+      const recent = tr.points.filter((p) => p.tS >= tr.lastT - mergeRateWindowS);
+      if (recent.length >= 3) tr.rate = slope(recent);
+    }
+    for (let i = 0; i < active.length; i++) if (!merged.has(i)) active[i].merging = false;
     for (const p of pairs) {
       if (trackUsed.has(p.tr) || measUsed.has(p.me) || merged.has(p.tr)) continue;
       trackUsed.add(p.tr);
@@ -186,6 +210,7 @@ export function trackBearings(blocks: TrackInputBlock[], options: TrackerOptions
         hits: 1,
         missed: 0,
         confirmed: confirmHits <= 1,
+        merging: false,
         id: 0,
         points: [{ tS: t, bearingDeg: z[j], measuredDeg: z[j], blockIndex }],
       };
