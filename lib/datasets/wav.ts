@@ -150,9 +150,32 @@ function checkOptions(options: ParseOptions): {
   return { fftLength, hop, window, frequencyHz };
 }
 
-export async function parseWavFile(options: ParseOptions, fileSize: number): Promise<ParsedSnapshots> {
+/** Sample layout of a WAV file, from its header (no sample read yet). */
+export interface WavLayout {
+  container: string;
+  channels: number;
+  sampleRate: number;
+  bitsPerSample: number;
+  sampleFormat: 'pcm' | 'float';
+  extensible: boolean;
+  littleEndian: boolean;
+  /** Bytes per multichannel sample (channels × bits/8). */
+  blockAlign: number;
+  /** Byte offset and declared size of the data chunk. */
+  dataStart: number;
+  dataSize: number;
+  /** Whole multichannel samples in the declared data chunk. */
+  samplesPerChannel: number;
+}
+
+/**
+ * Reads and checks the header: sample format (415 for the encodings this
+ * reader does not take), at least 2 channels, block align and sample rate.
+ * The data chunk itself is checked by checkWavData.
+ */
+export async function readWavLayout(path: string, fileSize: number): Promise<WavLayout> {
   if (fileSize === 0) throw invalid('empty-file', 'the WAV file is empty');
-  const header = await readWavHeader(options.path, fileSize);
+  const header = await readWavHeader(path, fileSize);
   const fmt = header.fmt;
   const extensible = fmt.audioFormat === WAVE_FORMAT_EXTENSIBLE;
   const formatTag = extensible ? (fmt.subformat?.[0] ?? 0) : fmt.audioFormat;
@@ -183,7 +206,6 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
       `WAV has ${channels} channel${channels === 1 ? '' : 's'}; an array needs at least 2`,
     );
   }
-  const opts = checkOptions(options);
   const bytesPerSample = bits / 8;
   const block = channels * bytesPerSample;
   if (fmt.blockAlign !== block) {
@@ -195,21 +217,101 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
   const sampleRate = fmt.sampleRate;
   if (!Number.isFinite(sampleRate) || sampleRate <= 0)
     throw invalid('corrupt', `WAV sample rate ${sampleRate} Hz is not valid`);
+  return {
+    container: header.container,
+    channels,
+    sampleRate,
+    bitsPerSample: bits,
+    sampleFormat,
+    extensible,
+    littleEndian: header.container !== 'RIFX',
+    blockAlign: block,
+    dataStart: header.dataStart,
+    dataSize: header.dataSize,
+    samplesPerChannel: Math.floor(header.dataSize / block),
+  };
+}
+
+/** 422 when the data chunk is empty or runs past the end of the file. */
+export function checkWavData(layout: WavLayout, fileSize: number): void {
+  if (layout.dataSize === 0) throw invalid('no-snapshots', 'WAV has no samples: the data chunk is empty');
+  const available = fileSize - layout.dataStart;
+  if (layout.dataSize > available) {
+    throw invalid(
+      'truncated',
+      `the WAV data chunk says ${layout.dataSize} bytes but only ${Math.max(0, available)} bytes follow; the file is cut short`,
+    );
+  }
+}
+
+/**
+ * Decodes `count` whole multichannel samples from `buf` (interleaved, as
+ * stored) into channel-major outputs: out[c][offset + s]. Integer PCM is
+ * scaled by 1/2^(bits−1), float is taken as is. `firstSample` is the 0-based
+ * index of the first decoded sample in the file, used in the message of a
+ * non-finite float sample (422 'not-finite', 1-based sample and channel).
+ */
+export function decodeWavSamples(
+  layout: WavLayout,
+  buf: Buffer,
+  count: number,
+  out: (Float32Array | Float64Array)[],
+  offset: number,
+  firstSample: number,
+): void {
+  const channels = layout.channels;
+  const bits = layout.bitsPerSample;
+  const little = layout.littleEndian;
+  const bytesPerSample = bits / 8;
+  const block = layout.blockAlign;
+  const view = new DataView(buf.buffer, buf.byteOffset, buf.length);
+  if (layout.sampleFormat === 'float') {
+    for (let c = 0; c < channels; c++) {
+      const dst = out[c];
+      for (let s = 0, o = c * 4; s < count; s++, o += block) {
+        const v = view.getFloat32(o, little);
+        if (!Number.isFinite(v)) {
+          throw invalid(
+            'not-finite',
+            `WAV sample ${firstSample + s + 1} of channel ${c + 1} is ${Number.isNaN(v) ? 'NaN' : 'infinite'}; all samples must be finite`,
+            { row: firstSample + s + 1, column: c + 1 },
+          );
+        }
+        dst[offset + s] = v;
+      }
+    }
+    return;
+  }
+  const scale = 1 / 2 ** (bits - 1);
+  for (let c = 0; c < channels; c++) {
+    const dst = out[c];
+    let o = c * bytesPerSample;
+    if (bits === 16) {
+      for (let s = 0; s < count; s++, o += block) dst[offset + s] = view.getInt16(o, little) * scale;
+    } else if (bits === 32) {
+      for (let s = 0; s < count; s++, o += block) dst[offset + s] = view.getInt32(o, little) * scale;
+    } else {
+      for (let s = 0; s < count; s++, o += block) {
+        const b0 = little ? buf[o] : buf[o + 2];
+        const b2 = little ? buf[o + 2] : buf[o];
+        dst[offset + s] = (((b2 << 24) >> 8) | (buf[o + 1] << 8) | b0) * scale; // sign-extended 24-bit
+      }
+    }
+  }
+}
+
+export async function parseWavFile(options: ParseOptions, fileSize: number): Promise<ParsedSnapshots> {
+  const layout = await readWavLayout(options.path, fileSize);
+  const { channels, sampleRate, samplesPerChannel } = layout;
+  const bits = layout.bitsPerSample;
+  const opts = checkOptions(options);
   if (opts.frequencyHz > sampleRate / 2) {
     throw invalid(
       'frequency-above-nyquist',
       `analysis frequency ${opts.frequencyHz} Hz is above the Nyquist frequency ${sampleRate / 2} Hz of this ${sampleRate} Hz recording`,
     );
   }
-  if (header.dataSize === 0) throw invalid('no-snapshots', 'WAV has no samples: the data chunk is empty');
-  const available = fileSize - header.dataStart;
-  if (header.dataSize > available) {
-    throw invalid(
-      'truncated',
-      `the WAV data chunk says ${header.dataSize} bytes but only ${Math.max(0, available)} bytes follow; the file is cut short`,
-    );
-  }
-  const samplesPerChannel = Math.floor(header.dataSize / block);
+  checkWavData(layout, fileSize);
   if (samplesPerChannel < opts.fftLength) {
     throw invalid(
       'too-few-samples',
@@ -221,17 +323,17 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
   const bin = stftBin(opts.frequencyHz, opts.fftLength, sampleRate);
   const stft = new NarrowbandStft(channels, opts.fftLength, opts.hop, opts.window, bin, frames);
 
-  const little = header.container !== 'RIFX';
-  const scale = sampleFormat === 'float' ? 1 : 1 / 2 ** (bits - 1);
+  const block = layout.blockAlign;
   const values = new Float64Array(channels);
+  const decoded = Array.from({ length: channels }, () => new Float64Array(Math.ceil(CHUNK_BYTES / block) + 1));
   const report = progressReporter(options, fileSize);
   const usedBytes = samplesPerChannel * block;
   let leftover = Buffer.alloc(0);
   let sampleIndex = 0;
-  let bytesRead = header.dataStart;
+  let bytesRead = layout.dataStart;
   const stream = createReadStream(options.path, {
-    start: header.dataStart,
-    end: header.dataStart + usedBytes - 1,
+    start: layout.dataStart,
+    end: layout.dataStart + usedBytes - 1,
     highWaterMark: CHUNK_BYTES,
   });
   try {
@@ -240,31 +342,12 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
       bytesRead += piece.length;
       const buf = leftover.length ? Buffer.concat([leftover, piece]) : piece;
       const whole = Math.floor(buf.length / block);
-      const view = new DataView(buf.buffer, buf.byteOffset, buf.length);
+      if (decoded[0].length < whole) {
+        for (let c = 0; c < channels; c++) decoded[c] = new Float64Array(whole);
+      }
+      decodeWavSamples(layout, buf, whole, decoded, 0, sampleIndex);
       for (let s = 0; s < whole; s++, sampleIndex++) {
-        let o = s * block;
-        for (let c = 0; c < channels; c++, o += bytesPerSample) {
-          let v: number;
-          if (sampleFormat === 'float') {
-            v = view.getFloat32(o, little);
-            if (!Number.isFinite(v)) {
-              throw invalid(
-                'not-finite',
-                `WAV sample ${sampleIndex + 1} of channel ${c + 1} is ${Number.isNaN(v) ? 'NaN' : 'infinite'}; all samples must be finite`,
-                { row: sampleIndex + 1, column: c + 1 },
-              );
-            }
-          } else if (bits === 16) {
-            v = view.getInt16(o, little);
-          } else if (bits === 32) {
-            v = view.getInt32(o, little);
-          } else {
-            const b0 = little ? buf[o] : buf[o + 2];
-            const b2 = little ? buf[o + 2] : buf[o];
-            v = ((b2 << 24) >> 8) | (buf[o + 1] << 8) | b0; // sign-extended 24-bit
-          }
-          values[c] = v * scale;
-        }
+        for (let c = 0; c < channels; c++) values[c] = decoded[c][s];
         stft.push(values);
       }
       leftover = Buffer.from(buf.subarray(whole * block));
@@ -289,8 +372,8 @@ export async function parseWavFile(options: ParseOptions, fileSize: number): Pro
       channels,
       sampleRate,
       bitsPerSample: bits,
-      sampleFormat,
-      extensible,
+      sampleFormat: layout.sampleFormat,
+      extensible: layout.extensible,
       samplesPerChannel,
       frequencyHz: opts.frequencyHz,
       fftLength: opts.fftLength,

@@ -50,8 +50,20 @@ export function musicDenominator(
   spacingWavelengths: number,
   anglesDeg: Float64Array,
 ): Float64Array {
+  return musicDenominatorFromPhasors(vectors, sourceCount, gridPhasors(anglesDeg, spacingWavelengths));
+}
+
+/**
+ * The same denominator on precomputed phasors cos μ_i, sin μ_i (gridPhasors), so a
+ * caller that evaluates many covariances at one spacing (the bins of a wideband
+ * record) computes the trigonometry once.
+ */
+export function musicDenominatorFromPhasors(
+  vectors: ComplexMatrix,
+  sourceCount: number,
+  phasors: { cos: Float64Array; sin: Float64Array },
+): Float64Array {
   const l = vectors.rows;
-  const phasors = gridPhasors(anglesDeg, spacingWavelengths);
   const c = diagonalSums(noiseProjector(vectors, sourceCount));
   const den = hermitianFormFromDiagonalSums(c, phasors);
   const threshold = 1e-6 * l * c.re[0];

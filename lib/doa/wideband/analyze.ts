@@ -1,0 +1,525 @@
+/**
+ * One block of a bearing–time record: STFT, per-bin covariance, source count,
+ * incoherent wideband spectrum, bearings with ±σ.
+ *
+ * Layouts: a block arrives as one sample array per channel (channel c = element
+ * c), B = plan.blockSamples samples each, values as read (any scale). Inside the
+ * block, frame t starts at sample t·hop; snapshot entry m of bin k in frame t is
+ * Σ_n w[n]·x_m[t·hop + n]·exp(−j2πkn/L) (docs/conventions.md §6; fft.js real FFT,
+ * windows of lib/datasets/stft.ts). Per bin, R_k = X_k·X_kᴴ/T over the block's T
+ * frames, exactly Hermitian (docs/conventions.md §2), and its Hermitian EVD
+ * (descending).
+ *
+ * Source count: given, or per bin the MDL/AIC rule of docs/conventions.md §3 on R_k's
+ * eigenvalues with N = T, combined as the lower median over the bins.
+ *
+ * Wideband spectrum (incoherent averaging of narrowband spectra, the incoherent
+ * signal-subspace approach of Wax, Shan & Kailath, IEEE Trans. ASSP 32(4), 1984):
+ * each bin's narrowband spectrum on the grid with its own d_k (docs/conventions.md §4:
+ * MUSIC 1/‖Enᴴa‖², MVDR 1/(aᴴR⁻¹a), Bartlett aᴴRa/M²) is divided by its own
+ * maximum over the grid (so every bin weighs the same and peaks at 1), then the
+ * bins are averaged: P(θ) = (1/F)·Σ_k P_k(θ)/max P_k. So P ≤ 1, and 0 dB means
+ * that every bin peaks at that bearing.
+ *
+ * Bearings:
+ *  - 'spectrum-peaks': the K largest peaks of P (docs/conventions.md §4), each refined
+ *    (by default) by golden-section search for the maximum of the same P, evaluated
+ *    off the grid, between the neighbouring grid points;
+ *  - 'per-bin-music': per bin, the minimum of ‖Enᴴa(u)‖² within half a Rayleigh gap
+ *    1/(2·M·d_k) in u = sin θ of each wideband peak (golden section; an estimate on
+ *    the edge of that interval is dropped); spectral MUSIC and root-MUSIC share
+ *    their asymptotic variance (Stoica & Nehorai 1989);
+ *  - 'per-bin-root-music': per bin, root-MUSIC (Barabell 1983, root-music.ts); each
+ *    wideband peak takes the nearest unused root within half a Rayleigh gap.
+ *  Per-bin estimates θ_k,i of source i are combined as Σ w θ / Σ w with
+ *  w_k,i = 1/CRB_k,i, the inverse of the per-bin stochastic CRB at the wideband
+ *  peak with the estimated powers (inverse-variance weighting).
+ *
+ * ±σ: the wideband CRB (crb.ts) at the (refined) wideband peaks, with per-bin noise
+ * σ̂_k² = mean of the M − K smallest eigenvalues and powers
+ * p̂_k = max(0, diag(A⁺(R_k − σ̂_k²I)A⁺ᴴ)) — the same plug-in rule as the
+ * narrowband estimate runs — and the redundancy η of crb.ts. The per-bin Fisher
+ * informations are computed once and serve both as weights and, summed, as the bound.
+ */
+import FFT from 'fft.js';
+import { RAD_PER_DEG } from '../angles';
+import { inverse as inverseMatrix, zeros, type ComplexMatrix } from '../linalg/complex';
+import { hermitianEigen } from '../linalg/hermitian-eigen';
+import { inverseFromEigen, conditionNumber, MVDR_CONDITION_LIMIT } from '../methods/beamformers';
+import { musicDenominatorFromPhasors, noiseProjector, SPECTRUM_DENOMINATOR_FLOOR } from '../methods/music';
+import { rootMusicElectricalAngles } from '../methods/root-music';
+import { estimateSourceCount } from '../methods/source-count';
+import { diagonalSums, gridAngles, gridPhasors, hermitianFormFromDiagonalSums, pickPeaks } from '../methods/spectrum';
+import { binFisherInformation, stdFromFisher, windowTimeFrequencyRedundancy } from './crb';
+import type { WidebandPlan } from './plan';
+
+export interface BlockBearings {
+  /** Source count used in the block. */
+  sourceCount: number;
+  /** Ascending, degrees. */
+  bearingsDeg: number[];
+  /** ±σ per bearing (√ wideband CRB), degrees. */
+  stdDeg: number[];
+  /** Warning codes raised in this block (e.g. 'fewer-peaks-than-sources'). */
+  warnings: string[];
+}
+
+export interface BlockAnalysis extends BlockBearings {
+  /** Wideband spectrum on the grid, linear, normalised as described above (≤ 1). */
+  spectrum: Float64Array;
+}
+
+/** Window of docs/conventions.md §6 (periodic). Same formulas as lib/datasets/stft.ts. */
+export function analysisWindow(kind: WidebandPlan['window'], length: number): Float64Array {
+  const w = new Float64Array(length);
+  for (let n = 0; n < length; n++) {
+    const c = Math.cos((2 * Math.PI * n) / length);
+    w[n] = kind === 'hann' ? 0.5 - 0.5 * c : kind === 'hamming' ? 0.54 - 0.46 * c : 1;
+  }
+  return w;
+}
+
+const GOLDEN = (Math.sqrt(5) - 1) / 2;
+
+/** Golden-section search for the maximum of f on [a, b]. */
+function goldenMax(f: (x: number) => number, a: number, b: number, iterations: number): number {
+  let x1 = b - GOLDEN * (b - a);
+  let x2 = a + GOLDEN * (b - a);
+  let f1 = f(x1);
+  let f2 = f(x2);
+  for (let i = 0; i < iterations; i++) {
+    if (f1 < f2) {
+      a = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = a + GOLDEN * (b - a);
+      f2 = f(x2);
+    } else {
+      b = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = b - GOLDEN * (b - a);
+      f1 = f(x1);
+    }
+  }
+  return 0.5 * (a + b);
+}
+
+/** Σ_l c_l z^l Hermitian form at one electrical angle μ (c_{−l} = conj c_l). */
+function formAt(cr: Float64Array, ci: Float64Array, offset: number, l: number, mu: number): number {
+  const zr = Math.cos(mu);
+  const zi = Math.sin(mu);
+  let qr = cr[offset + l - 1];
+  let qi = ci[offset + l - 1];
+  for (let k = l - 2; k >= 1; k--) {
+    const tr = qr * zr - qi * zi + cr[offset + k];
+    qi = qr * zi + qi * zr + ci[offset + k];
+    qr = tr;
+  }
+  return l === 1 ? cr[offset] : cr[offset] + 2 * (qr * zr - qi * zi);
+}
+
+export class BlockAnalyzer {
+  readonly plan: WidebandPlan;
+  readonly angles: Float64Array;
+  readonly window: Float64Array;
+  /** η of crb.ts for this plan. */
+  readonly redundancy: number;
+  private readonly fft: FFT;
+  private readonly fftIn: Float64Array;
+  private readonly fftOut: number[];
+  private readonly xRe: Float64Array; // [bin][frame][element]
+  private readonly xIm: Float64Array;
+  private readonly phasors: { cos: Float64Array; sin: Float64Array }[];
+  private readonly formRe: Float64Array; // [bin][lag] diagonal sums of the spectrum's matrix
+  private readonly formIm: Float64Array;
+  private readonly normaliser: Float64Array; // per bin: max over the grid of P_k
+  private readonly cov: ComplexMatrix;
+
+  constructor(plan: WidebandPlan) {
+    this.plan = plan;
+    this.angles = gridAngles(plan.grid);
+    this.window = analysisWindow(plan.window, plan.fftLength);
+    this.redundancy = windowTimeFrequencyRedundancy(this.window, plan.framesPerBlock, plan.blockSamples);
+    this.fft = new FFT(plan.fftLength);
+    this.fftIn = new Float64Array(plan.fftLength);
+    this.fftOut = this.fft.createComplexArray() as number[];
+    const nb = plan.bins.length;
+    const m = plan.elements;
+    this.xRe = new Float64Array(nb * plan.framesPerBlock * m);
+    this.xIm = new Float64Array(nb * plan.framesPerBlock * m);
+    this.phasors = Array.from(plan.binSpacing, (d) => gridPhasors(this.angles, d));
+    this.formRe = new Float64Array(nb * m);
+    this.formIm = new Float64Array(nb * m);
+    this.normaliser = new Float64Array(nb);
+    this.cov = zeros(m, m);
+  }
+
+  /** STFT of the block's frames into the per-bin snapshot arrays. */
+  private transform(channels: ArrayLike<number>[]): void {
+    const { fftLength: L, hop, framesPerBlock: T, elements: m, bins } = this.plan;
+    const w = this.window;
+    const input = this.fftIn;
+    const out = this.fftOut;
+    const nb = bins.length;
+    for (let c = 0; c < m; c++) {
+      const x = channels[c];
+      for (let t = 0; t < T; t++) {
+        const s0 = t * hop;
+        for (let n = 0; n < L; n++) input[n] = w[n] * x[s0 + n];
+        this.fft.realTransform(out, input);
+        for (let b = 0; b < nb; b++) {
+          const k = bins[b];
+          const at = (b * T + t) * m + c;
+          this.xRe[at] = out[2 * k];
+          this.xIm[at] = out[2 * k + 1];
+        }
+      }
+    }
+  }
+
+  /** R_b = X_b·X_bᴴ/T into this.cov (exactly Hermitian). */
+  private covariance(b: number): ComplexMatrix {
+    const { framesPerBlock: T, elements: m } = this.plan;
+    const re = this.cov.re;
+    const im = this.cov.im;
+    re.fill(0);
+    im.fill(0);
+    const xr = this.xRe;
+    const xi = this.xIm;
+    const base = b * T * m;
+    for (let t = 0; t < T; t++) {
+      const o = base + t * m;
+      for (let i = 0; i < m; i++) {
+        const ar = xr[o + i];
+        const ai = xi[o + i];
+        const row = i * m;
+        re[row + i] += ar * ar + ai * ai;
+        for (let k = i + 1; k < m; k++) {
+          const br = xr[o + k];
+          const bi = xi[o + k];
+          // x_i·conj(x_k)
+          re[row + k] += ar * br + ai * bi;
+          im[row + k] += ai * br - ar * bi;
+        }
+      }
+    }
+    const inv = 1 / T;
+    for (let i = 0; i < m; i++) {
+      re[i * m + i] *= inv;
+      for (let k = i + 1; k < m; k++) {
+        re[i * m + k] *= inv;
+        im[i * m + k] *= inv;
+        re[k * m + i] = re[i * m + k];
+        im[k * m + i] = -im[i * m + k];
+      }
+    }
+    return this.cov;
+  }
+
+  /** Analyses one block; `channels[c]` holds at least plan.blockSamples samples of channel c. */
+  analyze(channels: ArrayLike<number>[]): BlockAnalysis {
+    const plan = this.plan;
+    const { elements: m, framesPerBlock: T, bins, binSpacing, method } = plan;
+    const nb = bins.length;
+    const g = this.angles.length;
+    this.transform(channels);
+
+    const covs: ComplexMatrix[] = new Array(nb);
+    const eigs: { values: Float64Array; vectors: ComplexMatrix }[] = new Array(nb);
+    const counts = new Int32Array(nb);
+    for (let b = 0; b < nb; b++) {
+      const r = this.covariance(b);
+      covs[b] = { rows: m, cols: m, re: r.re.slice(), im: r.im.slice() };
+      const e = hermitianEigen(covs[b]);
+      eigs[b] = e;
+      if (plan.sourceCount === null) counts[b] = estimateSourceCount(e.values, T, plan.sourceCountRule);
+    }
+    let k: number;
+    if (plan.sourceCount !== null) k = plan.sourceCount;
+    else {
+      const sorted = Array.from(counts).sort((a, c) => a - c);
+      k = sorted[(sorted.length - 1) >> 1];
+    }
+    k = Math.min(k, m - 1);
+
+    const warnings = new Set<string>();
+    const spectrum = new Float64Array(g);
+    for (let b = 0; b < nb; b++) {
+      const values = this.binSpectrum(b, covs[b], eigs[b], k, method, warnings);
+      let mx = 0;
+      for (let i = 0; i < g; i++) if (values[i] > mx) mx = values[i];
+      this.normaliser[b] = mx > 0 ? mx : 1;
+      const inv = 1 / this.normaliser[b];
+      for (let i = 0; i < g; i++) spectrum[i] += values[i] * inv;
+    }
+    const invBins = 1 / nb;
+    for (let i = 0; i < g; i++) spectrum[i] *= invBins;
+
+    if (k === 0) return { sourceCount: 0, bearingsDeg: [], stdDeg: [], warnings: [...warnings], spectrum };
+
+    // Wideband peaks.
+    const peakIdx = pickPeaks(spectrum, k);
+    if (peakIdx.length < k) warnings.add('fewer-peaks-than-sources');
+    const peaks = peakIdx.map((i) => this.angles[i]);
+    if (plan.refinePeaks || plan.estimator !== 'spectrum-peaks') {
+      const step = plan.grid.stepDeg;
+      for (let p = 0; p < peaks.length; p++) {
+        const lo = Math.max(-90, peaks[p] - step);
+        const hi = Math.min(90, peaks[p] + step);
+        peaks[p] = goldenMax((th) => this.widebandValue(th, method), lo, hi, 40);
+      }
+    }
+    const noise = new Float64Array(nb);
+    for (let b = 0; b < nb; b++) {
+      let s = 0;
+      for (let j = k; j < m; j++) s += Math.max(eigs[b].values[j], 0);
+      noise[b] = s / (m - k);
+    }
+    // Per-bin Fisher information at the wideband peaks, with the plug-in powers: the weights of
+    // the per-bin estimators and, summed, the block's ±σ (the shift from the peaks to the final
+    // bearings is far below the bound's scale).
+    const q = peaks.length;
+    const theta0 = Float64Array.from(peaks, (p) => p * RAD_PER_DEG);
+    const fishers: (Float64Array | null)[] = new Array(nb);
+    const total = new Float64Array(q * q);
+    for (let b = 0; b < nb; b++) {
+      const powers = estimatePowers(covs[b], noise[b], m, binSpacing[b], peaks);
+      const fi = powers.some((p) => p > 0) ? binFisherInformation(m, binSpacing[b], theta0, powers, noise[b], T) : null;
+      fishers[b] = fi;
+      if (fi) for (let i = 0; i < q * q; i++) total[i] += fi[i];
+    }
+    let bearings = peaks;
+    if (plan.estimator !== 'spectrum-peaks' && q > 0) {
+      bearings = this.perBinBearings(peaks, eigs, fishers, k, warnings);
+    }
+    const std = stdFromFisher(total, q, this.redundancy);
+    const order = bearings.map((_, i) => i).sort((a, c) => bearings[a] - bearings[c]);
+    return {
+      sourceCount: k,
+      bearingsDeg: order.map((i) => bearings[i]),
+      stdDeg: order.map((i) => std[i]),
+      warnings: [...warnings],
+      spectrum,
+    };
+  }
+
+  /** Narrowband spectrum of bin b on the grid; stores its Hermitian-form diagonal sums for off-grid use. */
+  private binSpectrum(
+    b: number,
+    r: ComplexMatrix,
+    eig: { values: Float64Array; vectors: ComplexMatrix },
+    k: number,
+    method: WidebandPlan['method'],
+    warnings: Set<string>,
+  ): Float64Array {
+    const m = r.rows;
+    const phasors = this.phasors[b];
+    let c: { re: Float64Array; im: Float64Array };
+    if (method === 'bartlett') c = diagonalSums(r);
+    else if (method === 'mvdr') {
+      const pseudo = !(conditionNumber(eig.values) <= MVDR_CONDITION_LIMIT);
+      if (pseudo) warnings.add('ill-conditioned-covariance');
+      c = diagonalSums(inverseFromEigen(eig.values, eig.vectors, pseudo));
+    } else c = diagonalSums(noiseProjector(eig.vectors, k));
+    this.formRe.set(c.re, b * m);
+    this.formIm.set(c.im, b * m);
+    let form = hermitianFormFromDiagonalSums(c, phasors);
+    if (method === 'bartlett') {
+      const inv = 1 / (m * m);
+      for (let i = 0; i < form.length; i++) form[i] *= inv;
+      return form;
+    }
+    if (method === 'music') {
+      // Near a null the Horner form loses relative accuracy: use the direct sum there (music.ts).
+      const threshold = 1e-6 * m * c.re[0];
+      for (let i = 0; i < form.length; i++) {
+        if (form[i] < threshold) {
+          form = musicDenominatorFromPhasors(eig.vectors, k, phasors);
+          break;
+        }
+      }
+    }
+    const p = new Float64Array(form.length);
+    for (let i = 0; i < form.length; i++) p[i] = 1 / Math.max(form[i], SPECTRUM_DENOMINATOR_FLOOR);
+    return p;
+  }
+
+  /** The wideband spectrum at one bearing (degrees), off the grid, with the block's normalisers. */
+  private widebandValue(thetaDeg: number, method: WidebandPlan['method']): number {
+    const { elements: m, binSpacing } = this.plan;
+    const u = Math.sin(thetaDeg * RAD_PER_DEG);
+    const nb = binSpacing.length;
+    let sum = 0;
+    for (let b = 0; b < nb; b++) {
+      const f = formAt(this.formRe, this.formIm, b * m, m, 2 * Math.PI * binSpacing[b] * u);
+      const p = method === 'bartlett' ? f / (m * m) : 1 / Math.max(f, SPECTRUM_DENOMINATOR_FLOOR);
+      sum += p / this.normaliser[b];
+    }
+    return sum / nb;
+  }
+
+  private perBinBearings(
+    peaks: number[],
+    eigs: { values: Float64Array; vectors: ComplexMatrix }[],
+    fishers: (Float64Array | null)[],
+    k: number,
+    warnings: Set<string>,
+  ): number[] {
+    const { elements: m, binSpacing, estimator } = this.plan;
+    const nb = binSpacing.length;
+    const q = peaks.length;
+    const u0 = peaks.map((p) => Math.sin(p * RAD_PER_DEG));
+    const sumW = new Float64Array(q);
+    const sumWU = new Float64Array(q);
+    for (let b = 0; b < nb; b++) {
+      const d = binSpacing[b];
+      const half = 1 / (2 * m * d);
+      const est = new Float64Array(q).fill(NaN);
+      if (estimator === 'per-bin-music') {
+        for (let p = 0; p < q; p++) {
+          const lo = u0[p] - half;
+          const hi = u0[p] + half;
+          const f = (u: number) => -formAt(this.formRe, this.formIm, b * m, m, 2 * Math.PI * d * u);
+          const u = goldenMax(f, lo, hi, 40);
+          if (u - lo > 1e-6 * half && hi - u > 1e-6 * half && Math.abs(u) <= 1) est[p] = u;
+        }
+      } else {
+        const mus = rootMusicElectricalAngles(eigs[b].vectors, k, d);
+        const roots = Array.from(mus, (mu) => mu / (2 * Math.PI * d));
+        const used = new Set<number>();
+        for (let p = 0; p < q; p++) {
+          let best = -1;
+          for (let r = 0; r < roots.length; r++) {
+            if (used.has(r) || Math.abs(roots[r] - u0[p]) > half || Math.abs(roots[r]) > 1) continue;
+            if (best < 0 || Math.abs(roots[r] - u0[p]) < Math.abs(roots[best] - u0[p])) best = r;
+          }
+          if (best >= 0) {
+            used.add(best);
+            est[p] = roots[best];
+          }
+        }
+      }
+      const fisher = fishers[b];
+      if (!fisher) continue;
+      const crb = invertSymmetric(fisher, q);
+      for (let p = 0; p < q; p++) {
+        if (Number.isNaN(est[p]) || !crb) continue;
+        const v = crb[p * q + p];
+        if (!(v > 0) || !Number.isFinite(v)) continue;
+        const wgt = 1 / v;
+        sumW[p] += wgt;
+        sumWU[p] += wgt * Math.asin(est[p]);
+      }
+    }
+    const out: number[] = [];
+    for (let p = 0; p < q; p++) {
+      if (sumW[p] > 0) out.push(sumWU[p] / sumW[p] / RAD_PER_DEG);
+      else {
+        warnings.add('no-per-bin-estimate');
+        out.push(peaks[p]);
+      }
+    }
+    return out;
+  }
+}
+
+/** p̂ = max(0, diag(A⁺(R − σ²I)A⁺ᴴ)) at the given bearings (degrees) and spacing (wavelengths). */
+export function estimatePowers(r: ComplexMatrix, noise: number, m: number, d: number, bearingsDeg: number[]): number[] {
+  const k = bearingsDeg.length;
+  if (k === 0) return [];
+  const a = zeros(m, k);
+  for (let j = 0; j < k; j++) {
+    const mu = 2 * Math.PI * d * Math.sin(bearingsDeg[j] * RAD_PER_DEG);
+    for (let i = 0; i < m; i++) {
+      a.re[i * k + j] = Math.cos(mu * i);
+      a.im[i * k + j] = Math.sin(mu * i);
+    }
+  }
+  // G = AᴴA (K × K), then A⁺ = G⁻¹Aᴴ.
+  const gm = new Float64Array(2 * k * k);
+  for (let i = 0; i < k; i++) {
+    for (let j = 0; j < k; j++) {
+      let sr = 0;
+      let si = 0;
+      for (let e = 0; e < m; e++) {
+        const ar = a.re[e * k + i];
+        const ai = -a.im[e * k + i];
+        const br = a.re[e * k + j];
+        const bi = a.im[e * k + j];
+        sr += ar * br - ai * bi;
+        si += ar * bi + ai * br;
+      }
+      gm[2 * (i * k + j)] = sr;
+      gm[2 * (i * k + j) + 1] = si;
+    }
+  }
+  const ginv = invertComplex(gm, k);
+  if (!ginv) return new Array<number>(k).fill(0);
+  const out: number[] = [];
+  for (let s = 0; s < k; s++) {
+    // row s of A⁺: y_e = Σ_j Ginv[s, j]·conj(a_e,j)
+    const yr = new Float64Array(m);
+    const yi = new Float64Array(m);
+    for (let e = 0; e < m; e++) {
+      let sr = 0;
+      let si = 0;
+      for (let j = 0; j < k; j++) {
+        const gr = ginv[2 * (s * k + j)];
+        const gi = ginv[2 * (s * k + j) + 1];
+        const ar = a.re[e * k + j];
+        const ai = -a.im[e * k + j];
+        sr += gr * ar - gi * ai;
+        si += gr * ai + gi * ar;
+      }
+      yr[e] = sr;
+      yi[e] = si;
+    }
+    // y·(R − σ²I)·yᴴ
+    let total = 0;
+    for (let i = 0; i < m; i++) {
+      let tr = 0;
+      let ti = 0;
+      for (let j = 0; j < m; j++) {
+        const rr = r.re[i * m + j] - (i === j ? noise : 0);
+        const ri = r.im[i * m + j];
+        // (R·yᴴ)_i = Σ_j R_ij·conj(y_j)
+        tr += rr * yr[j] + ri * yi[j];
+        ti += ri * yr[j] - rr * yi[j];
+      }
+      total += yr[i] * tr - yi[i] * ti;
+    }
+    out.push(Math.max(0, total));
+  }
+  return out;
+}
+
+/** Inverse of a complex k × k matrix stored interleaved (re, im); null when singular. */
+function invertComplex(a: Float64Array, k: number): Float64Array | null {
+  const m = zeros(k, k);
+  for (let i = 0; i < k * k; i++) {
+    m.re[i] = a[2 * i];
+    m.im[i] = a[2 * i + 1];
+  }
+  try {
+    const inv = inverseMatrix(m);
+    const out = new Float64Array(2 * k * k);
+    for (let i = 0; i < k * k; i++) {
+      out[2 * i] = inv.re[i];
+      out[2 * i + 1] = inv.im[i];
+    }
+    return out;
+  } catch {
+    return null;
+  }
+}
+
+function invertSymmetric(a: Float64Array, k: number): Float64Array | null {
+  const m = zeros(k, k);
+  m.re.set(a);
+  try {
+    return inverseMatrix(m).re;
+  } catch {
+    return null;
+  }
+}
