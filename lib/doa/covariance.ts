@@ -15,7 +15,8 @@
  * four complex products per eight loads. The lower triangle is the conjugate,
  * so R is Hermitian by construction, which is exactly (R + Rᴴ)/2.
  */
-import { ComplexMatrix, assertSquare, zeros } from './linalg/complex';
+import { requireSquare } from './checks';
+import { ComplexMatrix, zeros } from './linalg/complex';
 import { DoaInputError } from './errors';
 
 export interface CovarianceAccumulatorOptions {
@@ -225,7 +226,7 @@ export function sampleCovarianceFromRows(rows: ComplexMatrix): ComplexMatrix {
  * R[i:i+L, i:i+L]. The effective array has L elements at the same spacing.
  */
 export function spatialSmoothing(r: ComplexMatrix, subarray: number): ComplexMatrix {
-  assertSquare(r, 'spatialSmoothing');
+  requireSquare(r, 'spatialSmoothing');
   const m = r.rows;
   if (!Number.isInteger(subarray) || subarray < 2 || subarray > m) {
     throw new DoaInputError(
@@ -256,7 +257,7 @@ export function spatialSmoothing(r: ComplexMatrix, subarray: number): ComplexMat
 
 /** R_fb = (R + J·conj(R)·J)/2, J the exchange matrix: (J R̄ J)[i,k] = conj(R[M−1−i, M−1−k]). */
 export function forwardBackward(r: ComplexMatrix): ComplexMatrix {
-  assertSquare(r, 'forwardBackward');
+  requireSquare(r, 'forwardBackward');
   const m = r.rows;
   const out = zeros(m, m);
   for (let i = 0; i < m; i++) {

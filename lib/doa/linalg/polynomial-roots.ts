@@ -17,7 +17,8 @@
  * by about √ε, which is why root-MUSIC is exact only to ~1e−7° on noise-free
  * data.
  */
-import { ComplexVector, assertFinite } from './complex';
+import { requireFiniteEntries } from '../checks';
+import { ComplexVector } from './complex';
 import { DoaInputError } from '../errors';
 import { balanceInPlace, hessenbergQrEigenvalues } from './general-eigen';
 
@@ -32,8 +33,8 @@ export function polynomialRoots(coefficients: ComplexVector, options: Polynomial
   if (cre.length !== cim.length) {
     throw new DoaInputError('bad-size', `polynomialRoots: ${cre.length} real parts but ${cim.length} imaginary parts`);
   }
-  assertFinite(cre, 'polynomialRoots: real part');
-  assertFinite(cim, 'polynomialRoots: imaginary part');
+  requireFiniteEntries(cre, 'polynomialRoots: real part');
+  requireFiniteEntries(cim, 'polynomialRoots: imaginary part');
   const polishSteps = options.polishSteps ?? 3;
   let first = 0;
   while (first < cre.length && cre[first] === 0 && cim[first] === 0) first++;
