@@ -27,6 +27,7 @@ import {
   requireFiniteArray,
   requirePositive,
   requirePositiveInteger,
+  requireFiniteEntries,
 } from '../checks';
 import { RAD_PER_DEG } from '../angles';
 
@@ -59,6 +60,8 @@ export interface Checked {
   d: number;
   theta: Float64Array; // radians
   powers: Float64Array;
+  /** Full K × K source covariance P (Hermitian, PSD); when absent P = diag(powers). */
+  sourceCovariance?: ComplexMatrix;
   noise: number;
   n: number;
 }
@@ -181,7 +184,21 @@ export function crbFromChecked(c: Checked, kind: BoundKind): CrbResult {
   }
   // B = P·AᴴR⁻¹A·P (stochastic) or P (deterministic).
   const b = zeros(k, k);
-  if (kind === 'stochastic') {
+  const pFull = c.sourceCovariance;
+  if (pFull) {
+    // Full P: B = P·G·(P·G + σ²I)⁻¹·P (stochastic) or P (deterministic).
+    if (kind === 'stochastic') {
+      const pg = multiply(pFull, g);
+      for (let i = 0; i < k; i++) pg.re[i * k + i] += c.noise;
+      const arA = multiply(g, inverse(pg));
+      const full = multiply(multiply(pFull, arA), pFull);
+      b.re.set(full.re);
+      b.im.set(full.im);
+    } else {
+      b.re.set(pFull.re);
+      b.im.set(pFull.im);
+    }
+  } else if (kind === 'stochastic') {
     const pgPlus = zeros(k, k);
     for (let i = 0; i < k; i++) {
       for (let j = 0; j < k; j++) {
@@ -246,6 +263,84 @@ export function deterministicCrb(input: BoundsInput): CrbResult {
 /** Either bound by name (default stochastic). */
 export function cramerRaoBound(input: BoundsInput, kind: BoundKind = 'stochastic'): CrbResult {
   return crbFromChecked(checkBoundsInput(input), requireBoundKind(kind));
+}
+
+export interface FullCovarianceBoundsInput {
+  elements: number;
+  spacingWavelengths: number;
+  /** Source bearings in degrees, strictly inside (−90, 90). */
+  bearingsDeg: ArrayLike<number>;
+  /**
+   * Source covariance P = E[s·sᴴ], K × K Hermitian positive semi-definite, linear power units;
+   * correlated (|P_ij| > 0) or coherent (|P_ij| = √(P_ii·P_jj)) sources allowed.
+   */
+  sourceCovariance: ComplexMatrix;
+  /** Linear noise power σ² > 0. */
+  noisePower: number;
+  /** Number of snapshots N ≥ 1. */
+  snapshots: number;
+}
+
+/** Relative tolerance of the Hermitian and positive-semi-definite checks on P. */
+const COVARIANCE_CHECK_TOLERANCE = 1e-9;
+
+/**
+ * Checks a source covariance: K × K, finite, Hermitian and with no eigen-direction clearly
+ * negative (2 × 2 principal minors ≥ −tol and positive diagonal, enough for the bound to exist).
+ */
+function checkSourceCovariance(p: ComplexMatrix, k: number): ComplexMatrix {
+  if (p === null || typeof p !== 'object' || !(p.re instanceof Float64Array) || !(p.im instanceof Float64Array))
+    throw new DoaInputError('bad-option', 'sourceCovariance must be a complex matrix {rows, cols, re, im}');
+  if (p.rows !== k || p.cols !== k || p.re.length !== k * k || p.im.length !== k * k)
+    throw new DoaInputError(
+      'bad-size',
+      `sourceCovariance is ${p.rows} × ${p.cols}; expected ${k} × ${k} (one row per bearing)`,
+    );
+  requireFiniteEntries(p.re, 'sourceCovariance (real part)');
+  requireFiniteEntries(p.im, 'sourceCovariance (imaginary part)');
+  let scale = 0;
+  for (let i = 0; i < k; i++) scale = Math.max(scale, Math.abs(p.re[i * k + i]));
+  const tol = COVARIANCE_CHECK_TOLERANCE * scale;
+  for (let i = 0; i < k; i++) {
+    if (!(p.re[i * k + i] > 0) || Math.abs(p.im[i * k + i]) > tol)
+      throw new DoaInputError('bad-value', `sourceCovariance[${i}][${i}] must be a real power greater than 0`);
+    for (let j = i + 1; j < k; j++) {
+      const dr = p.re[i * k + j] - p.re[j * k + i];
+      const di = p.im[i * k + j] + p.im[j * k + i];
+      if (Math.hypot(dr, di) > tol)
+        throw new DoaInputError('bad-value', `sourceCovariance is not Hermitian at [${i}][${j}] and [${j}][${i}]`);
+      const minor = p.re[i * k + i] * p.re[j * k + j] - (p.re[i * k + j] ** 2 + p.im[i * k + j] ** 2);
+      if (minor < -tol * scale)
+        throw new DoaInputError(
+          'bad-value',
+          `sourceCovariance is not positive semi-definite: |P[${i}][${j}]|² exceeds P[${i}][${i}]·P[${j}][${j}]`,
+        );
+    }
+  }
+  return p;
+}
+
+/**
+ * Stochastic (unconditional) CRB with a FULL source covariance P, for correlated or coherent
+ * sources: Stoica & Nehorai (1990), "Performance study of conditional and unconditional
+ * direction-of-arrival estimation", IEEE Trans. ASSP 38(10):1783–1795, the unconditional CRB
+ *   CRB = σ²/(2N) · {Re[(Dᴴ·P_A⊥·D) ⊙ (P·Aᴴ·R⁻¹·A·P)ᵀ]}⁻¹,  R = A·P·Aᴴ + σ²·I,
+ * with P the full source covariance (the paper's general form; P need not be diagonal). It is
+ * derived there for a non-singular P; Stoica, Larsson & Gershman (2001), IEEE SP Letters
+ * 8(5):148–150, show the same expression also holds for singular P, i.e. coherent sources
+ * [from memory]. Reduced to K × K algebra as above:
+ * AᴴR⁻¹A = G·(P·G + σ²I)⁻¹. With a diagonal P it equals `stochasticCrb` (tested).
+ */
+export function stochasticCrbFullCovariance(input: FullCovarianceBoundsInput): CrbResult {
+  if (input === null || typeof input !== 'object')
+    throw new DoaInputError('bad-option', 'the bound needs an input object');
+  const p = input.sourceCovariance;
+  const k = input.bearingsDeg?.length ?? 0;
+  const checkedP = checkSourceCovariance(p, k);
+  const powers = new Float64Array(k);
+  for (let i = 0; i < k; i++) powers[i] = checkedP.re[i * k + i];
+  const c = checkBoundsInput({ ...input, sourcePowers: powers });
+  return crbFromChecked({ ...c, sourceCovariance: checkedP }, 'stochastic');
 }
 
 /** Throws unless `kind` names a bound. */

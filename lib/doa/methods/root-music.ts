@@ -5,8 +5,11 @@
  *  - C = En·Enᴴ; c_l = the sum of the l-th diagonal, c_l = Σ_m C[m, m+l],
  *    l = −(L−1) … L−1 (so aᴴCa = Σ_l c_l·z^l on z = e^{jμ});
  *  - the polynomial Σ_l c_l·z^(l+L−1), of degree 2L−2;
- *  - drop roots with |arg z| > 2π·d; of those with |z| ≤ 1 keep the K closest
- *    to the unit circle; μ_k = arg z_k.
+ *  - pair every root z with its mate near 1/z̄ (pairReciprocalRoots), drop pairs
+ *    with |μ| > 2π·d, keep the K pairs closest to the unit circle; μ_k = the pair's
+ *    argument. The choice never depends on which side of the circle rounding put a
+ *    root; with fewer admissible pairs than K, fewer bearings come back with the
+ *    warning `fewer-roots-than-sources`.
  * Roots come from polynomial-roots.ts (companion matrix + Newton polish).
  */
 import { bearingsFromElectricalAngles } from '../angles';
@@ -37,6 +40,64 @@ export function rootMusicCoefficients(
   return { re, im };
 }
 
+export interface RootPair {
+  /** Electrical angle of the pair, radians: arg of the mean of its two members mapped inside the circle. */
+  mu: number;
+  /** Distance of the pair to the unit circle, (|ln|z_i|| + |ln|z_j||)/2; 0 for a root pair on the circle. */
+  distance: number;
+}
+
+/**
+ * Pairs the roots of a conjugate-palindromic polynomial as (z, 1/z̄). The root-MUSIC polynomial
+ * has c_{−l} = conj(c_l), so its roots come exactly in such pairs; rounding can move both members
+ * of a near-unit-circle pair to the same side of the circle, which is why no rule of the form
+ * "|z| ≤ 1" is used. Pairing is greedy on the symmetric cost (|z_j − 1/z̄_i| + |z_i − 1/z̄_j|)/2,
+ * smallest first (ties to the lower index pair), so the result does not depend on the root order
+ * beyond ties. Roots at 0 or non-finite roots have no mate and are left out.
+ */
+export function pairReciprocalRoots(re: ArrayLike<number>, im: ArrayLike<number>): RootPair[] {
+  const n = re.length;
+  // reflections 1/z̄ = z/|z|²
+  const rr = new Float64Array(n);
+  const ri = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const m2 = re[i] * re[i] + im[i] * im[i];
+    rr[i] = m2 > 0 ? re[i] / m2 : Infinity;
+    ri[i] = m2 > 0 ? im[i] / m2 : Infinity;
+  }
+  const candidates: { cost: number; i: number; j: number }[] = [];
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const cost = 0.5 * (Math.hypot(re[j] - rr[i], im[j] - ri[i]) + Math.hypot(re[i] - rr[j], im[i] - ri[j]));
+      if (Number.isFinite(cost)) candidates.push({ cost, i, j });
+    }
+  }
+  candidates.sort((a, b) => a.cost - b.cost || a.i - b.i || a.j - b.j);
+  const used = new Uint8Array(n);
+  const pairs: RootPair[] = [];
+  for (const c of candidates) {
+    if (used[c.i] || used[c.j]) continue;
+    used[c.i] = 1;
+    used[c.j] = 1;
+    // both members mapped inside the circle (z or 1/z̄, same argument), then averaged
+    const inside = (k: number): [number, number] => {
+      const m2 = re[k] * re[k] + im[k] * im[k];
+      return m2 > 1 ? [rr[k], ri[k]] : [re[k], im[k]];
+    };
+    const [ar, ai] = inside(c.i);
+    const [br, bi] = inside(c.j);
+    const mu = Math.atan2(ai + bi, ar + br);
+    const distance =
+      0.5 * (Math.abs(Math.log(Math.hypot(re[c.i], im[c.i]))) + Math.abs(Math.log(Math.hypot(re[c.j], im[c.j]))));
+    pairs.push({ mu, distance });
+  }
+  return pairs;
+}
+
+/**
+ * Electrical angles of the K root pairs nearest the unit circle among those with |μ| ≤ 2π·d,
+ * nearest first. Fewer than K come back when fewer admissible pairs exist (the caller warns).
+ */
 export function rootMusicElectricalAngles(
   vectors: ComplexMatrix,
   sourceCount: number,
@@ -44,14 +105,7 @@ export function rootMusicElectricalAngles(
 ): Float64Array {
   const roots = polynomialRoots(rootMusicCoefficients(vectors, sourceCount));
   const limit = 2 * Math.PI * spacingWavelengths;
-  const kept: { mu: number; distance: number }[] = [];
-  for (let i = 0; i < roots.re.length; i++) {
-    const mu = Math.atan2(roots.im[i], roots.re[i]);
-    if (Math.abs(mu) > limit) continue;
-    const mag = Math.hypot(roots.re[i], roots.im[i]);
-    if (mag > 1) continue;
-    kept.push({ mu, distance: 1 - mag });
-  }
+  const kept = pairReciprocalRoots(roots.re, roots.im).filter((p) => Math.abs(p.mu) <= limit);
   kept.sort((a, b) => a.distance - b.distance);
   return Float64Array.from(kept.slice(0, sourceCount).map((r) => r.mu));
 }
@@ -64,7 +118,7 @@ export function runRootMusic(input: MethodInput): MethodOutput {
   if (mus.length < input.sourceCount) {
     warnings.push({
       code: 'fewer-roots-than-sources',
-      message: `root-music: only ${mus.length} admissible root(s) inside the unit circle for ${input.sourceCount} source(s)`,
+      message: `root-music: only ${mus.length} admissible root pair(s) (|μ| ≤ 2π·d) for ${input.sourceCount} source(s)`,
     });
   }
   return { bearingsDeg, warnings };
