@@ -51,9 +51,9 @@ export interface RootPair {
  * Pairs the roots of a conjugate-palindromic polynomial as (z, 1/z̄). The root-MUSIC polynomial
  * has c_{−l} = conj(c_l), so its roots come exactly in such pairs; rounding can move both members
  * of a near-unit-circle pair to the same side of the circle, which is why no rule of the form
- * "|z| ≤ 1" is used. Pairing is greedy on the symmetric cost (|z_j − 1/z̄_i| + |z_i − 1/z̄_j|)/2,
- * smallest first (ties to the lower index pair), so the result does not depend on the root order
- * beyond ties. Roots at 0 or non-finite roots have no mate and are left out.
+ * "|z| ≤ 1" is used. Pairing is greedy on the symmetric cost |z_j − 1/z̄_i|² + |z_i − 1/z̄_j|²,
+ * smallest first (ties to the lower index pair), computed as repeated mutual-nearest-neighbour
+ * matching (the same result, O(n²) per round, usually one or two rounds). Roots at 0 or non-finite roots have no mate and are left out.
  */
 export function pairReciprocalRoots(re: ArrayLike<number>, im: ArrayLike<number>): RootPair[] {
   const n = re.length;
@@ -65,30 +65,69 @@ export function pairReciprocalRoots(re: ArrayLike<number>, im: ArrayLike<number>
     rr[i] = m2 > 0 ? re[i] / m2 : Infinity;
     ri[i] = m2 > 0 ? im[i] / m2 : Infinity;
   }
-  const candidates: { cost: number; i: number; j: number }[] = [];
-  for (let i = 0; i < n; i++) {
-    for (let j = i + 1; j < n; j++) {
-      const cost = 0.5 * (Math.hypot(re[j] - rr[i], im[j] - ri[i]) + Math.hypot(re[i] - rr[j], im[i] - ri[j]));
-      if (Number.isFinite(cost)) candidates.push({ cost, i, j });
-    }
-  }
-  candidates.sort((a, b) => a.cost - b.cost || a.i - b.i || a.j - b.j);
+  // Greedy matching on the strict order (cost, lower index, higher index) equals repeatedly
+  // matching mutual nearest neighbours under that order; each round is O(n²) without sorting.
   const used = new Uint8Array(n);
+  const best = new Int32Array(n);
+  const bestCost = new Float64Array(n);
   const pairs: RootPair[] = [];
-  for (const c of candidates) {
-    if (used[c.i] || used[c.j]) continue;
-    used[c.i] = 1;
-    used[c.j] = 1;
+  const matched: [number, number][] = [];
+  let unused = n;
+  while (unused >= 2) {
+    for (let i = 0; i < n; i++) {
+      best[i] = -1;
+      bestCost[i] = Infinity;
+      if (used[i]) continue;
+      const zr = re[i];
+      const zi = im[i];
+      const fr = rr[i];
+      const fi = ri[i];
+      let bj = -1;
+      let bc = Infinity;
+      for (let j = 0; j < n; j++) {
+        if (j === i || used[j]) continue;
+        const a = re[j] - fr;
+        const b = im[j] - fi;
+        const c = zr - rr[j];
+        const d = zi - ri[j];
+        const cost = a * a + b * b + c * c + d * d;
+        // strict order: cost, then the lower index of the pair, then the higher (j ascending
+        // here, so among equal costs the first j seen already has the lower pair indices)
+        if (cost < bc) {
+          bc = cost;
+          bj = j;
+        }
+      }
+      if (Number.isFinite(bc)) {
+        best[i] = bj;
+        bestCost[i] = bc;
+      }
+    }
+    let formed = 0;
+    for (let i = 0; i < n; i++) {
+      const j = best[i];
+      if (j > i && best[j] === i) {
+        used[i] = 1;
+        used[j] = 1;
+        matched.push([i, j]);
+        formed++;
+        unused -= 2;
+      }
+    }
+    if (formed === 0) break;
+  }
+  matched.sort((a, b) => a[0] - b[0]);
+  for (const [i, j] of matched) {
     // both members mapped inside the circle (z or 1/z̄, same argument), then averaged
     const inside = (k: number): [number, number] => {
       const m2 = re[k] * re[k] + im[k] * im[k];
       return m2 > 1 ? [rr[k], ri[k]] : [re[k], im[k]];
     };
-    const [ar, ai] = inside(c.i);
-    const [br, bi] = inside(c.j);
+    const [ar, ai] = inside(i);
+    const [br, bi] = inside(j);
     const mu = Math.atan2(ai + bi, ar + br);
     const distance =
-      0.5 * (Math.abs(Math.log(Math.hypot(re[c.i], im[c.i]))) + Math.abs(Math.log(Math.hypot(re[c.j], im[c.j]))));
+      0.5 * (Math.abs(Math.log(Math.hypot(re[i], im[i]))) + Math.abs(Math.log(Math.hypot(re[j], im[j]))));
     pairs.push({ mu, distance });
   }
   return pairs;
