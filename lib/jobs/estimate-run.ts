@@ -117,6 +117,7 @@ export function runMethod({
   method,
   options,
   covariance,
+  sampleCovariance,
 }: {
   rows: ComplexMatrix;
   elements: number;
@@ -124,6 +125,8 @@ export function runMethod({
   method: DoaMethod;
   options: RunOptions;
   covariance?: ComplexMatrix;
+  /** The unprocessed M × M sample covariance (computed here when a processed run needs it and it is absent). */
+  sampleCovariance?: ComplexMatrix;
 }): MethodResult {
   const t0 = performance.now();
   const res = estimateBearings({ rows, spacingWavelengths, method, ...options });
@@ -168,7 +171,8 @@ export function runMethod({
         bearingsDeg: b,
         usedCovariance: r,
         usedEigenvalues: res.eigenvalues,
-        sampleCovariance: processed && !options.singleSnapshot ? sampleCovarianceFromRows(rows) : undefined,
+        sampleCovariance:
+          processed && !options.singleSnapshot ? (sampleCovariance ?? sampleCovarianceFromRows(rows)) : undefined,
         processing: options,
       });
       const input = u.boundsInput;
