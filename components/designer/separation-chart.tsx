@@ -2,7 +2,7 @@
 
 /**
  * Separation versus aperture: the Rayleigh gap 1/(M·d) and Smith's statistical
- * resolution limit (lib/doa/bounds.ts) against aperture, on a log separation
+ * resolution limit (lib/doa/bounds/resolution.ts) against aperture, on a log separation
  * axis, with the current array as a vertical marker and the planned source
  * pairs as points. Pairs below the gap are flagged here and listed with advice.
  */

@@ -270,7 +270,7 @@ function snrIncreaseNeeded(
 }
 
 /**
- * Every planned source pair with the engine's verdict (lib/doa/bounds.ts,
+ * Every planned source pair with the engine's verdict (lib/doa/bounds/pairs.ts,
  * pairResolvability: the Rayleigh gap test of docs/conventions.md §5 and Smith's
  * statistical limit), evaluated for the pair alone with its own SNRs
  * (a source without an SNR uses the draft's), plus plain-language advice.

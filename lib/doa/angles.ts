@@ -8,18 +8,9 @@
  * back as θ = asin(clip(μ / (2π·d), −1, 1)); a clip is reported.
  */
 import { ComplexVector } from './linalg/complex';
-import { DoaInputError } from './errors';
 
+/** The one degree constant of lib/doa: radians per degree (θ_rad = θ_deg · RAD_PER_DEG). */
 export const RAD_PER_DEG = Math.PI / 180;
-
-export function assertSpacing(spacingWavelengths: number, where = 'spacingWavelengths'): void {
-  if (typeof spacingWavelengths !== 'number' || !Number.isFinite(spacingWavelengths) || spacingWavelengths <= 0) {
-    throw new DoaInputError(
-      'bad-spacing',
-      `${where} must be a finite number of wavelengths > 0, got ${spacingWavelengths}`,
-    );
-  }
-}
 
 /** μ = 2π·d·sin θ, θ in degrees. */
 export function electricalAngle(bearingDeg: number, spacingWavelengths: number): number {

@@ -19,10 +19,11 @@
  * Every option is checked on entry; bad input throws DoaInputError with a
  * message naming the option and the value.
  */
+import { requireSpacing } from './checks';
 import { ComplexMatrix } from './linalg/complex';
 import { CovarianceAccumulator, defaultSingleSnapshotSubarray, forwardBackward, spatialSmoothing } from './covariance';
 import { DoaInputError } from './errors';
-import { assertSpacing } from './angles';
+
 import { hermitianEigen } from './linalg/hermitian-eigen';
 import { conditionNumber, MVDR_CONDITION_LIMIT } from './methods/beamformers';
 import {
@@ -94,7 +95,7 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
     throw new DoaInputError('bad-option', `method "${String(method)}" is not one of ${DOA_METHODS.join(', ')}`);
   }
   const d = options.spacingWavelengths;
-  assertSpacing(d);
+  requireSpacing(d);
   const fb = optionalBoolean(options.forwardBackward, 'forwardBackward');
   const single = optionalBoolean(options.singleSnapshot, 'singleSnapshot');
   const includeSpectrum = optionalBoolean(options.includeSpectrum, 'includeSpectrum');

@@ -3,10 +3,11 @@
 export * from './design/medium';
 export * from './design/beam-pattern';
 export * from './design/array-figures';
-export * from './bounds';
+export * from './bounds'; // bounds/index.ts
 // Complex kernel, errors, linear algebra:
 export * from './linalg/complex';
 export * from './errors';
+export * from './checks';
 export * from './linalg/hermitian-eigen';
 export * from './linalg/symmetric-eigen';
 export * from './linalg/svd';

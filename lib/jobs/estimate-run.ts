@@ -16,9 +16,11 @@
  * - Source powers by least squares on the signal part: P̂ = diag(A⁺·(R − σ²I)·A⁺ᴴ)
  *   with A the L-element steering matrix at the estimated bearings; a
  *   negative or zero fit is raised to 1e−12·trace(R)/L (and flagged).
- * - The stochastic CRB (Stoica & Nehorai 1990, uncorrelated sources) is then
- *   evaluated for the full M-element array with the N snapshots of the data
- *   (lib/doa stochasticCrb). For coherent sources that bound is only indicative.
+ * - The stochastic CRB (Stoica & Nehorai 1990) is then evaluated for the full
+ *   M-element array with the N snapshots of the data: for uncorrelated sources, or
+ *   with the full fitted source covariance when the sources are far from
+ *   uncorrelated (lib/doa uncertaintyFromCovariance, which defines "far" and
+ *   names the bound in `basis` and `bound`).
  * - 95% interval = estimate ± 1.96σ (Gaussian approximation; the CRB bounds
  *   unbiased estimators and is reached only asymptotically, docs/references.md §11).
  */
@@ -27,15 +29,16 @@ import {
   forwardBackward,
   hermitianEigen,
   pairResolvability,
-  pseudoInverse,
   sampleCovarianceFromRows,
   spatialSmoothing,
-  stochasticCrb,
+  uncertaintyFromCovariance,
+  fitSourceCovariance,
   defaultSingleSnapshotSubarray,
   type ComplexMatrix,
   type DoaMethod,
   type EstimateBearingsResult,
   type PairResolvability,
+  type ReportedBound,
 } from '../doa';
 
 export interface RunOptions {
@@ -55,6 +58,10 @@ export interface Uncertainty {
   noisePower: number;
   powersRaised: boolean;
   basis: string;
+  /** Which bound the ±σ is (lib/doa uncertaintyFromCovariance); absent in runs stored before it. */
+  bound?: ReportedBound;
+  /** Largest |correlation| of the fitted sources (null: not judged). */
+  maxSourceCorrelation?: number | null;
 }
 
 /** The part of the engine's pair verdict a run stores. */
@@ -91,65 +98,15 @@ export function usedCovariance(rows: ComplexMatrix, options: RunOptions): Comple
   return r;
 }
 
-function steering(l: number, d: number, bearingsDeg: number[]): ComplexMatrix {
-  const k = bearingsDeg.length;
-  const re = new Float64Array(l * k);
-  const im = new Float64Array(l * k);
-  for (let c = 0; c < k; c++) {
-    const mu = 2 * Math.PI * d * Math.sin((bearingsDeg[c] * Math.PI) / 180);
-    for (let m = 0; m < l; m++) {
-      re[m * k + c] = Math.cos(mu * m);
-      im[m * k + c] = Math.sin(mu * m);
-    }
-  }
-  return { rows: l, cols: k, re, im };
-}
-
-/** σ² and source powers from the used covariance at the estimated bearings (see the header). */
+/** σ² and source powers from the used covariance at the estimated bearings (lib/doa fitSourceCovariance). */
 export function fitPowers(
   r: ComplexMatrix,
   eigenvalues: number[],
   bearingsDeg: number[],
   d: number,
 ): { noisePower: number; sourcePowers: number[]; raised: boolean } {
-  const l = r.rows;
-  const k = bearingsDeg.length;
-  const tail = eigenvalues.slice(k);
-  let noisePower = tail.reduce((a, b) => a + b, 0) / Math.max(1, tail.length);
-  let trace = 0;
-  for (let i = 0; i < l; i++) trace += r.re[i * l + i];
-  const floor = (1e-12 * trace) / l;
-  if (!(noisePower > floor)) noisePower = floor;
-  const a = steering(l, d, bearingsDeg);
-  const ap = pseudoInverse(a); // K × L
-  // S = A⁺ (R − σ²I) A⁺ᴴ, only the diagonal: s_kk = Σ_ij ap[k,i] (R−σ²I)[i,j] conj(ap[k,j]).
-  const sourcePowers: number[] = [];
-  let raised = false;
-  for (let q = 0; q < k; q++) {
-    let acc = 0;
-    for (let i = 0; i < l; i++) {
-      // t = Σ_j (R−σ²I)[i,j]·conj(ap[q,j])
-      let tr = 0;
-      let ti = 0;
-      for (let j = 0; j < l; j++) {
-        const rr = r.re[i * l + j] - (i === j ? noisePower : 0);
-        const ri = r.im[i * l + j];
-        const pr = ap.re[q * l + j];
-        const pi = -ap.im[q * l + j];
-        tr += rr * pr - ri * pi;
-        ti += rr * pi + ri * pr;
-      }
-      const ar = ap.re[q * l + i];
-      const ai = ap.im[q * l + i];
-      acc += ar * tr - ai * ti;
-    }
-    if (!(acc > floor)) {
-      acc = floor;
-      raised = true;
-    }
-    sourcePowers.push(acc);
-  }
-  return { noisePower, sourcePowers, raised };
+  const fit = fitSourceCovariance(r, bearingsDeg, d, { eigenvalues });
+  return { noisePower: fit.noisePower, sourcePowers: fit.sourcePowers, raised: fit.raised };
 }
 
 /** Runs one method with its uncertainty and pair flags. */
@@ -160,6 +117,7 @@ export function runMethod({
   method,
   options,
   covariance,
+  sampleCovariance,
 }: {
   rows: ComplexMatrix;
   elements: number;
@@ -167,6 +125,8 @@ export function runMethod({
   method: DoaMethod;
   options: RunOptions;
   covariance?: ComplexMatrix;
+  /** The unprocessed M × M sample covariance (computed here when a processed run needs it and it is absent). */
+  sampleCovariance?: ComplexMatrix;
 }): MethodResult {
   const t0 = performance.now();
   const res = estimateBearings({ rows, spacingWavelengths, method, ...options });
@@ -203,24 +163,29 @@ export function runMethod({
   } else {
     try {
       const r = covariance ?? usedCovariance(rows, options);
-      const fit = fitPowers(r, res.eigenvalues, b, spacingWavelengths);
-      const input = {
+      const processed = options.forwardBackward || options.smoothingSubarray !== undefined;
+      const u = uncertaintyFromCovariance({
         elements,
         spacingWavelengths,
-        bearingsDeg: b,
-        sourcePowers: fit.sourcePowers,
-        noisePower: fit.noisePower,
         snapshots: rows.rows,
-      };
-      const crb = stochasticCrb(input);
-      const std = Array.from(crb.stdDeg);
+        bearingsDeg: b,
+        usedCovariance: r,
+        usedEigenvalues: res.eigenvalues,
+        sampleCovariance:
+          processed && !options.singleSnapshot ? (sampleCovariance ?? sampleCovarianceFromRows(rows)) : undefined,
+        processing: options,
+      });
+      const input = u.boundsInput;
+      const std = Array.from(u.crb.stdDeg);
       out.uncertainty = {
         crbStdDeg: std,
         ci95Deg: b.map((x, i) => [x - CI95_FACTOR * std[i], x + CI95_FACTOR * std[i]] as [number, number]),
-        sourcePowers: fit.sourcePowers,
-        noisePower: fit.noisePower,
-        powersRaised: fit.raised,
-        basis: `stochastic CRB for ${elements} elements and ${rows.rows} snapshot(s) at the estimated bearings; σ² = mean of the ${res.effectiveElements - b.length} smallest eigenvalues, powers by least squares`,
+        sourcePowers: u.sourcePowers,
+        noisePower: u.noisePower,
+        powersRaised: u.powersRaised,
+        basis: u.basis,
+        bound: u.bound,
+        maxSourceCorrelation: u.maxSourceCorrelation,
       };
       if (b.length >= 2) {
         out.pairs = pairResolvability(input).map((p) => ({

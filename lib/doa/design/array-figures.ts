@@ -17,7 +17,8 @@
  */
 import FFT from 'fft.js';
 import { DoaInputError } from '../errors';
-import { requireElementCount, requireSpacing, requireBearing, DEG } from './figures-checks';
+import { requireElementCount, requireSpacing, requireBearing } from '../checks';
+import { RAD_PER_DEG } from '../angles';
 import {
   effectiveWeights,
   arrayFactorMagnitudeAtPsi,
@@ -35,13 +36,13 @@ export function gratingLobeFreeScanDeg(spacingWavelengths: number): number {
   const d = requireSpacing(spacingWavelengths);
   if (d <= 0.5) return 90;
   if (d >= 1) return 0;
-  return Math.asin(1 / d - 1) / DEG;
+  return Math.asin(1 / d - 1) / RAD_PER_DEG;
 }
 
 /** Largest spacing (wavelengths) free of grating lobes when scanning to ±θ_max: 1/(1 + |sin θ_max|) (docs/references.md §3). */
 export function maxSpacingForScan(scanDeg: number): number {
   const t = requireBearing(scanDeg, 'scanDeg');
-  return 1 / (1 + Math.abs(Math.sin(t * DEG)));
+  return 1 / (1 + Math.abs(Math.sin(t * RAD_PER_DEG)));
 }
 
 /** Rayleigh gap 1/(M·d) in u, and asin(min(1, 1/(M·d))) in degrees at broadside (docs/conventions.md §5). */
@@ -49,7 +50,7 @@ export function rayleighGap(elements: number, spacingWavelengths: number): { u: 
   const m = requireElementCount(elements);
   const d = requireSpacing(spacingWavelengths);
   const u = 1 / (m * d);
-  return { u, degAtBroadside: Math.asin(Math.min(1, u)) / DEG };
+  return { u, degAtBroadside: Math.asin(Math.min(1, u)) / RAD_PER_DEG };
 }
 
 // ---------------------------------------------------------------------------
@@ -182,8 +183,8 @@ function widthFromPsi(psiLeft: number, psiRight: number, u0: number, d: number):
   const uL = u0 + psiLeft / k;
   const uR = u0 + psiRight / k;
   const clipped = uL < -1 || uR > 1;
-  const lo = Math.asin(Math.max(-1, uL)) / DEG;
-  const hi = Math.asin(Math.min(1, uR)) / DEG;
+  const lo = Math.asin(Math.max(-1, uL)) / RAD_PER_DEG;
+  const hi = Math.asin(Math.min(1, uR)) / RAD_PER_DEG;
   return { widthDeg: hi - lo, widthU: uR - uL, edgesDeg: [lo, hi], clipped };
 }
 
@@ -193,7 +194,7 @@ function prepare(options: FigureOptions): { w: EffectiveWeights; d: number; u0: 
   const m = requireElementCount(options.elements);
   const d = requireSpacing(options.spacingWavelengths);
   const steer = requireBearing(options.steerDeg ?? 0, 'steerDeg');
-  return { w: effectiveWeights(m, options), d, u0: Math.sin(steer * DEG), m };
+  return { w: effectiveWeights(m, options), d, u0: Math.sin(steer * RAD_PER_DEG), m };
 }
 
 /** Exact half-power (−3.0103 dB) beamwidth, steered and tapered as given. */
@@ -330,7 +331,7 @@ export function peakSidelobe(options: FigureOptions & { region?: 'visible' | 'fu
   const ratio = bestValue / lobe.peakMagnitude;
   // Map ψ back to a visible bearing (for 'full-period' this may be outside; clip).
   const u = Math.max(-1, Math.min(1, u0 + bestPsi / k));
-  return { peakSidelobeDb: ratio > 0 ? 20 * Math.log10(ratio) : -Infinity, atDeg: Math.asin(u) / DEG };
+  return { peakSidelobeDb: ratio > 0 ? 20 * Math.log10(ratio) : -Infinity, atDeg: Math.asin(u) / RAD_PER_DEG };
 }
 
 export function peakSidelobeDb(options: FigureOptions & { region?: 'visible' | 'full-period' }): number | null {

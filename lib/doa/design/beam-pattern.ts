@@ -34,8 +34,8 @@ import {
   requireFiniteArray,
   requireFinite,
   requirePositive,
-  DEG,
-} from './figures-checks';
+} from '../checks';
+import { RAD_PER_DEG } from '../angles';
 
 export type TaperKind = 'uniform' | 'hann' | 'hamming' | 'chebyshev';
 
@@ -177,7 +177,7 @@ export function effectiveWeights(elements: number, options: ElementOptions = {})
   let anyEnabled = false;
   for (let i = 0; i < m; i++) {
     const amp = w[i] * (enabledFlags ? enabledFlags[i] : 1) * (gain ? Math.pow(10, gain[i] / 20) : 1);
-    const ph = phase ? phase[i] * DEG : 0;
+    const ph = phase ? phase[i] * RAD_PER_DEG : 0;
     re[i] = amp * Math.cos(ph);
     im[i] = amp * Math.sin(ph);
     if (amp > 0) anyEnabled = true;
@@ -285,12 +285,12 @@ export function beamPattern(options: BeamPatternOptions): BeamPattern {
       if (grid[i] < -90 || grid[i] > 90)
         throw new DoaInputError('bad-value', `thetaDeg[${i}] must lie in [−90, 90], got ${grid[i]}`);
   }
-  const u0 = Math.sin(steer * DEG);
+  const u0 = Math.sin(steer * RAD_PER_DEG);
   const k = 2 * Math.PI * d;
   const mags = new Float64Array(grid.length);
   let peak = 0;
   for (let i = 0; i < grid.length; i++) {
-    const u = gridKind === 'u' ? grid[i] : Math.sin(grid[i] * DEG);
+    const u = gridKind === 'u' ? grid[i] : Math.sin(grid[i] * RAD_PER_DEG);
     const v = arrayFactorMagnitudeAtPsi(weights, k * (u - u0));
     mags[i] = v;
     if (v > peak) peak = v;

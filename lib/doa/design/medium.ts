@@ -21,14 +21,8 @@
  * (NaN, Inf, negative depth…) throw DoaInputError naming the argument.
  */
 import { DoaInputError } from '../errors';
-import {
-  requireFinite,
-  requireNonNegative,
-  requirePositive,
-  requireInRange,
-  requireBearing,
-  DEG,
-} from './figures-checks';
+import { requireFinite, requireNonNegative, requirePositive, requireInRange, requireBearing } from '../checks';
+import { RAD_PER_DEG } from '../angles';
 
 /** Speed of light in vacuum, m/s, exact by the 2019 SI definition. */
 export const SPEED_OF_LIGHT_MPS = 299_792_458;
@@ -156,7 +150,7 @@ export function soundSpeedUnesco(salinityPsu: number, temperatureC: number, pres
 export function depthToPressureDbar(depthM: number, latitudeDeg = 45): number {
   const z = requireNonNegative(depthM, 'depthM');
   const lat = requireInRange(latitudeDeg, 'latitudeDeg', -90, 90);
-  const s = Math.sin(lat * DEG);
+  const s = Math.sin(lat * RAD_PER_DEG);
   const c1 = (5.92 + 5.25 * s * s) * 1e-3;
   const disc = (1 - c1) * (1 - c1) - 8.84e-6 * z;
   if (disc < 0)
@@ -172,7 +166,7 @@ export function depthToPressureDbar(depthM: number, latitudeDeg = 45): number {
 export function pressureToDepthM(pressureDbar: number, latitudeDeg = 45): number {
   const p = requireNonNegative(pressureDbar, 'pressureDbar');
   const lat = requireInRange(latitudeDeg, 'latitudeDeg', -90, 90);
-  const x = Math.sin(lat * DEG) ** 2;
+  const x = Math.sin(lat * RAD_PER_DEG) ** 2;
   const gravity = 9.780318 * (1 + (5.2788e-3 + 2.36e-5 * x) * x) + 1.092e-6 * p;
   const numerator = (((-1.82e-15 * p + 2.279e-10) * p - 2.2512e-5) * p + 9.72659) * p;
   return numerator / gravity;
@@ -292,8 +286,8 @@ export function bearingUnderAssumedSpeed(
   const theta = requireBearing(trueBearingDeg, 'trueBearingDeg');
   const cTrue = requirePositive(trueSpeedMps, 'trueSpeedMps');
   const cAssumed = requirePositive(assumedSpeedMps, 'assumedSpeedMps');
-  const u = (Math.sin(theta * DEG) * cAssumed) / cTrue;
+  const u = (Math.sin(theta * RAD_PER_DEG) * cAssumed) / cTrue;
   const clipped = u > 1 || u < -1;
-  const bearingDeg = Math.asin(Math.max(-1, Math.min(1, u))) / DEG;
+  const bearingDeg = Math.asin(Math.max(-1, Math.min(1, u))) / RAD_PER_DEG;
   return { bearingDeg, errorDeg: bearingDeg - theta, clipped };
 }

@@ -9,7 +9,7 @@
  * O(K log K). The tests check this against a brute-force search over all
  * permutations. Both lists must have the same length.
  */
-import { assertFinite } from '../linalg/complex';
+import { requireFiniteEntries } from '../checks';
 import { DoaInputError } from '../errors';
 
 function sortedPair(estimated: ArrayLike<number>, truth: ArrayLike<number>): [number[], number[]] {
@@ -19,8 +19,8 @@ function sortedPair(estimated: ArrayLike<number>, truth: ArrayLike<number>): [nu
       `${estimated.length} estimated bearing(s) against ${truth.length} true one(s): the metrics need equal counts`,
     );
   }
-  assertFinite(estimated, 'estimated bearings');
-  assertFinite(truth, 'true bearings');
+  requireFiniteEntries(estimated, 'estimated bearings');
+  requireFiniteEntries(truth, 'true bearings');
   return [Array.from(estimated).sort((a, b) => a - b), Array.from(truth).sort((a, b) => a - b)];
 }
 

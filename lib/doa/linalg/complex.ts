@@ -10,6 +10,7 @@
  * Decompositions live in their own files (one per file).
  */
 import { DoaInputError, DoaNumericalError } from '../errors';
+import { requireSameSize, requireSquare } from '../checks';
 
 export interface ComplexMatrix {
   readonly rows: number;
@@ -134,7 +135,7 @@ export function multiplyConjugateTransposeLeft(a: ComplexMatrix, b: ComplexMatri
 }
 
 export function add(a: ComplexMatrix, b: ComplexMatrix): ComplexMatrix {
-  assertSameSize(a, b, 'add');
+  requireSameSize(a, b, 'add');
   const out = zeros(a.rows, a.cols);
   for (let i = 0; i < a.re.length; i++) {
     out.re[i] = a.re[i] + b.re[i];
@@ -144,7 +145,7 @@ export function add(a: ComplexMatrix, b: ComplexMatrix): ComplexMatrix {
 }
 
 export function subtract(a: ComplexMatrix, b: ComplexMatrix): ComplexMatrix {
-  assertSameSize(a, b, 'subtract');
+  requireSameSize(a, b, 'subtract');
   const out = zeros(a.rows, a.cols);
   for (let i = 0; i < a.re.length; i++) {
     out.re[i] = a.re[i] - b.re[i];
@@ -183,7 +184,7 @@ export function subMatrix(a: ComplexMatrix, r0: number, r1: number, c0: number, 
 
 /** Makes a square matrix exactly Hermitian, (A + Aᴴ)/2, in place. */
 export function hermitianizeInPlace(a: ComplexMatrix): void {
-  assertSquare(a, 'hermitianize');
+  requireSquare(a, 'hermitianize');
   const n = a.rows;
   for (let i = 0; i < n; i++) {
     a.im[i * n + i] = 0;
@@ -210,7 +211,7 @@ export function frobeniusNorm(a: ComplexMatrix): number {
  * Throws DoaNumericalError when A is singular to working precision.
  */
 export function solve(a: ComplexMatrix, b: ComplexMatrix): ComplexMatrix {
-  assertSquare(a, 'solve');
+  requireSquare(a, 'solve');
   if (b.rows !== a.rows) {
     throw new DoaInputError('bad-size', `solve: A is ${a.rows} × ${a.cols} but B has ${b.rows} rows`);
   }
@@ -287,26 +288,8 @@ export function solve(a: ComplexMatrix, b: ComplexMatrix): ComplexMatrix {
 }
 
 export function inverse(a: ComplexMatrix): ComplexMatrix {
-  assertSquare(a, 'inverse');
+  requireSquare(a, 'inverse');
   return solve(a, identity(a.rows));
-}
-
-export function assertSquare(a: ComplexMatrix, what: string): void {
-  if (a.rows !== a.cols) throw new DoaInputError('bad-size', `${what}: matrix is ${a.rows} × ${a.cols}, not square`);
-}
-
-export function assertFinite(values: ArrayLike<number>, what: string): void {
-  for (let i = 0; i < values.length; i++) {
-    if (!Number.isFinite(values[i])) {
-      throw new DoaInputError('not-finite', `${what}: entry ${i} is ${values[i]}, not a finite number`);
-    }
-  }
-}
-
-function assertSameSize(a: ComplexMatrix, b: ComplexMatrix, what: string): void {
-  if (a.rows !== b.rows || a.cols !== b.cols) {
-    throw new DoaInputError('bad-size', `${what}: ${a.rows} × ${a.cols} and ${b.rows} × ${b.cols} differ in size`);
-  }
 }
 
 function swapRows(re: Float64Array, im: Float64Array, width: number, r1: number, r2: number): void {

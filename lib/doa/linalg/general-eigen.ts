@@ -14,13 +14,14 @@
  * Layout: ComplexMatrix (split re/im, row-major); the result is a
  * ComplexVector of length n. The input is not mutated.
  */
-import { ComplexMatrix, ComplexVector, assertFinite, assertSquare } from './complex';
+import { requireFiniteEntries, requireSquare } from '../checks';
+import { ComplexMatrix, ComplexVector } from './complex';
 import { DoaNumericalError } from '../errors';
 
 export function generalEigenvalues(a: ComplexMatrix): ComplexVector {
-  assertSquare(a, 'generalEigenvalues');
-  assertFinite(a.re, 'generalEigenvalues: real part');
-  assertFinite(a.im, 'generalEigenvalues: imaginary part');
+  requireSquare(a, 'generalEigenvalues');
+  requireFiniteEntries(a.re, 'generalEigenvalues: real part');
+  requireFiniteEntries(a.im, 'generalEigenvalues: imaginary part');
   const n = a.rows;
   const hr = a.re.slice();
   const hi = a.im.slice();

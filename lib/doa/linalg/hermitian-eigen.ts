@@ -20,7 +20,8 @@
  * For real symmetric input every reflector and phase stays real, so the
  * vectors come out exactly real (symmetric-eigen.ts relies on this).
  */
-import { ComplexMatrix, assertFinite, assertSquare, zeros } from './complex';
+import { requireFiniteEntries, requireSquare } from '../checks';
+import { ComplexMatrix, zeros } from './complex';
 import { tridiagonalQlInPlace } from './tridiagonal-ql';
 
 export interface HermitianEigenResult {
@@ -41,9 +42,9 @@ export function hermitianEigen(
   options?: { vectors?: true },
 ): HermitianEigenResult & { vectors: ComplexMatrix };
 export function hermitianEigen(a: ComplexMatrix, options: HermitianEigenOptions = {}): HermitianEigenResult {
-  assertSquare(a, 'hermitianEigen');
-  assertFinite(a.re, 'hermitianEigen: real part');
-  assertFinite(a.im, 'hermitianEigen: imaginary part');
+  requireSquare(a, 'hermitianEigen');
+  requireFiniteEntries(a.re, 'hermitianEigen: real part');
+  requireFiniteEntries(a.im, 'hermitianEigen: imaginary part');
   const wantVectors = options.vectors !== false;
   const n = a.rows;
   if (n === 0) return { values: new Float64Array(0), vectors: wantVectors ? zeros(0, 0) : null };

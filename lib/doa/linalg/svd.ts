@@ -14,7 +14,8 @@
  * (Demmel & Veselić, SIAM J. Matrix Anal. Appl. 13(4), 1992) with a simple
  * complex rotation; ml-matrix's SVD is real-only.
  */
-import { ComplexMatrix, assertFinite, zeros } from './complex';
+import { requireFiniteEntries } from '../checks';
+import { ComplexMatrix, zeros } from './complex';
 import { DoaNumericalError } from '../errors';
 
 export interface SvdResult {
@@ -26,8 +27,8 @@ export interface SvdResult {
 const MAX_SWEEPS = 80;
 
 export function svd(a: ComplexMatrix): SvdResult {
-  assertFinite(a.re, 'svd: real part');
-  assertFinite(a.im, 'svd: imaginary part');
+  requireFiniteEntries(a.re, 'svd: real part');
+  requireFiniteEntries(a.im, 'svd: imaginary part');
   const m = a.rows;
   const n = a.cols;
   // Column-major working copies: column j occupies [j·m, (j+1)·m).

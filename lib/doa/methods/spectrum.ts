@@ -17,7 +17,8 @@
  * absolute rounding error is about ε·Σ|c_l|, so values near a MUSIC null
  * (where the form is tiny) are recomputed directly; see music.ts.
  */
-import { ComplexMatrix, ComplexVector, assertSquare } from '../linalg/complex';
+import { requireSquare } from '../checks';
+import { ComplexMatrix, ComplexVector } from '../linalg/complex';
 import { DoaInputError } from '../errors';
 import { RAD_PER_DEG } from '../angles';
 
@@ -62,7 +63,7 @@ export function gridAngles(grid: AngleGrid): Float64Array {
 
 /** c_l = Σ_m C[m, m+l], l = 0 … L−1, for a square C. */
 export function diagonalSums(c: ComplexMatrix): ComplexVector {
-  assertSquare(c, 'diagonalSums');
+  requireSquare(c, 'diagonalSums');
   const l = c.rows;
   const re = new Float64Array(l);
   const im = new Float64Array(l);

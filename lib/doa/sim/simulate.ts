@@ -14,9 +14,10 @@
  * outputs; normals by the Box–Muller transform. Same seed, same data, on
  * every platform.
  */
-import { ComplexMatrix, assertFinite, zeros } from '../linalg/complex';
+import { requireFiniteEntries, requireSpacing } from '../checks';
+import { ComplexMatrix, zeros } from '../linalg/complex';
 import { DoaInputError } from '../errors';
-import { assertSpacing, electricalAngle } from '../angles';
+import { electricalAngle } from '../angles';
 import { hermitianEigen } from '../linalg/hermitian-eigen';
 
 export interface SimulateOptions {
@@ -102,10 +103,10 @@ export function simulateSnapshots(options: SimulateOptions): ComplexMatrix {
   const { elements: m, spacingWavelengths: d, bearingsDeg, noisePower, snapshots: n } = options;
   if (!Number.isInteger(m) || m < 2)
     throw new DoaInputError('too-few-elements', `elements ${m} must be an integer ≥ 2`);
-  assertSpacing(d);
+  requireSpacing(d);
   if (!Number.isInteger(n) || n < 1) throw new DoaInputError('bad-value', `snapshots ${n} must be an integer ≥ 1`);
   if (!Array.isArray(bearingsDeg)) throw new DoaInputError('bad-value', 'bearingsDeg must be an array of degrees');
-  assertFinite(bearingsDeg, 'bearingsDeg');
+  requireFiniteEntries(bearingsDeg, 'bearingsDeg');
   for (const b of bearingsDeg)
     if (b < -90 || b > 90) throw new DoaInputError('bad-value', `bearing ${b}° lies outside −90° … 90°`);
   if (!Number.isFinite(noisePower) || noisePower < 0)
@@ -113,7 +114,7 @@ export function simulateSnapshots(options: SimulateOptions): ComplexMatrix {
   const k = bearingsDeg.length;
   const powers = options.powers ?? bearingsDeg.map(() => 1);
   if (powers.length !== k) throw new DoaInputError('bad-size', `${powers.length} powers for ${k} bearings`);
-  assertFinite(powers, 'powers');
+  requireFiniteEntries(powers, 'powers');
   for (const p of powers) if (p < 0) throw new DoaInputError('bad-value', `source power ${p} is negative`);
   const rng = new SeededRandom(options.seed ?? 1);
 
@@ -126,8 +127,8 @@ export function simulateSnapshots(options: SimulateOptions): ComplexMatrix {
   } else {
     if (c.rows !== k || c.cols !== k)
       throw new DoaInputError('bad-size', `correlation matrix is ${c.rows} × ${c.cols}, expected ${k} × ${k}`);
-    assertFinite(c.re, 'correlation (real part)');
-    assertFinite(c.im, 'correlation (imaginary part)');
+    requireFiniteEntries(c.re, 'correlation (real part)');
+    requireFiniteEntries(c.im, 'correlation (imaginary part)');
     corr.re.set(c.re);
     corr.im.set(c.im);
   }

@@ -17,7 +17,8 @@ import { symmetricEigen } from '@/lib/doa/linalg/symmetric-eigen';
 import { svd } from '@/lib/doa/linalg/svd';
 import { leastSquares, pseudoInverse } from '@/lib/doa/linalg/pseudo-inverse';
 import { generalEigenvalues, realGeneralEigenvalues } from '@/lib/doa/linalg/general-eigen';
-import { polynomialRoots } from '@/lib/doa/linalg/polynomial-roots';
+import { polynomialRoots, ABERTH_MIN_DEGREE } from '@/lib/doa/linalg/polynomial-roots';
+import { pairReciprocalRoots } from '@/lib/doa/methods/root-music';
 import { DoaInputError } from '@/lib/doa/errors';
 import { matrixFromJson, maxAbsDiff, setDistance, vectorFromJson, JsonMatrix, JsonVector } from './helpers';
 
@@ -171,6 +172,33 @@ describe('polynomialRoots', () => {
       expect(setDistance(roots, vectorFromJson(c.roots))).toBeLessThan(1e-10 * scale);
     });
   }
+  for (const c of fx.roots) {
+    const degree = c.coefficients.re.length - 1;
+    it(`Aberth–Ehrlich (forced) matches numpy.roots for degree ${degree}${c.clustered ? ' (root-MUSIC near-pairs)' : ''}`, () => {
+      const roots = polynomialRoots(vectorFromJson(c.coefficients), { method: 'aberth' });
+      let scale = 1;
+      for (let i = 0; i < c.roots.re.length; i++) scale = Math.max(scale, Math.hypot(c.roots.re[i], c.roots.im[i]));
+      expect(roots.re.length).toBe(c.roots.re.length);
+      // Source: numpy.roots fixture; same 1e-10·max(1, max|z|) as the companion path.
+      expect(setDistance(roots, vectorFromJson(c.roots))).toBeLessThan(1e-10 * scale);
+      if (c.clustered) {
+        // The pair arguments (what root-MUSIC uses) agree to 1e-10 rad with numpy's roots paired the same way.
+        const ours = pairReciprocalRoots(roots.re, roots.im)
+          .map((p) => p.mu)
+          .sort((a, b) => a - b);
+        const ref = pairReciprocalRoots(c.roots.re, c.roots.im)
+          .map((p) => p.mu)
+          .sort((a, b) => a - b);
+        expect(maxAbsDiff(ours, ref)).toBeLessThan(1e-10);
+      }
+    });
+  }
+  it(`uses Aberth–Ehrlich from degree ${ABERTH_MIN_DEGREE} on (auto) and the companion matrix below (consistency check)`, () => {
+    const big = fx.roots.find((c) => c.coefficients.re.length - 1 >= ABERTH_MIN_DEGREE)!;
+    const auto = polynomialRoots(vectorFromJson(big.coefficients));
+    const forced = polynomialRoots(vectorFromJson(big.coefficients), { method: 'aberth' });
+    expect(Array.from(auto.re)).toEqual(Array.from(forced.re));
+  });
   it('strips leading zeros and returns exact zero roots for trailing zeros (numpy.roots behaviour)', () => {
     // (z − 2)·z² written with a leading zero: 0·z⁴ + z³ − 2z² + 0z + 0
     const r = polynomialRoots({ re: Float64Array.from([0, 1, -2, 0, 0]), im: new Float64Array(5) });

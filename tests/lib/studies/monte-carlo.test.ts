@@ -4,7 +4,7 @@
 //    Stoica & Nehorai 1990): CRB_sto = 6 / [N·SNR·M(M²−1)·(2π·d·cosθ)²] · (1 + 1/(M·SNR)) rad²,
 //    check value M=10, N=100, 0 dB, d=λ/2, θ=0: 0.148911°;
 //  - error scaling std ∝ M^(−3/2) at fixed d (docs/references.md §9);
-//  - the matrix-form stochastic CRB of lib/doa/bounds.ts (itself tested against docs/references.md §5);
+//  - the matrix-form stochastic CRB of lib/doa/bounds/crb.ts (itself tested against docs/references.md §5);
 //  - for the two-source scenario, the numpy stochastic CRB written by the committed generator
 //    fixtures/doa/generate_check_values.py (fixtures/doa/check-values.json, `monteCarlo`).
 // Monte Carlo bands (docs/references.md §9): RMSE/√CRB is bounded from both sides. With T trials the
