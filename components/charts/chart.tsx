@@ -195,7 +195,7 @@ export function Chart({
         ref={box}
         role="img"
         aria-label={ariaLabel}
-        data-testid={`${testIdPrefix}-chart`}
+        data-testid={`${testIdPrefix}-plot`}
         data-zoom-from={frame?.from ?? ''}
         data-zoom-to={frame?.to ?? ''}
         data-plot-left={frame?.left ?? ''}
