@@ -67,7 +67,7 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
   /**
    * The designer's reducer holds the one draft; the form shows it (`values`) and
    * every edit the user makes in the form goes back to the reducer as one
-   * 'replace' once the whole form is valid. Edits elsewhere (the canvas) reach the
+   * 'replace' once the whole form is valid (quantity fields with units on blur). Edits elsewhere (the canvas) reach the
    * form through `values`, which react-hook-form compares before resetting.
    */
   const sendToDraft = () => {
@@ -130,7 +130,7 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
             </div>
             <div className="grid grid-cols-2 gap-3 sm:grid-cols-3">
               <NumberField name="elements" label="Elements" step="1" />
-              <NumberField name="spacing.value" label="Spacing" />
+              <NumberField name="spacing.value" label="Spacing" quantity={{ example: '12.5 mm or 0.5 lambda' }} />
               <div>
                 <label htmlFor="f-spacing-unit" className="block text-xs font-medium text-ink-700">
                   Spacing unit
