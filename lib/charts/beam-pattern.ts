@@ -8,7 +8,16 @@
  * floor are drawn on the floor.
  */
 import type { LineSeriesOption } from 'echarts';
-import { baseOption, fmt, gridTop, valueAxisX, valueAxisY, type ChartHeading, type ChartOption } from './common';
+import {
+  baseOption,
+  degreeLabel,
+  fmt,
+  gridTop,
+  valueAxisX,
+  valueAxisY,
+  type ChartHeading,
+  type ChartOption,
+} from './common';
 import { ACCENT, INK } from './palette';
 
 export const HALF_POWER_DB = -3.0103;
@@ -50,11 +59,11 @@ function cartesianOption(input: BeamPatternInput, heading: ChartHeading): ChartO
   });
   return {
     ...baseOption(heading),
-    grid: { left: 56, right: 16, top: gridTop(heading, false), bottom: 40 },
+    grid: { outerBoundsMode: 'none', left: 56, right: 16, top: gridTop(heading, false), bottom: 40 },
     xAxis: valueAxisX('bearing from broadside (degrees)', {
       min: -90,
       max: 90,
-      axisLabel: { color: INK.text, fontSize: 10, formatter: '{value}°' },
+      axisLabel: { color: INK.text, fontSize: 10, formatter: degreeLabel },
     }),
     yAxis: valueAxisY('level, dB re peak', { min: input.floorDb, max: 0, interval: 10 }),
     tooltip: {

@@ -81,3 +81,6 @@ export const fmt = (v: number, digits = 3) => (Number.isFinite(v) ? Number(v.toP
 
 export const escapeHtml = (s: string) =>
   s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+
+/** A bearing axis label: at most two decimals (a zoomed axis labels its ends at arbitrary values). */
+export const degreeLabel = (v: number) => `${Number(v.toFixed(2))}°`;

@@ -14,11 +14,12 @@ export function channelPowerOption(powerDb: number[], heading: ChartHeading = {}
   const finite = powerDb.filter((v) => v > -300);
   const max = Math.max(...finite, 0);
   const median = [...finite].sort((a, b) => a - b)[Math.floor(finite.length / 2)] ?? 0;
-  const lo = Math.floor(Math.min(...finite, median - 20) - 3);
-  const hi = Math.ceil(max + 3);
+  // Whole multiples of 5 dB, so the end labels do not crowd the ticks.
+  const lo = 5 * Math.floor((Math.min(...finite, median - 20) - 3) / 5);
+  const hi = 5 * Math.ceil((max + 3) / 5);
   return {
     ...baseOption(heading),
-    grid: { left: 56, right: 12, top: heading.title ? 56 : 12, bottom: 40 },
+    grid: { outerBoundsMode: 'none', left: 56, right: 12, top: heading.title ? 56 : 12, bottom: 40 },
     xAxis: {
       type: 'category',
       name: 'element',
@@ -86,7 +87,7 @@ export function covarianceOption(magnitude: number[][], heading: ChartHeading = 
   };
   return {
     ...baseOption(heading),
-    grid: { left: 44, right: 12, top: heading.title ? 56 : 8, bottom: 40 },
+    grid: { outerBoundsMode: 'none', left: 44, right: 12, top: heading.title ? 56 : 8, bottom: 40 },
     xAxis: { ...axis, name: `element k (1…${m})`, nameGap: 26 },
     yAxis: { ...axis, name: 'element i', nameGap: 28, inverse: true },
     visualMap: {
@@ -147,11 +148,11 @@ export function eigenvalueOption(input: EigenvalueInput, heading: ChartHeading =
     });
   return {
     ...baseOption(heading),
-    grid: { left: 60, right: 16, top: heading.title ? 56 : 14, bottom: 40 },
+    grid: { outerBoundsMode: 'none', left: 60, right: 16, top: heading.title ? 56 : 14, bottom: 40 },
     xAxis: valueAxisX('eigenvalue index (descending)', {
-      min: 0.5,
-      max: p + 0.5,
-      minInterval: 1,
+      min: 0,
+      max: p + 1,
+      interval: p <= 32 ? 1 : Math.ceil(p / 16),
       splitLine: { show: false },
       axisLabel: {
         color: INK.text,

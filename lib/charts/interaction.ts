@@ -45,8 +45,8 @@ export function withInteraction(option: ChartOption, zoom: ZoomSpec | false): Ch
     ...option,
     dataZoom,
     toolbox: {
-      right: 8,
-      bottom: 0,
+      left: 4,
+      top: 0,
       itemSize: 13,
       feature: {
         dataZoom: {

@@ -152,7 +152,7 @@ export function separationOption(input: SeparationInput, heading: ChartHeading =
   return {
     ...baseOption(heading),
     legend: legend([RAYLEIGH_LABEL, input.statisticalLabel, 'planned pairs']),
-    grid: { left: 64, right: 24, top: gridTop(heading, true), bottom: 42 },
+    grid: { outerBoundsMode: 'none', left: 64, right: 24, top: gridTop(heading, true), bottom: 42 },
     xAxis: valueAxisX(input.xLabel, { min: Math.min(...xs), max: Math.max(...xs) }),
     yAxis: valueAxisY(input.yLabel, {
       type: 'log',

@@ -10,6 +10,7 @@
  */
 import type { CustomSeriesOption, CustomSeriesRenderItem, LineSeriesOption } from 'echarts';
 import {
+  degreeLabel,
   baseOption,
   escapeHtml,
   gridTop,
@@ -151,11 +152,11 @@ export function spectrumOption(
   return {
     ...baseOption(heading),
     legend: legend(input.series.map((s) => s.label)),
-    grid: { left: 52, right: 16, top: gridTop(heading, withLegend), bottom: 40 },
+    grid: { outerBoundsMode: 'none', left: 52, right: 16, top: gridTop(heading, withLegend), bottom: 40 },
     xAxis: valueAxisX('bearing from broadside (degrees)', {
       min: -90,
       max: 90,
-      axisLabel: { color: INK.text, fontSize: 10, formatter: '{value}°' },
+      axisLabel: { color: INK.text, fontSize: 10, formatter: degreeLabel },
     }),
     yAxis: valueAxisY('dB re peak', { min: floorDb, max: 0 }),
     tooltip: {

@@ -42,7 +42,14 @@ function xAxisFor(input: StudyChartInput, xs: number[]) {
     logBase: 10,
     min: Math.min(...xs),
     max: Math.max(...xs) === Math.min(...xs) ? Math.min(...xs) * 10 : Math.max(...xs),
-    axisLabel: { color: INK.text, fontSize: 10, formatter: snr ? '{value} dB' : (v: number) => fmt(v, 3) },
+    // Labels at the swept values themselves (a log axis would label only decades).
+    axisLabel: {
+      color: INK.text,
+      fontSize: 10,
+      customValues: xs,
+      formatter: snr ? '{value} dB' : (v: number) => fmt(v, 3),
+    },
+    axisTick: { customValues: xs, lineStyle: { color: INK.axis } },
   });
 }
 
@@ -76,7 +83,7 @@ export function rmseOption(input: StudyChartInput, heading: ChartHeading = {}): 
   return {
     ...baseOption(heading),
     legend: legend([...methods.map((m) => input.labels[m] ?? m), CRB_LABEL]),
-    grid: { left: 64, right: 20, top: gridTop(heading, true), bottom: 42 },
+    grid: { outerBoundsMode: 'none', left: 64, right: 20, top: gridTop(heading, true), bottom: 42 },
     xAxis: xAxisFor(input, xs),
     yAxis: valueAxisY('RMSE (degrees, log scale)', {
       type: 'log',
@@ -101,7 +108,7 @@ export function resolutionOption(input: StudyChartInput, heading: ChartHeading =
   return {
     ...baseOption(heading),
     legend: legend(methods.map((m) => input.labels[m] ?? m)),
-    grid: { left: 64, right: 20, top: gridTop(heading, true), bottom: 42 },
+    grid: { outerBoundsMode: 'none', left: 64, right: 20, top: gridTop(heading, true), bottom: 42 },
     xAxis: xAxisFor(input, xs),
     yAxis: valueAxisY('P(resolved)', { min: 0, max: 1, interval: 0.25 }),
     tooltip: {
