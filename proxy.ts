@@ -12,5 +12,7 @@ export default withAuth({
 });
 
 export const config = {
-  matcher: ['/((?!api|_next|login|reset|invite|favicon|icon|fonts|.*\\.(?:png|svg|ico|woff2)$).*)'],
+  matcher: [
+    '/((?!api|_next|login|reset|invite|favicon|icon|fonts|robots\\.txt|manifest\\.webmanifest|.*\\.(?:png|svg|ico|woff2)$).*)',
+  ],
 };

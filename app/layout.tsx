@@ -25,6 +25,14 @@ const plexMono = localFont({
 export const metadata: Metadata = {
   title: { default: 'Steerwise', template: '%s · Steerwise' },
   description: 'Design receiving arrays, estimate bearings with honest uncertainty, and hand the work on.',
+  // Files in public/ (made from public/icon.svg by scripts/make-icons.ts); the manifest is app/manifest.ts.
+  icons: {
+    icon: [
+      { url: '/favicon.ico', sizes: '16x16 32x32 48x48' },
+      { url: '/icon.svg', type: 'image/svg+xml' },
+    ],
+    apple: '/apple-touch-icon.png',
+  },
 };
 
 export const viewport: Viewport = { themeColor: '#111c28' };

@@ -18,8 +18,8 @@
  *
  * Test hooks: overlay controls carry data-testid and sit exactly over what they
  * stand for (their box centre is the shape's centre; pointer-events are off so
- * the mouse reaches the canvas), and window.__steerwiseCanvas holds the same
- * coordinates in canvas px.
+ * the mouse reaches the canvas) and carry those coordinates in canvas px as
+ * data-x / data-y (full precision).
  */
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { Stage, Layer, Rect, Line, Circle, Group, Text, Arrow } from 'react-konva';
@@ -43,24 +43,6 @@ interface View {
   scale: number;
   x0: number;
   axisY: number;
-}
-
-export interface CanvasHooks {
-  width: number;
-  height: number;
-  scale: number;
-  x0: number;
-  axisY: number;
-  elements: { index: number; x: number; y: number; enabled: boolean }[];
-  sources: { index: number; x: number; y: number; bearingDeg: number }[];
-  addHandle: { x: number; y: number } | null;
-  removeHandle: { index: number; x: number; y: number } | null;
-}
-
-declare global {
-  interface Window {
-    __steerwiseCanvas?: CanvasHooks;
-  }
 }
 
 const COLORS = {
@@ -146,21 +128,6 @@ export default function ArrayCanvas({
     !readOnly && active !== null && active < m && m > MIN_ELEMENTS
       ? { index: active, x: toScreenX(active * d), y: view.axisY - 28 }
       : null;
-
-  useEffect(() => {
-    window.__steerwiseCanvas = {
-      width,
-      height,
-      scale: view.scale,
-      x0: view.x0,
-      axisY: view.axisY,
-      elements,
-      sources,
-      addHandle,
-      removeHandle,
-    };
-  });
-  useEffect(() => () => void delete window.__steerwiseCanvas, []);
 
   const freezeView = (kind: 'element' | 'source') => setDragging({ kind, view });
   const endDrag = () => {
@@ -561,8 +528,8 @@ export default function ArrayCanvas({
               key={`ov-${el.index}`}
               type="button"
               data-testid={`element-${el.index}`}
-              data-x={el.x.toFixed(2)}
-              data-y={el.y.toFixed(2)}
+              data-x={String(el.x)}
+              data-y={String(el.y)}
               data-enabled={el.enabled ? 'true' : 'false'}
               aria-pressed={el.enabled}
               aria-label={`Element ${el.index + 1} of ${m}, ${el.enabled ? 'enabled' : 'disabled'}, at ${(el.index * d).toFixed(3)} wavelengths`}

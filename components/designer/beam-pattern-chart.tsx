@@ -2,16 +2,16 @@
 
 /**
  * Beam pattern in a Cartesian view (level in dB against bearing) or a polar
- * view (the front half-plane, broadside up), drawn as plain SVG with explicit
- * colours so exports look the same. The −3 dB level, the steering direction and
+ * view (the front half-plane, broadside up), defined in lib/charts/beam-pattern.ts
+ * (the hand-off bundle draws the same definition on the server). The −3 dB level, the steering direction and
  * any visible grating lobes are marked. Steering and taper are set here.
  */
-import { useMemo, useRef, useState } from 'react';
+import { useMemo, useState } from 'react';
 import type { DesignerAction, DesignerDraft } from '@/lib/designer/state';
 import type { DesignFigures, PatternData } from '@/lib/designer/analysis';
 import { fileSlug, patternCsv } from '@/lib/designer/export';
-import { ExportMenu } from './export-menu';
-import { CHART_FONT, CHART_INK } from './chart-style';
+import { Chart } from '@/components/charts/chart';
+import { beamPatternOption } from '@/lib/charts';
 import { cn } from '@/lib/client/cn';
 
 export interface BeamPatternChartProps {
@@ -22,54 +22,23 @@ export interface BeamPatternChartProps {
   readOnly?: boolean;
 }
 
-const C = {
-  ...CHART_INK,
-  trace: '#207b6d',
-  fill: 'rgba(43,153,134,0.10)',
-  halfPower: '#e0780b',
-  steer: '#2a3c4d',
-  grating: '#c13a26',
-};
-
-const HALF_POWER_DB = -3.0103;
-
 export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly = false }: BeamPatternChartProps) {
   const [viewKind, setViewKind] = useState<'cartesian' | 'polar'>('cartesian');
   const [floorDb, setFloorDb] = useState(-60);
-  const svgRef = useRef<SVGSVGElement>(null);
-  const W = 640;
-  const H = viewKind === 'cartesian' ? 300 : 350;
-
-  const cartesian = useMemo(() => {
-    const L = 48,
-      R = 16,
-      T = 14,
-      B = 36;
-    const x = (t: number) => L + ((t + 90) / 180) * (W - L - R);
-    const y = (db: number) => T + (Math.max(floorDb, Math.min(0, db)) / floorDb) * (300 - T - B);
-    let d = '';
-    for (let i = 0; i < pattern.thetaDeg.length; i++)
-      d += `${i ? 'L' : 'M'}${x(pattern.thetaDeg[i]).toFixed(2)},${y(pattern.valuesDb[i]).toFixed(2)}`;
-    return { x, y, d, L, R, T, B };
-  }, [pattern, floorDb]);
-
-  const polar = useMemo(() => {
-    const cx = W / 2,
-      cy = 320,
-      R = 290;
-    const r = (db: number) => (R * (Math.max(floorDb, Math.min(0, db)) - floorDb)) / -floorDb;
-    const pt = (t: number, rad: number) =>
-      [cx + rad * Math.sin((t * Math.PI) / 180), cy - rad * Math.cos((t * Math.PI) / 180)] as const;
-    let d = '';
-    for (let i = 0; i < pattern.thetaDeg.length; i++) {
-      const [px, py] = pt(pattern.thetaDeg[i], r(pattern.valuesDb[i]));
-      d += `${i ? 'L' : 'M'}${px.toFixed(2)},${py.toFixed(2)}`;
-    }
-    return { cx, cy, R, r, pt, d };
-  }, [pattern, floorDb]);
-
-  const rings: number[] = [];
-  for (let db = 0; db >= floorDb; db -= 10) rings.push(db);
+  const option = useMemo(
+    () =>
+      beamPatternOption({
+        thetaDeg: pattern.thetaDeg,
+        valuesDb: pattern.valuesDb,
+        gratingLobesDeg: pattern.gratingLobesDeg,
+        steerDeg: draft.steerDeg,
+        floorDb,
+        view: viewKind,
+        elements: draft.elements,
+      }),
+    [pattern, draft.steerDeg, draft.elements, floorDb, viewKind],
+  );
+  const zoom = useMemo(() => (viewKind === 'cartesian' ? { x: true, y: true } : false), [viewKind]);
 
   const csv = () =>
     patternCsv(pattern, {
@@ -173,181 +142,18 @@ export function BeamPatternChart({ draft, pattern, figures, dispatch, readOnly =
             ))}
           </select>
         </label>
-        <div className="ml-auto">
-          <ExportMenu
-            svgRef={svgRef}
-            baseName={`${fileSlug(draft.name)}-beam-pattern`}
-            csv={csv}
-            testIdPrefix="pattern"
-          />
-        </div>
       </div>
 
-      <svg
-        ref={svgRef}
-        viewBox={`0 0 ${W} ${H}`}
-        className="w-full"
-        role="img"
-        aria-label={`Beam pattern, ${viewKind} view, steered to ${draft.steerDeg.toFixed(1)} degrees`}
-        fontFamily={CHART_FONT}
-      >
-        {viewKind === 'cartesian' ? (
-          <g>
-            {rings.map((db) => (
-              <g key={db}>
-                <line x1={cartesian.L} x2={W - cartesian.R} y1={cartesian.y(db)} y2={cartesian.y(db)} stroke={C.grid} />
-                <text x={cartesian.L - 6} y={cartesian.y(db) + 3} textAnchor="end" fontSize={10} fill={C.text}>
-                  {db}
-                </text>
-              </g>
-            ))}
-            {[-90, -60, -30, 0, 30, 60, 90].map((t) => (
-              <g key={t}>
-                <line x1={cartesian.x(t)} x2={cartesian.x(t)} y1={cartesian.T} y2={300 - cartesian.B} stroke={C.grid} />
-                <text x={cartesian.x(t)} y={300 - cartesian.B + 14} textAnchor="middle" fontSize={10} fill={C.text}>
-                  {t}°
-                </text>
-              </g>
-            ))}
-            <text x={W / 2} y={296} textAnchor="middle" fontSize={10} fill={C.text}>
-              bearing from broadside
-            </text>
-            <text x={12} y={150} fontSize={10} fill={C.text} transform="rotate(-90 12 150)" textAnchor="middle">
-              level, dB re peak
-            </text>
-            {pattern.gratingLobesDeg.map((t) => (
-              <g key={`gl-${t}`} data-testid="grating-lobe-marker">
-                <line
-                  x1={cartesian.x(t)}
-                  x2={cartesian.x(t)}
-                  y1={cartesian.T}
-                  y2={300 - cartesian.B}
-                  stroke={C.grating}
-                  strokeDasharray="2 3"
-                  strokeWidth={1.5}
-                />
-                <text
-                  x={cartesian.x(t) + (t > 0 ? -4 : 4)}
-                  y={cartesian.T + 22}
-                  textAnchor={t > 0 ? 'end' : 'start'}
-                  fontSize={10}
-                  fill={C.grating}
-                >
-                  grating lobe {t.toFixed(1)}°
-                </text>
-              </g>
-            ))}
-            <line
-              x1={cartesian.x(draft.steerDeg)}
-              x2={cartesian.x(draft.steerDeg)}
-              y1={cartesian.T}
-              y2={300 - cartesian.B}
-              stroke={C.steer}
-              strokeDasharray="5 4"
-            />
-            <path
-              d={`${cartesian.d}L${cartesian.x(90)},${cartesian.y(floorDb)}L${cartesian.x(-90)},${cartesian.y(floorDb)}Z`}
-              fill={C.fill}
-              stroke="none"
-            />
-            <path d={cartesian.d} fill="none" stroke={C.trace} strokeWidth={1.6} strokeLinejoin="round" />
-            <line
-              x1={cartesian.L}
-              x2={W - cartesian.R}
-              y1={cartesian.y(HALF_POWER_DB)}
-              y2={cartesian.y(HALF_POWER_DB)}
-              stroke={C.halfPower}
-              strokeDasharray="6 3"
-            />
-            <text
-              x={W - cartesian.R - 2}
-              y={cartesian.y(HALF_POWER_DB) - 4}
-              textAnchor="end"
-              fontSize={10}
-              fill={C.halfPower}
-            >
-              −3 dB
-            </text>
-            <rect
-              x={cartesian.L}
-              y={cartesian.T}
-              width={W - cartesian.L - cartesian.R}
-              height={300 - cartesian.T - cartesian.B}
-              fill="none"
-              stroke={C.axis}
-            />
-          </g>
-        ) : (
-          <g>
-            {rings.map((db) => {
-              const rr = polar.r(db);
-              return (
-                <g key={db}>
-                  <path
-                    d={`M${polar.cx - rr},${polar.cy} A${rr},${rr} 0 0 1 ${polar.cx + rr},${polar.cy}`}
-                    fill="none"
-                    stroke={C.grid}
-                  />
-                  <text x={polar.cx + 4} y={polar.cy - rr + 11} fontSize={9} fill={C.text}>
-                    {db}
-                  </text>
-                </g>
-              );
-            })}
-            {[-90, -60, -30, 0, 30, 60, 90].map((t) => {
-              const [px, py] = polar.pt(t, polar.R);
-              const [lx, ly] = polar.pt(t, polar.R + 14);
-              return (
-                <g key={t}>
-                  <line x1={polar.cx} y1={polar.cy} x2={px} y2={py} stroke={C.grid} />
-                  <text x={lx} y={ly + 3} textAnchor="middle" fontSize={10} fill={C.text}>
-                    {t}°
-                  </text>
-                </g>
-              );
-            })}
-            {pattern.gratingLobesDeg.map((t) => {
-              const [px, py] = polar.pt(t, polar.R);
-              return (
-                <line
-                  key={`gl-${t}`}
-                  data-testid="grating-lobe-marker"
-                  x1={polar.cx}
-                  y1={polar.cy}
-                  x2={px}
-                  y2={py}
-                  stroke={C.grating}
-                  strokeDasharray="2 3"
-                  strokeWidth={1.5}
-                />
-              );
-            })}
-            {(() => {
-              const [px, py] = polar.pt(draft.steerDeg, polar.R);
-              return <line x1={polar.cx} y1={polar.cy} x2={px} y2={py} stroke={C.steer} strokeDasharray="5 4" />;
-            })()}
-            {(() => {
-              const rr = polar.r(HALF_POWER_DB);
-              return (
-                <path
-                  d={`M${polar.cx - rr},${polar.cy} A${rr},${rr} 0 0 1 ${polar.cx + rr},${polar.cy}`}
-                  fill="none"
-                  stroke={C.halfPower}
-                  strokeDasharray="6 3"
-                />
-              );
-            })()}
-            <path d={`${polar.d}Z`} fill={C.fill} stroke={C.trace} strokeWidth={1.6} strokeLinejoin="round" />
-            <line x1={polar.cx - polar.R} x2={polar.cx + polar.R} y1={polar.cy} y2={polar.cy} stroke={C.axis} />
-            <text x={polar.cx - polar.R} y={polar.cy + 16} fontSize={10} fill={C.text}>
-              array axis (element 1)
-            </text>
-            <text x={polar.cx + polar.R} y={polar.cy + 16} textAnchor="end" fontSize={10} fill={C.text}>
-              element {draft.elements}
-            </text>
-          </g>
-        )}
-      </svg>
+      <Chart
+        option={option}
+        height={viewKind === 'cartesian' ? 300 : 350}
+        ariaLabel={`Beam pattern, ${viewKind} view, steered to ${draft.steerDeg.toFixed(1)} degrees`}
+        exportName={`${fileSlug(draft.name)}-beam-pattern`}
+        testIdPrefix="pattern"
+        csv={csv}
+        zoom={zoom}
+        dataAttributes={{ 'data-grating-lobes': pattern.gratingLobesDeg.map((t) => t.toFixed(3)).join(' ') }}
+      />
       <p className="text-xs text-ink-500">
         Dashed orange: −3 dB (half power). Dark dashed line: steering direction.
         {pattern.gratingLobesDeg.length ? (

@@ -7,7 +7,7 @@
  * action, so canvas and form never disagree. Errors sit under their fields,
  * tied with aria-describedby.
  */
-import { useEffect, useRef, useState } from 'react';
+import { useEffect, useState } from 'react';
 import { FormProvider, useForm, useFormContext, useWatch } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import {
@@ -61,21 +61,20 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
     mode: 'onChange',
     resetOptions: { keepErrors: false },
   });
-  const { register, watch, handleSubmit, formState, setError, control } = form;
-  const draftRef = useRef(draft);
-  draftRef.current = draft;
+  const { register, getValues, handleSubmit, formState, setError, control } = form;
   const [saveState, setSaveState] = useState<'idle' | 'saving' | 'saved' | 'failed'>('idle');
 
-  useEffect(() => {
+  /**
+   * The designer's reducer holds the one draft; the form shows it (`values`) and
+   * every edit the user makes in the form goes back to the reducer as one
+   * 'replace' once the whole form is valid (quantity fields with units on blur). Edits elsewhere (the canvas) reach the
+   * form through `values`, which react-hook-form compares before resetting.
+   */
+  const sendToDraft = () => {
     if (readOnly) return;
-    const sub = watch((values) => {
-      const parsed = arrayInputSchema.safeParse(prepare(values as ArrayInputRaw));
-      if (!parsed.success) return;
-      const next = normalizeDraft(parsed.data);
-      if (JSON.stringify(next) !== JSON.stringify(draftRef.current)) dispatch({ type: 'replace', input: parsed.data });
-    });
-    return () => sub.unsubscribe();
-  }, [watch, dispatch, readOnly]);
+    const parsed = arrayInputSchema.safeParse(prepare(getValues()));
+    if (parsed.success) dispatch({ type: 'replace', input: parsed.data });
+  };
 
   useEffect(() => {
     if (!serverErrors) return;
@@ -94,7 +93,7 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
     if (!onSave) return;
     setSaveState('saving');
     try {
-      await onSave(draftRef.current);
+      await onSave(draft);
       setSaveState('saved');
     } catch {
       setSaveState('failed');
@@ -105,7 +104,7 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
 
   return (
     <FormProvider {...form}>
-      <form onSubmit={submit} noValidate data-testid="designer-form" aria-label="Array design">
+      <form onSubmit={submit} onChange={sendToDraft} noValidate data-testid="designer-form" aria-label="Array design">
         <fieldset disabled={readOnly} className="space-y-4">
           <div className={section}>
             <div>
@@ -131,7 +130,7 @@ export function DesignerForm({ draft, geometry, dispatch, readOnly = false, onSa
             </div>
             <div className="grid grid-cols-2 gap-3 sm:grid-cols-3">
               <NumberField name="elements" label="Elements" step="1" />
-              <NumberField name="spacing.value" label="Spacing" />
+              <NumberField name="spacing.value" label="Spacing" quantity={{ example: '12.5 mm or 0.5 lambda' }} />
               <div>
                 <label htmlFor="f-spacing-unit" className="block text-xs font-medium text-ink-700">
                   Spacing unit

@@ -9,7 +9,7 @@
  * wires this to POST/PATCH /api/v1/arrays; 422 `fields` can be passed back as
  * `serverErrors`).
  */
-import { useDeferredValue, useEffect, useMemo, useReducer } from 'react';
+import { useDeferredValue, useMemo, useReducer } from 'react';
 import type { ArrayInput } from '@/lib/validations/array';
 import { designerReducer, enabledSummary, normalizeDraft } from '@/lib/designer/state';
 import { chartLookDeg, designFigures, designPattern, pairAdvice, separationCurves } from '@/lib/designer/analysis';
@@ -26,12 +26,6 @@ export interface DesignerProps {
   onSave?: (input: ArrayInput) => void | Promise<void>;
   /** 422 field errors from the server, keyed by field name. */
   serverErrors?: Record<string, string[]>;
-}
-
-declare global {
-  interface Window {
-    __steerwiseDesigner?: { draft: unknown; figures: unknown };
-  }
 }
 
 function Panel({
@@ -73,13 +67,9 @@ export function Designer({ initial, readOnly = false, onSave, serverErrors }: De
   const taperLabel =
     draft.taper.kind === 'chebyshev' ? `Dolph–Chebyshev ${draft.taper.sidelobeDb} dB` : `${draft.taper.kind} taper`;
 
-  useEffect(() => {
-    window.__steerwiseDesigner = { draft, figures };
-  }, [draft, figures]);
-  useEffect(() => () => void delete window.__steerwiseDesigner, []);
-
   return (
     <div className="space-y-4" data-testid="designer" data-read-only={readOnly ? 'true' : 'false'}>
+      {/* The draft for tests and tooling, as a data-* attribute (no globals on window). */}
       <output hidden data-testid="designer-state" data-json={JSON.stringify(draft)} />
       {readOnly ? (
         <p className="rounded-md border border-ink-200 bg-ink-50 px-3 py-2 text-sm text-ink-700" role="status">

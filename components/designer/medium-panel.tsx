@@ -26,6 +26,15 @@ export const mediumDefaults: Record<MediumInput['kind'], MediumInput> = {
 
 const num = (v: unknown) => (v === '' || v === null || v === undefined ? undefined : Number(v));
 
+const PLAIN_NUMBER = /^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$/;
+/** A quantity field's text: a plain number becomes a number; text with units stays text for the schema. */
+const quantityText = (v: unknown) =>
+  v === '' || v === null || v === undefined
+    ? undefined
+    : typeof v === 'string' && !PLAIN_NUMBER.test(v)
+      ? v.trim()
+      : Number(v);
+
 export function formatLength(m: number): string {
   if (m >= 1) return `${m.toFixed(4)} m`;
   if (m >= 1e-3) return `${(m * 1000).toFixed(3)} mm`;
@@ -40,6 +49,7 @@ export function NumberField({
   readOnly,
   testId,
   hideLabel,
+  quantity,
 }: {
   name: string;
   label: string;
@@ -48,10 +58,17 @@ export function NumberField({
   readOnly?: boolean;
   testId?: string;
   hideLabel?: boolean;
+  /**
+   * Accept units and expressions (`3 kHz`, `12.5 mm`, `1500/(2*3000) m`), converted by the shared
+   * schema; the example is the placeholder. The value goes to the design when the field is left
+   * (the form listens to blur), not on every keystroke, so a half-typed unit is not taken early.
+   */
+  quantity?: { example: string };
 }) {
   const { register, getFieldState, formState } = useFormContext<ArrayInputRaw>();
   const error = (getFieldState(name as never, formState).error as { message?: string } | undefined)?.message;
   const id = `f-${name.replace(/[^a-zA-Z0-9]+/g, '-')}`;
+  const field = register(name as never, { setValueAs: quantity ? quantityText : num });
   return (
     <div>
       <label htmlFor={id} className={hideLabel ? 'sr-only' : 'block text-xs font-medium text-ink-700'}>
@@ -60,9 +77,11 @@ export function NumberField({
       </label>
       <input
         id={id}
-        type="number"
-        step={step}
-        inputMode="decimal"
+        type={quantity ? 'text' : 'number'}
+        step={quantity ? undefined : step}
+        inputMode={quantity ? 'text' : 'decimal'}
+        placeholder={quantity ? `e.g. ${quantity.example}` : undefined}
+        spellCheck={quantity ? false : undefined}
         readOnly={readOnly}
         aria-invalid={error ? true : undefined}
         aria-describedby={error ? `${id}-error` : undefined}
@@ -72,7 +91,15 @@ export function NumberField({
           hideLabel ? '' : 'mt-1',
           error ? 'border-coral-500' : 'border-ink-200',
         )}
-        {...register(name as never, { setValueAs: num })}
+        {...field}
+        onChange={
+          quantity
+            ? (e) => {
+                e.stopPropagation();
+                return field.onChange(e);
+              }
+            : field.onChange
+        }
       />
       <FieldError id={id} error={error} />
     </div>
@@ -113,12 +140,24 @@ export function MediumPanel({ geometry, readOnly = false }: MediumPanelProps) {
             <option value="custom">Custom speed</option>
           </select>
         </div>
-        <NumberField name="frequencyHz" label="Analysis frequency" unit="Hz" readOnly={readOnly} />
+        <NumberField
+          name="frequencyHz"
+          label="Analysis frequency"
+          unit="Hz"
+          readOnly={readOnly}
+          quantity={{ example: '3 kHz' }}
+        />
         {kind === 'sea-water' ? (
           <>
             <NumberField name="medium.temperatureC" label="Temperature" unit="°C" readOnly={readOnly} />
             <NumberField name="medium.salinityPpt" label="Salinity" unit="ppt" readOnly={readOnly} />
-            <NumberField name="medium.depthM" label="Depth" unit="m" readOnly={readOnly} />
+            <NumberField
+              name="medium.depthM"
+              label="Depth"
+              unit="m"
+              readOnly={readOnly}
+              quantity={{ example: '0.2 km' }}
+            />
             <div>
               <label htmlFor="f-medium-equation" className="block text-xs font-medium text-ink-700">
                 Equation
@@ -144,7 +183,15 @@ export function MediumPanel({ geometry, readOnly = false }: MediumPanelProps) {
         {kind === 'fresh-water' || kind === 'air' ? (
           <NumberField name="medium.temperatureC" label="Temperature" unit="°C" readOnly={readOnly} />
         ) : null}
-        {kind === 'custom' ? <NumberField name="medium.speedMps" label="Speed" unit="m/s" readOnly={readOnly} /> : null}
+        {kind === 'custom' ? (
+          <NumberField
+            name="medium.speedMps"
+            label="Speed"
+            unit="m/s"
+            readOnly={readOnly}
+            quantity={{ example: '1.5 km/s' }}
+          />
+        ) : null}
       </div>
       <dl className="grid grid-cols-3 gap-2 rounded-md bg-paper px-3 py-2 text-sm" aria-live="polite">
         <div>

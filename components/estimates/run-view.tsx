@@ -1,6 +1,6 @@
 'use client';
 import useSWR from 'swr';
-import { useState } from 'react';
+import { useMemo, useState } from 'react';
 import { useRouter } from 'next/navigation';
 import { fetcher } from '@/lib/client/fetcher';
 import { Card, CardHeader } from '@/components/ui/card';
@@ -104,6 +104,17 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
   const k = Math.max(0, ...run.results.map((r) => r.bearingsDeg.length));
   const first = run.results[0];
   const warnings = run.results.flatMap((r) => r.warnings.map((w) => ({ ...w, method: r.method })));
+  const spectrumSeries = useMemo(
+    () =>
+      run.results.map((r) => ({
+        label: METHOD_LABELS[r.method] ?? r.method,
+        method: r.method,
+        spectrum: r.spectrum,
+        bearingsDeg: r.bearingsDeg,
+        crbStdDeg: r.uncertainty?.crbStdDeg ?? null,
+      })),
+    [run.results],
+  );
   const uniqueWarnings = Array.from(new Map(warnings.map((w) => [`${w.code}|${w.message}`, w])).values());
 
   return (
@@ -293,14 +304,7 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
               description="Spectral methods show their own spectrum; ESPRIT and root-MUSIC show the MUSIC spectrum of the same signal subspace. Ticks at the top mark each method's bearings."
             />
             <div className="px-5 py-4">
-              <SpectrumChart
-                series={run.results.map((r) => ({
-                  label: METHOD_LABELS[r.method] ?? r.method,
-                  method: r.method,
-                  spectrum: r.spectrum,
-                  bearingsDeg: r.bearingsDeg,
-                }))}
-              />
+              <SpectrumChart series={spectrumSeries} exportName={`estimate-${run.id}-spectra`} />
             </div>
           </Card>
 

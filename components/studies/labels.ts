@@ -5,5 +5,3 @@ export const VARIABLE_LABELS: Record<string, { name: string; unit: string; axis:
   snapshots: { name: 'Snapshots N', unit: '', axis: 'snapshots N (log scale)' },
   elements: { name: 'Elements M', unit: '', axis: 'elements M (log scale)' },
 };
-
-export const COLOURS = ['#0f766e', '#b45309', '#7c3aed', '#be123c', '#2563eb', '#4d7c0f', '#525252'];

@@ -1,10 +1,10 @@
 /**
  * Export of the designer's figures and data.
  *  - patternCsv / separationCsv: pure, usable anywhere (tested in node).
- *  - svgMarkup, svgToPngBlob, downloadBlob: browser only (they need the DOM);
+ *  - svgToPngBlob, downloadBlob: browser only (they need the DOM);
  *    call them from event handlers of client components.
- * The charts draw with explicit fill/stroke attributes (no CSS classes), so the
- * serialized SVG looks the same outside the page.
+ * Chart images (SVG, PNG) are made by components/charts/chart.tsx from the
+ * chart's ECharts option.
  */
 
 export interface CsvPattern {
@@ -56,27 +56,6 @@ export function fileSlug(text: string, fallback = 'array'): string {
     .replace(/^-+|-+$/g, '')
     .slice(0, 60);
   return s || fallback;
-}
-
-/** Standalone SVG markup of an on-page <svg> (adds the namespace and a white background). Browser only. */
-export function svgMarkup(svg: SVGSVGElement): string {
-  const clone = svg.cloneNode(true) as SVGSVGElement;
-  clone.setAttribute('xmlns', 'http://www.w3.org/2000/svg');
-  const box = svg.viewBox.baseVal;
-  const width = box && box.width ? box.width : svg.clientWidth;
-  const height = box && box.height ? box.height : svg.clientHeight;
-  clone.setAttribute('width', String(width));
-  clone.setAttribute('height', String(height));
-  clone.removeAttribute('class');
-  const bg = document.createElementNS('http://www.w3.org/2000/svg', 'rect');
-  bg.setAttribute('x', box && box.width ? String(box.x) : '0');
-  bg.setAttribute('y', box && box.height ? String(box.y) : '0');
-  bg.setAttribute('width', String(width));
-  bg.setAttribute('height', String(height));
-  bg.setAttribute('fill', '#ffffff');
-  clone.insertBefore(bg, clone.firstChild);
-  clone.setAttribute('font-family', 'IBM Plex Sans, ui-sans-serif, system-ui, sans-serif');
-  return '<?xml version="1.0" encoding="UTF-8"?>\n' + new XMLSerializer().serializeToString(clone);
 }
 
 /** Renders SVG markup to a PNG blob through an off-screen canvas. Browser only. */

@@ -43,6 +43,30 @@ function withTrailingUnit(text: string): string {
   return text;
 }
 
+/** Expression nodes a quantity may not contain: assignments, function definitions, several statements. */
+const REFUSED_NODES = new Set(['AssignmentNode', 'FunctionAssignmentNode', 'BlockNode']);
+
+/**
+ * Evaluate a typed quantity. `λ` is read as `lambda`. A plain "number unit" (`2 min`, `12.5 mm`)
+ * is read as a unit first, so unit names that are also functions (min, max) mean the unit; anything
+ * else is an expression, refused if it assigns or defines anything.
+ */
+function evaluateQuantityText(raw: string): unknown {
+  const text = raw.replace(/λ/g, ' lambda ').replace(/\s+/g, ' ').trim();
+  if (/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*[A-Za-zµ°][A-Za-zµ°/^0-9 ]*$/.test(text)) {
+    try {
+      return math.unit(text);
+    } catch {
+      // not a single unit: read it as an expression below
+    }
+  }
+  const prepared = withTrailingUnit(text);
+  math.parse(prepared).traverse((node) => {
+    if (REFUSED_NODES.has(node.type)) throw new Error('only a value or an expression is allowed, not an assignment');
+  });
+  return evaluateExpression(prepared);
+}
+
 export type QuantityKind = 'length' | 'frequency' | 'time' | 'speed' | 'angle';
 
 /** The SI unit a plain number means for each kind, and a probe unit of that dimension. */
@@ -54,7 +78,8 @@ export const QUANTITY_UNITS: Record<QuantityKind, { unit: string; example: strin
   angle: { unit: 'deg', example: '3 deg' },
 };
 
-export type ParsedQuantity = { value: number; unit: string };
+/** The value in `unit`; `withUnit` tells whether the input named a unit (false for plain numbers and unitless expressions). */
+export type ParsedQuantity = { value: number; unit: string; withUnit: boolean };
 
 export class QuantityError extends Error {}
 
@@ -71,28 +96,28 @@ export function parseQuantity(
   const { unit } = QUANTITY_UNITS[kind];
   if (typeof input === 'number') {
     if (!Number.isFinite(input)) throw new QuantityError(`expected a finite number in ${unit}`);
-    return { value: input, unit };
+    return { value: input, unit, withUnit: false };
   }
   const text = input.trim();
   if (text === '') throw new QuantityError(`expected a ${kind} such as ${QUANTITY_UNITS[kind].example}`);
   if (text.length > 200) throw new QuantityError('expression is longer than 200 characters');
   let result: unknown;
   try {
-    result = evaluateExpression(withTrailingUnit(text));
+    result = evaluateQuantityText(text);
   } catch (err) {
     throw new QuantityError(`could not read "${text}" as a ${kind} (${(err as Error).message})`);
   }
   if (typeof result === 'number') {
     if (!Number.isFinite(result)) throw new QuantityError(`"${text}" is not a finite number`);
-    return { value: result, unit };
+    return { value: result, unit, withUnit: false };
   }
   if (!math.isUnit(result)) throw new QuantityError(`"${text}" is not a ${kind}`);
   const u = result as Unit;
   if (options.allowWavelength && u.equalBase(math.unit('1 lambda'))) {
     const wavelengths = u.toNumber('lambda');
     if (!Number.isFinite(wavelengths)) throw new QuantityError(`"${text}" is not a finite number`);
-    if (options.wavelengthM !== undefined) return { value: wavelengths * options.wavelengthM, unit };
-    return { value: wavelengths, unit: 'wavelength' };
+    if (options.wavelengthM !== undefined) return { value: wavelengths * options.wavelengthM, unit, withUnit: true };
+    return { value: wavelengths, unit: 'wavelength', withUnit: true };
   }
   const probe = kind === 'angle' ? math.unit('1 deg') : math.unit(`1 ${unit}`);
   if (!u.equalBase(probe)) {
@@ -103,29 +128,50 @@ export function parseQuantity(
   }
   const value = u.toNumber(unit);
   if (!Number.isFinite(value)) throw new QuantityError(`"${text}" is not a finite number`);
-  return { value, unit };
+  return { value, unit, withUnit: true };
+}
+
+/** Bounds of a quantity, in the kind's documented unit. */
+export interface QuantityBounds {
+  min?: number;
+  max?: number;
+  positive?: boolean;
+  /** The field's name, put at the start of every refusal (`frequencyHz: …`). */
+  field?: string;
+}
+
+/** The refusal for a value outside its bounds, or null. */
+export function quantityBoundsError(v: number, kind: QuantityKind, bounds: QuantityBounds): string | null {
+  const { unit } = QUANTITY_UNITS[kind];
+  const name = bounds.field ?? 'the value';
+  if (bounds.positive && !(v > 0)) return `${name} must be greater than 0 ${unit}`;
+  if (bounds.min !== undefined && v < bounds.min) return `${name} must be at least ${bounds.min} ${unit}`;
+  if (bounds.max !== undefined && v > bounds.max) return `${name} must be at most ${bounds.max} ${unit}`;
+  return null;
 }
 
 /**
- * A zod schema for a quantity: accepts a number (in `unit`) or a string with units, and yields the
- * number in the kind's documented unit. A refusal says what was expected; zod puts it under the field.
+ * A zod schema for a quantity: accepts a number (in the kind's documented unit) or a string with
+ * units or an expression, and yields the number in the documented unit. A refusal names the field
+ * (when `bounds.field` is given) and says what was expected; zod puts it under the field's path.
  */
-export function quantitySchema(kind: QuantityKind, bounds: { min?: number; max?: number; positive?: boolean } = {}) {
-  const { unit } = QUANTITY_UNITS[kind];
-  return z.union([z.number(), z.string()]).transform((input, ctx) => {
-    let parsed: ParsedQuantity;
-    try {
-      parsed = parseQuantity(input, kind);
-    } catch (err) {
-      ctx.addIssue({ code: 'custom', message: (err as Error).message });
-      return z.NEVER;
-    }
-    const v = parsed.value;
-    if (bounds.positive && !(v > 0)) ctx.addIssue({ code: 'custom', message: `must be greater than 0 ${unit}` });
-    else if (bounds.min !== undefined && v < bounds.min)
-      ctx.addIssue({ code: 'custom', message: `must be at least ${bounds.min} ${unit}` });
-    else if (bounds.max !== undefined && v > bounds.max)
-      ctx.addIssue({ code: 'custom', message: `must be at most ${bounds.max} ${unit}` });
-    return v;
-  });
+export function quantitySchema(kind: QuantityKind, bounds: QuantityBounds = {}) {
+  const { unit, example } = QUANTITY_UNITS[kind];
+  const prefix = bounds.field ? `${bounds.field}: ` : '';
+  return z
+    .union([z.number(), z.string()], {
+      error: `${prefix}expected a ${kind} as a number in ${unit} or a text such as "${example}"`,
+    })
+    .transform((input, ctx) => {
+      let parsed: ParsedQuantity;
+      try {
+        parsed = parseQuantity(input, kind);
+      } catch (err) {
+        ctx.addIssue({ code: 'custom', message: `${prefix}${(err as Error).message}` });
+        return z.NEVER;
+      }
+      const refusal = quantityBoundsError(parsed.value, kind, bounds);
+      if (refusal) ctx.addIssue({ code: 'custom', message: refusal });
+      return parsed.value;
+    });
 }

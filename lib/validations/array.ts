@@ -14,6 +14,7 @@
  */
 import { z } from 'zod';
 import { propagationSpeed, type Medium } from '@/lib/doa/design/medium';
+import { parseQuantity, quantitySchema } from '@/lib/units/quantity';
 
 /** Element-count limits of the designer and the arrays API. */
 export const MIN_ELEMENTS = 2;
@@ -41,9 +42,7 @@ export const mediumSchema = z.discriminatedUnion(
       salinityPpt: finite('medium.salinityPpt').refine((v) => v >= 0 && v <= 60, {
         error: 'medium.salinityPpt must lie between 0 and 60 ppt',
       }),
-      depthM: finite('medium.depthM').refine((v) => v >= 0 && v <= 11000, {
-        error: 'medium.depthM must lie between 0 and 11000 m',
-      }),
+      depthM: quantitySchema('length', { field: 'medium.depthM', min: 0, max: 11000 }),
       equation: z.enum(['mackenzie-1981', 'unesco-1983'], {
         error: 'medium.equation must be mackenzie-1981 or unesco-1983',
       }),
@@ -52,9 +51,7 @@ export const mediumSchema = z.discriminatedUnion(
     z.object({ kind: z.literal('air'), temperatureC: temperature('medium.temperatureC') }),
     z.object({
       kind: z.literal('custom'),
-      speedMps: positive('medium.speedMps').refine((v) => v <= 1e9, {
-        error: 'medium.speedMps must be at most 1e9 m/s',
-      }),
+      speedMps: quantitySchema('speed', { field: 'medium.speedMps', positive: true, max: 1e9 }),
     }),
   ],
   { error: 'medium.kind must be radio, sea-water, fresh-water, air or custom' },
@@ -101,6 +98,44 @@ export const plannedSourceSchema = z.object({
 export const spacingUnits = ['wavelength', 'm', 'mm'] as const;
 export type SpacingUnit = (typeof spacingUnits)[number];
 
+const SPACING_MAX = 1e6;
+
+/**
+ * The spacing `{value, unit}`. A number (or a unitless expression) is in `unit`. A text with units
+ * says its own unit: a length (`12.5 mm`, `0.0125 m`) is kept in millimetres when `unit` is mm and
+ * in metres otherwise; a spacing in wavelengths (`0.5 lambda`, `0.5 λ`) becomes unit wavelength.
+ */
+export const spacingSchema = z
+  .object(
+    {
+      value: z.union([z.number(), z.string()], {
+        error: 'spacing.value is required: a number in spacing.unit, or a length such as "12.5 mm" or "0.5 lambda"',
+      }),
+      unit: z.enum(spacingUnits, { error: 'spacing.unit must be wavelength, m or mm' }),
+    },
+    { error: 'spacing must be an object {value, unit}' },
+  )
+  .transform((v, ctx) => {
+    const refuse = (message: string) => {
+      ctx.addIssue({ code: 'custom', path: ['value'], message });
+      return z.NEVER;
+    };
+    let value: number;
+    let unit: SpacingUnit = v.unit;
+    try {
+      const q = parseQuantity(v.value, 'length', { allowWavelength: true });
+      if (q.unit === 'wavelength') [value, unit] = [q.value, 'wavelength'];
+      else if (!q.withUnit) value = q.value;
+      else if (v.unit === 'mm') value = q.value * 1000;
+      else [value, unit] = [q.value, 'm'];
+    } catch (err) {
+      return refuse(`spacing.value: ${(err as Error).message}`);
+    }
+    if (!(value > 0)) return refuse('spacing.value must be greater than 0');
+    if (value > SPACING_MAX) return refuse(`spacing.value is too large (at most ${SPACING_MAX})`);
+    return { value, unit };
+  });
+
 export const arrayInputSchema = z
   .object({
     name: z
@@ -119,15 +154,9 @@ export const arrayInputSchema = z
         error: (iss) =>
           `elements must be at most ${MAX_ELEMENTS}; ${String(iss.input)} is more than the designer supports`,
       }),
-    spacing: z.object(
-      {
-        value: positive('spacing.value').refine((v) => v <= 1e6, { error: 'spacing.value is too large (at most 1e6)' }),
-        unit: z.enum(spacingUnits, { error: 'spacing.unit must be wavelength, m or mm' }),
-      },
-      { error: 'spacing must be an object {value, unit}' },
-    ),
-    frequencyHz: positive('frequencyHz').optional(),
-    propagationSpeedMps: positive('propagationSpeedMps').optional(),
+    spacing: spacingSchema,
+    frequencyHz: quantitySchema('frequency', { field: 'frequencyHz', positive: true }).optional(),
+    propagationSpeedMps: quantitySchema('speed', { field: 'propagationSpeedMps', positive: true }).optional(),
     medium: mediumSchema.optional(),
     steerDeg: bearing('steerDeg').optional(),
     scanSectorDeg: finite('scanSectorDeg')

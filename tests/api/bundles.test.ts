@@ -11,6 +11,9 @@ import { safeUnzip } from '@/lib/bundle/safe-unzip';
 import { designFigures } from '@/lib/designer/analysis';
 import { normalizeDraft } from '@/lib/designer/state';
 import { arrayInputSchema } from '@/lib/validations/array';
+import { beamPatternBundleOption, separationBundleOption, BUNDLE_CHART_SIZE } from '@/lib/handoff/charts';
+import { renderChartSvg } from '@/lib/charts/ssr';
+import type { ChartOption } from '@/lib/charts';
 import * as bundleRoute from '@/app/api/v1/arrays/[id]/bundle/route';
 import * as bundlesRoute from '@/app/api/v1/bundles/route';
 import { browserHeaders, json, params, req, userOf, ORIGIN, type Who } from '../helpers/api';
@@ -123,12 +126,20 @@ describe('export', () => {
       '0.4',
       '-2.5',
     ]);
-    // Charts are standalone SVG with a drawn curve.
-    for (const p of ['charts/beam-pattern.svg', 'charts/separation-vs-aperture.svg']) {
+    // Charts are standalone SVG with a drawn curve, rendered on the server from the
+    // same chart definitions the designer page draws (consistency check: lib/charts).
+    const draft = normalizeDraft(revision.config);
+    const expected: Record<string, ChartOption> = {
+      'charts/beam-pattern.svg': beamPatternBundleOption(draft),
+      'charts/separation-vs-aperture.svg': separationBundleOption(draft),
+    };
+    for (const [p, option] of Object.entries(expected)) {
       const svg = Buffer.from(files.get(p)!).toString();
-      expect(svg.startsWith('<svg xmlns="http://www.w3.org/2000/svg"')).toBe(true);
-      expect(svg).toMatch(/<path d="M[0-9.]+,[0-9.]+L/);
+      expect(svg.startsWith('<svg ')).toBe(true);
+      expect(svg).toContain('xmlns="http://www.w3.org/2000/svg"');
+      expect(svg).toMatch(/<path d="M[0-9.]+ [0-9.]+L/);
       expect(svg.trim().endsWith('</svg>')).toBe(true);
+      expect(svg).toBe(renderChartSvg(option, BUNDLE_CHART_SIZE));
     }
     // The summary states the engine's figures for this revision.
     const summary = Buffer.from(files.get('summary.txt')!).toString();

@@ -25,7 +25,7 @@ import { browserForFile, shot, signIn } from './browser';
 
 const { open } = browserForFile();
 
-/** The designer's state as the page reports it (E's hidden `designer-state` hook), validated with the shared schema. */
+/** The designer's state as the page reports it (the hidden `designer-state` output's data-json), validated with the shared schema. */
 async function state(page: Page): Promise<ArrayInput> {
   const json = await page.getByTestId('designer-state').getAttribute('data-json');
   return arrayInputSchema.parse(JSON.parse(json!));
@@ -140,7 +140,10 @@ describe('an engineer designs an array in the browser', () => {
       await drag(page, 'element-8', 60, 0);
       s = await expectFiguresMatchEngine(page, 'after drag');
       expect(spacingOf(s)).toBeGreaterThan(before);
-      const xs = await page.evaluate(() => window.__steerwiseCanvas!.elements.map((e) => e.x));
+      const xs = await page
+        .locator('[data-testid^="element-"][data-x]')
+        .evaluateAll((els) => els.map((e) => Number(e.getAttribute('data-x'))));
+      expect(xs).toHaveLength(9);
       const steps = xs.slice(1).map((x, i) => x - xs[i]);
       expect(Math.max(...steps) - Math.min(...steps)).toBeLessThan(1e-6);
 
@@ -263,10 +266,9 @@ describe('an engineer designs an array in the browser', () => {
       expect(seen).toEqual({ '0-1': true, '0-2': false, '1-2': false });
       const flagged = page.locator('[data-testid="pair-item"][data-below-gap="true"]');
       await expect(flagged.textContent()).resolves.toMatch(/Below/);
-      // The chart marks the same pairs.
-      const points = page.getByTestId('sep-pair-point');
-      const pointFlags = await points.evaluateAll((els) => els.map((e) => e.getAttribute('data-below-gap')));
-      expect(pointFlags.sort()).toEqual(['false', 'false', 'true']);
+      // The chart draws the same pairs, flagged the same way (the pair points it plots, on its container).
+      const drawn = (await page.getByTestId('separation-plot').getAttribute('data-pairs'))!.split(' ');
+      expect(drawn.sort()).toEqual(['0-1:below', '0-2:above', '1-2:above']);
       await page.getByTestId('separation-panel').scrollIntoViewIfNeeded();
       await page.getByTestId('separation-panel').screenshot({ path: 'test-results/designer-03-separation.png' });
     } finally {

@@ -8,7 +8,8 @@ import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
 import reference from '@/fixtures/api/reference.json';
-import { browserForFile, shot, signIn } from './browser';
+import { simulateSnapshots } from '@/lib/doa/sim/simulate';
+import { browserForFile, csrf, shot, signIn } from './browser';
 
 const { open } = browserForFile();
 
@@ -68,8 +69,103 @@ describe('datasets and estimates in the browser', () => {
       expect(text).toMatch(/±/);
       expect(text).toMatch(/95%/);
       await page.getByRole('img', { name: 'Pseudo-spectra' }).waitFor();
-      expect(await page.locator('svg[aria-label="Pseudo-spectra"] path').count()).toBe(2);
+      // Both spectra are drawn by ECharts (SVG renderer) inside the chart's box.
+      await expect(page.getByTestId('spectrum-plot').locator('svg path').count()).resolves.toBeGreaterThan(2);
       await shot(page, 'estimates-05-results');
+    } finally {
+      await context.close();
+    }
+  });
+
+  it('the spectrum opens zoomed on two close bearings; the cursor readout at each peak equals the API spectrum', async () => {
+    const { context, page } = await open();
+    try {
+      await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
+      // Two sources 3° apart (below the 7.2° Rayleigh gap of 16 elements at λ/2), 20 dB SNR, seeded.
+      const x = simulateSnapshots({
+        elements: 16,
+        spacingWavelengths: 0.5,
+        bearingsDeg: [10, 13],
+        noisePower: 0.01,
+        snapshots: 200,
+        seed: 12,
+      });
+      const rows = (part: Float64Array) =>
+        Array.from({ length: x.cols }, (_, n) => Array.from({ length: x.rows }, (_, m) => part[m * x.cols + n]));
+      const created = await page.request.post('/api/v1/estimates', {
+        data: {
+          snapshots: { re: rows(x.re), im: rows(x.im) },
+          array: { elements: 16, spacingWavelengths: 0.5 },
+          methods: ['music', 'esprit-ls'],
+          sourceCount: 2,
+          includeSpectrum: true,
+        },
+        headers: { 'x-csrf-token': await csrf(page) },
+      });
+      expect(created.status()).toBe(201);
+      const { id } = (await created.json()) as { id: number };
+      const run = await (await page.request.get(`/api/v1/estimates/${id}`)).json();
+      const music = run.results.find((r: { method: string }) => r.method === 'music');
+      const spectrum = music.spectrum as { startDeg: number; stepDeg: number; valuesDb: (number | null)[] };
+      expect(spectrum.stepDeg).toBe(0.01);
+      const bearings = music.bearingsDeg as number[];
+      expect(bearings).toHaveLength(2);
+      expect(bearings[1] - bearings[0]).toBeGreaterThan(2);
+      expect(bearings[1] - bearings[0]).toBeLessThan(4);
+
+      await page.goto(`/estimates/${id}`);
+      const plot = page.getByTestId('spectrum-plot');
+      await plot.waitFor();
+      await page.waitForFunction(
+        () => document.querySelector('[data-testid="spectrum-plot"]')?.getAttribute('data-zoom-from') !== '',
+      );
+      const frame = async () => {
+        const a = (k: string) => plot.getAttribute(`data-${k}`).then(Number);
+        return {
+          from: await a('zoom-from'),
+          to: await a('zoom-to'),
+          left: await a('plot-left'),
+          right: await a('plot-right'),
+          top: await a('plot-top'),
+          bottom: await a('plot-bottom'),
+        };
+      };
+      // Opens on the bearings: both inside a window a few degrees wide, so neighbouring 0.01° points are > 1 px apart.
+      const f = await frame();
+      expect(f.from).toBeLessThan(bearings[0]);
+      expect(f.to).toBeGreaterThan(bearings[1]);
+      expect((f.right - f.left) / ((f.to - f.from) / 0.01)).toBeGreaterThan(1);
+      await plot.scrollIntoViewIfNeeded();
+      const box = (await plot.boundingBox())!;
+      for (const b of bearings) {
+        const px = box.x + f.left + ((b - f.from) / (f.to - f.from)) * (f.right - f.left);
+        await page.mouse.move(px, box.y + (f.top + f.bottom) / 2);
+        const row = page.locator('.chart-readout-row[data-method="music"]');
+        await row.waitFor();
+        const shownBearing = Number(await row.getAttribute('data-bearing'));
+        const shownDb = Number(await row.getAttribute('data-db'));
+        const i = Math.round((shownBearing - spectrum.startDeg) / spectrum.stepDeg);
+        // The readout names the grid point of the peak and its value as the API stores it.
+        expect(Math.abs(shownBearing - b)).toBeLessThan(1e-6);
+        expect(shownDb).toBe(spectrum.valuesDb[i]);
+        expect(shownDb).toBeGreaterThan(spectrum.valuesDb[i - 1]!);
+        expect(shownDb).toBeGreaterThanOrEqual(spectrum.valuesDb[i + 1]!);
+        await expect(row.textContent()).resolves.toContain(`${b.toFixed(2)}°`);
+      }
+      await shot(page, 'estimates-08-spectrum-zoomed');
+
+      // "Full scan" shows −90…90°; the wheel zooms back in.
+      await page.getByTestId('spectrum-full-scan').click();
+      await page.waitForTimeout(300);
+      const full = await frame();
+      expect(full.from).toBeCloseTo(-90, 6);
+      expect(full.to).toBeCloseTo(90, 6);
+      await page.mouse.move(box.x + (full.left + full.right) / 2, box.y + (full.top + full.bottom) / 2);
+      await page.mouse.wheel(0, -600);
+      await page.waitForTimeout(400);
+      const wheel = await frame();
+      expect(wheel.to - wheel.from).toBeLessThan(170);
+      await shot(page, 'estimates-09-spectrum-full-scan-wheel');
     } finally {
       await context.close();
     }
