@@ -12,6 +12,7 @@ import type { MethodResult, RunOptions } from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
 import { runCompute } from '../jobs/pool';
 import { maxUploadBytes, resolveStoragePath } from '../storage/uploads';
+import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
 import type { EstimateRequest } from '../validations/estimate';
 import { datasetErrorToApi, findTeamArrayRevision } from './datasets';
 
@@ -34,6 +35,8 @@ export interface RunInputs {
   options: RunOptions;
   array: RunArray;
   dataset?: { id: number; sha256: string; name: string; elements: number; snapshots: number };
+  /** Inline snapshots, stored once by content (lib/storage/snapshots.ts); `request.snapshots` is then left out. */
+  snapshotSet?: SnapshotSetRef;
   rerunOf?: number;
 }
 
@@ -242,8 +245,17 @@ export async function submitEstimate({
   const options = optionsOf(input);
   checkSizes(m, options, n);
   const methods: DoaMethod[] = input.methods ?? [input.method!];
+  let request = input;
+  let snapshotSet: SnapshotSetRef | undefined;
+  if (input.snapshots) {
+    snapshotSet = await storeSnapshotSet(inlineRows(input.snapshots));
+    const { snapshots: _inline, ...rest } = input;
+    void _inline;
+    request = rest;
+  }
   const inputs: RunInputs = {
-    request: input,
+    request,
+    ...(snapshotSet ? { snapshotSet } : {}),
     methods,
     options,
     array,
@@ -302,6 +314,11 @@ async function snapshotSource(run: EstimateRun, inputs: RunInputs): Promise<{ so
       },
     };
   }
+  if (inputs.snapshotSet) {
+    const ref = inputs.snapshotSet;
+    return { source: { kind: 'raw', path: resolveStoragePath(ref.path), rows: ref.rows, cols: ref.cols, sha256: ref.sha256 } };
+  }
+  // Runs stored before snapshot sets (or imported from a bundle) carry their matrix inline.
   const rows = inlineRows(inputs.request.snapshots!);
   return { source: { kind: 'matrix', ...rows }, transferList: [rows.re.buffer as ArrayBuffer, rows.im.buffer as ArrayBuffer] };
 }
@@ -417,6 +434,11 @@ export async function rerunEstimate({ caller, id, wait }: { caller: Caller; id: 
     }
   }
   const request: EstimateRequest = { ...inputs.request };
+  if (inputs.snapshotSet) {
+    const matrix = await readSnapshotSet(inputs.snapshotSet);
+    if (!matrix) throw new ApiError('conflict', `The stored snapshots of run ${id} (SHA-256 ${inputs.snapshotSet.sha256.slice(0, 12)}…) are missing or changed; the run cannot be repeated exactly.`);
+    request.snapshots = nestedSnapshots(matrix);
+  }
   if (inputs.array.arrayRevisionId === undefined) request.array = { elements: inputs.array.elements, spacingWavelengths: inputs.array.spacingWavelengths };
   const run = await submitEstimate({ caller, input: request, wait, pinnedRevisionId: inputs.array.arrayRevisionId, rerunOf: id });
   const comparison = run.status === 'done' && old.status === 'done' ? compareRuns(old.results, run.results) : null;

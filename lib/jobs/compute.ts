@@ -32,7 +32,7 @@ export type SnapshotSource =
     }
   | { kind: 'matrix'; rows: number; cols: number; re: Float64Array; im: Float64Array }
   /** A content-addressed snapshot file: N·M float64 little-endian re values, then N·M im values. */
-  | { kind: 'raw'; path: string; rows: number; cols: number };
+  | { kind: 'raw'; path: string; rows: number; cols: number; sha256: string };
 
 export interface EstimateComputeInput {
   source: SnapshotSource;

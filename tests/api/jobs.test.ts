@@ -240,3 +240,50 @@ describe('recovery of jobs whose server died', () => {
     expect(read.body.error).toMatch(/server stopped while it ran; given up after 2 attempts/);
   });
 });
+
+describe('inline snapshots stored once by content', () => {
+  it('two runs of the same snapshots share one file; the run refers to it; a re-run reproduces exactly', async () => {
+    const fs = await import('node:fs');
+    const path = await import('node:path');
+    const { createHash } = await import('node:crypto');
+    const re = [
+      [1, 0.5, -0.2, 0.1, 0.3],
+      [0.2, 1, 0.4, -0.6, 0.9],
+      [-0.7, 0.3, 1, 0.2, -0.4],
+      [0.6, -0.8, 0.1, 1, 0.5],
+      [0.1, 0.2, -0.9, 0.4, 1],
+      [0.3, 0.7, 0.5, -0.3, 0.2],
+    ];
+    const im = re.map((row) => row.map((v, i) => v * 0.5 - i * 0.1));
+    const body = {
+      method: 'esprit-ls',
+      sourceCount: 1,
+      array: { elements: 5, spacingWavelengths: 0.5 },
+      snapshots: { re, im },
+    };
+    const a = await call(estimates.POST as never, 'POST', '/api/v1/estimates', 'engineer', {}, body);
+    const b = await call(estimates.POST as never, 'POST', '/api/v1/estimates', 'engineer', {}, body);
+    expect([a.status, b.status]).toEqual([201, 201]);
+    const runA = await EstimateRun.findByPk(a.body.id);
+    const runB = await EstimateRun.findByPk(b.body.id);
+    const refA = (runA!.inputs as { snapshotSet: { sha256: string; path: string } }).snapshotSet;
+    expect(refA.sha256).toBe((runB!.inputs as { snapshotSet: { sha256: string } }).snapshotSet.sha256);
+    expect((runA!.inputs as { request: Record<string, unknown> }).request.snapshots).toBeUndefined();
+    // The file is the re then im float64 values (little-endian), and its name is their SHA-256.
+    const bytes = fs.readFileSync(path.join(process.env.STEERWISE_DATA_DIR!, refA.path));
+    const expected = Buffer.from(new Float64Array([...re.flat(), ...im.flat()]).buffer);
+    expect(bytes.equals(expected)).toBe(true);
+    expect(createHash('sha256').update(bytes).digest('hex')).toBe(refA.sha256);
+    const dir = path.join(process.env.STEERWISE_DATA_DIR!, 'snapshots', refA.sha256.slice(0, 2));
+    expect(fs.readdirSync(dir).filter((f) => f.startsWith(refA.sha256))).toHaveLength(1);
+    // The stored inputs no longer carry the matrix.
+    expect(JSON.stringify(runA!.inputs).length).toBeLessThan(1000);
+    const { POST: rerun } = await import('@/app/api/v1/estimates/[id]/rerun/route');
+    const again = await call(rerun as never, 'POST', `/api/v1/estimates/${a.body.id}/rerun`, 'engineer', {
+      id: String(a.body.id),
+    });
+    expect(again.status).toBe(201);
+    expect(again.body.comparison[0].identical).toBe(true);
+    expect(again.body.bearingsDeg).toEqual(a.body.bearingsDeg);
+  });
+});
