@@ -113,6 +113,7 @@ interface RunnerState {
   localInputs: Map<number, unknown>;
   timer?: NodeJS.Timeout;
   lastSweep: number;
+  stopped?: boolean;
 }
 
 // On globalThis: Next's instrumentation bundle and the route bundles each hold a copy of this module.
@@ -463,6 +464,7 @@ export async function recoverStaleJobs(): Promise<{ requeued: number; failed: nu
 /** Claims and starts jobs while compute threads are free. */
 async function pump(): Promise<void> {
   const s = state();
+  if (s.stopped) return;
   if (s.pumping) {
     s.again = true;
     return;
@@ -500,18 +502,21 @@ function kick(): void {
  */
 export function startJobRunner(): void {
   const s = state();
-  if (s.started) return;
+  if (s.started || s.stopped) return;
   s.started = true;
   s.timer = setInterval(() => void pump(), 1000);
   s.timer.unref();
   void pump();
 }
 
-/** Stops this process's runner timer (tests). Running jobs finish on their own. */
-export function stopJobRunner(): void {
+/** Stops this process's runner (tests, shutdown): no new claims; resolves when running jobs have ended or after `timeoutMs`. */
+export async function stopJobRunner(timeoutMs = 10_000): Promise<void> {
   const s = state();
   if (s.timer) clearInterval(s.timer);
   s.started = false;
+  s.stopped = true;
+  const end = Date.now() + timeoutMs;
+  while ((s.running.size || s.pumping) && Date.now() < end) await new Promise((r) => setTimeout(r, 50));
 }
 
 /** Job ids running in this process (tests, diagnostics). */

@@ -27,7 +27,7 @@ beforeAll(async () => {
 afterAll(async () => {
   const { stopJobRunner } = await import('@/lib/jobs');
   const { closePool } = await import('@/lib/jobs/pool');
-  stopJobRunner();
+  await stopJobRunner();
   await closePool();
   const { closeDb } = await import('@/lib/db');
   await closeDb();
