@@ -140,10 +140,10 @@ async function writeCsv(file: string, targetBytes: number, elements: number) {
     const lines: string[] = [];
     for (let i = 0; i < 2000; i++)
       lines.push(
-        Array.from(
-          { length: elements },
-          () => `${rand().toFixed(9)}${rand() < 0 ? '' : '+'}${rand().toFixed(9)}j`,
-        ).join(','),
+        Array.from({ length: elements }, () => {
+          const im = rand();
+          return `${rand().toFixed(9)}${im < 0 ? '' : '+'}${im.toFixed(9)}j`;
+        }).join(','),
       );
     const chunk = lines.join('\n') + '\n';
     bytes += chunk.length;
