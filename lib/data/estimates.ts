@@ -344,9 +344,14 @@ registerJobKind<void>({
       options: inputs.options,
     };
     const { results } = await runCompute('estimate', input, { signal, onProgress: setProgress, ...(transferList ? { transferList } : {}) });
-    await EstimateRun.update({ result: { results } as unknown as Record<string, unknown>, error: null }, { where: { id: run.id } });
+    // Result and status in one write (onState skips 'done'); a crash before the job row says done re-runs it to the same answer.
+    await EstimateRun.update(
+      { result: { results } as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { where: { id: run.id } },
+    );
   },
   async onState({ inputRef, status, progress, error }) {
+    if (status === 'done') return;
     await EstimateRun.update({ status, progress, error }, { where: { id: Number(inputRef) } });
   },
   describeError(err) {
