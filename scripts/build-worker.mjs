@@ -9,7 +9,10 @@ import * as esbuild from 'esbuild';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
-export async function buildWorker(outfile = path.join(root, 'dist', 'jobs-worker.cjs')) {
+export async function buildWorker(
+  outfile = path.join(root, 'dist', 'jobs-worker.cjs'),
+  { inlineSourceMap = false } = {},
+) {
   await esbuild.build({
     entryPoints: [path.join(root, 'lib', 'jobs', 'worker.ts')],
     outfile,
@@ -19,7 +22,7 @@ export async function buildWorker(outfile = path.join(root, 'dist', 'jobs-worker
     // CommonJS output, so the npm packages (several are CommonJS) load with require() as under tsx.
     format: 'cjs',
     packages: 'external',
-    sourcemap: 'linked',
+    sourcemap: inlineSourceMap ? 'inline' : 'linked',
     logLevel: 'warning',
     alias: { '@': root },
   });

@@ -34,21 +34,17 @@ export async function workerFile(): Promise<string> {
     }
     return bundled;
   }
-  const out = path.join(
-    /*turbopackIgnore: true*/ root,
-    'node_modules',
-    '.cache',
-    'steerwise',
-    `jobs-worker-${process.pid}.cjs`,
-  );
+  // Built per process into a temporary name, then renamed over one shared file (atomic), so
+  // parallel test processes never see a half-written bundle and nothing accumulates.
+  const dir = path.join(/*turbopackIgnore: true*/ root, 'node_modules', '.cache', 'steerwise');
+  const out = path.join(dir, 'jobs-worker.cjs');
+  const temp = path.join(dir, `jobs-worker.${process.pid}.tmp.cjs`);
   const script = pathToFileURL(path.join(/*turbopackIgnore: true*/ root, 'scripts', 'build-worker.mjs')).href;
   const { buildWorker } = (await import(/* webpackIgnore: true */ /* turbopackIgnore: true */ script)) as {
-    buildWorker: (file: string) => Promise<string>;
+    buildWorker: (file: string, options: { inlineSourceMap: boolean }) => Promise<string>;
   };
-  await buildWorker(out);
-  process.once('exit', () => {
-    for (const f of [out, `${out}.map`]) fs.rmSync(f, { force: true });
-  });
+  await buildWorker(temp, { inlineSourceMap: true });
+  fs.renameSync(temp, out);
   return out;
 }
 
