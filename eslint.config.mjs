@@ -16,7 +16,15 @@ const config = [
     },
   },
   {
-    ignores: ['.next/**', 'node_modules/**', 'data/**', 'test-results/**', 'next-env.d.ts', 'fixtures/**/*.json'],
+    ignores: [
+      '.next/**',
+      'dist/**',
+      'node_modules/**',
+      'data/**',
+      'test-results/**',
+      'next-env.d.ts',
+      'fixtures/**/*.json',
+    ],
   },
 ];
 

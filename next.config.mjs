@@ -1,7 +1,17 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
   // Native and Node-only packages stay outside the server bundle.
-  serverExternalPackages: ['sequelize', 'sqlite3', 'smtp-server', 'mailparser', 'nodemailer', 'h5wasm', 'bcryptjs'],
+  serverExternalPackages: [
+    'sequelize',
+    'sqlite3',
+    'smtp-server',
+    'mailparser',
+    'nodemailer',
+    'h5wasm',
+    'bcryptjs',
+    'piscina',
+    'esbuild',
+  ],
   poweredByHeader: false,
   // The build type-checks the whole project. STEERWISE_SKIP_TYPECHECK=1 skips
   // that for local experiments only; CI and the test suite never set it.

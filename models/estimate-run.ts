@@ -12,7 +12,7 @@ import type { Dataset } from './dataset';
 import type { Team } from './team';
 import type { User } from './user';
 
-export const runStatuses = ['queued', 'running', 'done', 'failed'] as const;
+export const runStatuses = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type RunStatus = (typeof runStatuses)[number];
 
 /**

@@ -13,6 +13,7 @@ import { EstimateRun } from './estimate-run';
 import { Review } from './review';
 import { Handoff } from './handoff';
 import { Study } from './study';
+import { Job } from './job';
 
 export {
   Team,
@@ -29,7 +30,10 @@ export {
   Review,
   Handoff,
   Study,
+  Job,
 };
+export type { JobStatus } from './job';
+export { jobStatuses } from './job';
 export type { StudyStatus } from './study';
 export type { RunStatus } from './estimate-run';
 export { runStatuses } from './estimate-run';
@@ -59,6 +63,7 @@ export function initModels(sequelize: Sequelize): void {
   Review.initModel(sequelize);
   Handoff.initModel(sequelize);
   Study.initModel(sequelize);
+  Job.initModel(sequelize);
 
   Team.hasMany(User, { foreignKey: 'teamId', as: 'members' });
   User.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });
@@ -96,4 +101,5 @@ export function initModels(sequelize: Sequelize): void {
   Team.hasMany(Study, { foreignKey: 'teamId', as: 'studies' });
   Study.belongsTo(ArrayRevision, { foreignKey: 'arrayRevisionId', as: 'arrayRevision' });
   Study.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
+  Job.belongsTo(User, { foreignKey: 'ownerId', as: 'owner' });
 }

@@ -11,7 +11,7 @@ import type { ArrayRevision } from './array-revision';
 import type { Team } from './team';
 import type { User } from './user';
 
-export const studyStatuses = ['queued', 'running', 'done', 'failed'] as const;
+export const studyStatuses = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type StudyStatus = (typeof studyStatuses)[number];
 
 /**

@@ -11,6 +11,7 @@ import { EigenvalueChart } from '@/components/datasets/figures';
 import { SpectrumChart } from './spectrum-chart';
 import { METHOD_LABELS } from './labels';
 import { apiSendWithHeaders } from './send';
+import { StopButton } from '@/components/jobs/stop-button';
 import { WARNING_ADVICE } from './advice';
 import { downloadText } from '@/lib/client/download';
 
@@ -45,7 +46,7 @@ type MethodResult = {
 };
 export type RunDto = {
   id: number;
-  status: 'queued' | 'running' | 'done' | 'failed';
+  status: 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
   progress: number;
   error: string | null;
   softwareVersion: string;
@@ -94,7 +95,7 @@ export function toCsv(run: RunDto): string {
 
 export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; canRun: boolean }) {
   const router = useRouter();
-  const { data } = useSWR<RunDto>(`/api/v1/estimates/${id}`, fetcher, {
+  const { data, mutate } = useSWR<RunDto>(`/api/v1/estimates/${id}`, fetcher, {
     fallbackData: initial,
     refreshInterval: (d) => (d && (d.status === 'queued' || d.status === 'running') ? 400 : 0),
   });
@@ -122,7 +123,9 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
       <Card aria-labelledby="status-title">
         <CardHeader
           id="status-title"
-          title={active ? 'Running…' : run.status === 'done' ? 'Done' : 'Failed'}
+          title={
+            active ? 'Running…' : run.status === 'done' ? 'Done' : run.status === 'cancelled' ? 'Stopped' : 'Failed'
+          }
           description={`${run.inputs.methods.map((m) => METHOD_LABELS[m] ?? m).join(', ')} on ${run.inputs.dataset ? `“${run.inputs.dataset.name}”` : 'inline snapshots'} with ${run.inputs.array.name ? `${run.inputs.array.name} r${run.inputs.array.revision}` : 'an inline array'} (M = ${run.inputs.array.elements}, d = ${Number(run.inputs.array.spacingWavelengths.toPrecision(6))} λ). Software ${run.softwareVersion}.`}
           actions={
             run.status === 'done' ? (
@@ -164,6 +167,12 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
                   </Button>
                 ) : null}
               </div>
+            ) : active && canRun ? (
+              <StopButton
+                url={`/api/v1/estimates/${run.id}/cancel`}
+                label="Stop this run"
+                onStopped={() => void mutate()}
+              />
             ) : null
           }
         />

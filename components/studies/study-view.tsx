@@ -8,6 +8,7 @@ import { DataTable } from '@/components/ui/data-table';
 import { FormMessage } from '@/components/ui/field';
 import useSWR from 'swr';
 import { apiSend, ClientApiError, fetcher } from '@/lib/client/fetcher';
+import { StopButton } from '@/components/jobs/stop-button';
 import type { StudyDto } from '@/lib/data/studies';
 import { METHOD_LABELS, VARIABLE_LABELS } from './labels';
 import { ResolutionChart, RmseChart } from './study-charts';
@@ -106,7 +107,7 @@ function csvOf(study: StudyDto): string {
 export function StudyView({ id, initial, canEdit }: { id: number; initial: StudyDto; canEdit: boolean }) {
   const router = useRouter();
   // Poll while queued or running; stop once done or failed.
-  const { data } = useSWR<StudyDto>(`/api/v1/studies/${id}`, fetcher, {
+  const { data, mutate } = useSWR<StudyDto>(`/api/v1/studies/${id}`, fetcher, {
     fallbackData: initial,
     refreshInterval: (latest) => (latest && (latest.status === 'queued' || latest.status === 'running') ? 700 : 0),
   });
@@ -247,6 +248,15 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
             id="progress-title"
             title={study.status === 'queued' ? 'Queued' : 'Running'}
             description="Trials run in the background; this page follows them."
+            actions={
+              canEdit ? (
+                <StopButton
+                  url={`/api/v1/studies/${id}/cancel`}
+                  label="Stop this study"
+                  onStopped={() => void mutate()}
+                />
+              ) : null
+            }
           />
           <div className="px-5 py-4">
             <div
@@ -267,6 +277,9 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
         </Card>
       ) : null}
       {study.status === 'failed' ? <FormMessage tone="error">{study.error ?? 'The study failed.'}</FormMessage> : null}
+      {study.status === 'cancelled' ? (
+        <FormMessage tone="error">{study.error ?? 'The study was stopped.'}</FormMessage>
+      ) : null}
 
       {result ? (
         <>

@@ -11,6 +11,9 @@ import { DatasetError, detectFormat, parseSnapshotFile, type ParsedSnapshots, ty
 import { summarise, type DatasetSummary } from '../storage/summary';
 import { datasetsDir, removeQuietly, resolveStoragePath } from '../storage/files';
 import { formatBytes, receiveFile, type ReceivedFile } from '../http/multipart';
+import { enqueueJob, registerJobKind, waitForJob } from '../jobs';
+import { runCompute } from '../jobs/pool';
+import type { DatasetParseInput, DatasetParseOutput } from '../jobs/compute';
 import { datasetUploadFieldsSchema } from '../validations/dataset';
 
 export { summarise, type DatasetSummary };
@@ -121,7 +124,7 @@ export async function createDataset({ caller, upload }: { caller: Caller; upload
   let target: { array: ArrayDesign; revision: ArrayRevision } | null = null;
   if (fields.arrayId !== undefined) target = await findTeamArrayRevision({ caller, arrayId: fields.arrayId });
   const options = parseOptionsOf(fields);
-  const parsed = await parseSnapshotFile({ path: upload.tempPath, fileName: upload.originalName, format, maxBytes: maxUploadBytes(), ...options });
+  const parsed = await parseUpload({ caller, input: { path: upload.tempPath, fileName: upload.originalName, format, maxBytes: maxUploadBytes(), parseOptions: options } });
   if (target && target.revision.elements !== parsed.elements) {
     throw new ApiError(
       'validation_failed',
@@ -129,7 +132,7 @@ export async function createDataset({ caller, upload }: { caller: Caller; upload
       { fields: { arrayId: [`array has ${target.revision.elements} elements, the file has ${parsed.elements}`] } },
     );
   }
-  const summary = summarise(parsed);
+  const summary = parsed.summary;
   const name = fields.name ?? upload.originalName.replace(/\.[A-Za-z0-9]+$/, '').slice(0, 200) ?? 'dataset';
   const ext = path.extname(upload.originalName).toLowerCase();
   const rel = path.join('datasets', String(caller.teamId), `${randomUUID()}${ext}`);
@@ -171,6 +174,35 @@ export async function createDataset({ caller, upload }: { caller: Caller; upload
     if (moved) await removeQuietly(finalPath);
     throw err;
   }
+}
+
+export const DATASET_PARSE_JOB = 'dataset.parse';
+
+/**
+ * Parsing an upload and computing its summary: a transient job (it belongs to
+ * the request that waits for it, which holds its input) whose compute runs in
+ * a worker thread, so a 100 MB parse never holds the web thread. A refusal of
+ * the reader comes back as the reader's DatasetError.
+ */
+registerJobKind<DatasetParseOutput>({
+  kind: DATASET_PARSE_JOB,
+  maxAttempts: 1,
+  transient: true,
+  async run({ job, localInput, signal, setProgress }) {
+    if (!localInput) throw new Error(`the input of dataset parse job ${job.id} is not held by this process`);
+    return runCompute('dataset.parse', localInput as DatasetParseInput, { signal, onProgress: setProgress });
+  },
+  describeError(err) {
+    return err instanceof DatasetError ? err.message : 'The file could not be parsed on the server; the detail has been logged.';
+  },
+});
+
+async function parseUpload({ caller, input }: { caller: Caller; input: DatasetParseInput }): Promise<DatasetParseOutput> {
+  const job = await enqueueJob({ kind: DATASET_PARSE_JOB, inputRef: path.relative(dataDir(), input.path), teamId: caller.teamId, ownerId: caller.id, localInput: input });
+  const outcome = await waitForJob<DatasetParseOutput>(job.id);
+  if (outcome.status === 'done' && outcome.value) return outcome.value;
+  if (outcome.cause !== undefined) throw outcome.cause;
+  throw new ApiError('conflict', outcome.error ?? 'The file could not be parsed.');
 }
 
 export async function getDataset({ caller, id }: { caller: Caller; id: number }): Promise<DatasetDto> {

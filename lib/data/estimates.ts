@@ -1,18 +1,22 @@
 import 'server-only';
-import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, User } from '@/models';
+import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, Job, User } from '@/models';
 import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { DatasetError, sha256File } from '../datasets';
 import { bounds, defaultSingleSnapshotSubarray, DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
-import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
-import { runMethod, usedCovariance, v1Fields, type MethodResult, type RunOptions } from '../jobs/estimate-run';
+import { cancelJob, enqueueJob, latestJob, registerJobKind, waitForJob, type JobContext } from '../jobs';
+import type { MethodResult, RunOptions } from '../jobs/estimate-run';
+import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
+import { runCompute } from '../jobs/pool';
+import { maxUploadBytes } from '../env';
 import { resolveStoragePath } from '../storage/files';
+import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
 import { compareRuns, type RerunComparison } from '../runs/compare';
 import { SOFTWARE_VERSION } from '../version';
 import type { EstimateRequest } from '../validations/estimate';
-import { datasetErrorToApi, findTeamArrayRevision, loadDatasetSnapshots } from './datasets';
+import { datasetErrorToApi, findTeamArrayRevision } from './datasets';
 
 /** The geometry a run used, stored with it. */
 export interface RunArray {
@@ -31,6 +35,8 @@ export interface RunInputs {
   options: RunOptions;
   array: RunArray;
   dataset?: { id: number; sha256: string; name: string; elements: number; snapshots: number };
+  /** Inline snapshots, stored once by content (lib/storage/snapshots.ts); `request.snapshots` is then left out. */
+  snapshotSet?: SnapshotSetRef;
   rerunOf?: number;
 }
 
@@ -56,8 +62,6 @@ export type EstimateRunListItem = Pick<EstimateRunDto, 'id' | 'status' | 'progre
   bearingsDeg: Record<string, number[]>;
 };
 
-const STALE_MESSAGE = 'The run was interrupted (the server restarted before it finished); re-run it.';
-
 function toDto(run: EstimateRun, creator: User | null): EstimateRunDto {
   const result = (run.result ?? null) as { results?: MethodResult[] } | null;
   return {
@@ -73,6 +77,19 @@ function toDto(run: EstimateRun, creator: User | null): EstimateRunDto {
     updatedAt: run.updatedAt.toISOString(),
     createdBy: creator ? { id: creator.id, name: creator.name } : null,
     results: result?.results ?? [],
+  };
+}
+
+/** The §7 answer fields of one method result (no uncertainty or criteria). */
+export function v1Fields(r: MethodResult) {
+  return {
+    method: r.method,
+    sourceCount: r.sourceCount,
+    sourceCountRule: r.sourceCountRule,
+    bearingsDeg: r.bearingsDeg,
+    eigenvalues: r.eigenvalues,
+    warnings: r.warnings,
+    ...(r.spectrum ? { spectrum: { startDeg: r.spectrum.startDeg, stepDeg: r.spectrum.stepDeg, valuesDb: r.spectrum.valuesDb } } : {}),
   };
 }
 
@@ -228,15 +245,24 @@ export async function submitEstimate({
   const options = optionsOf(input);
   checkSizes(m, options, n);
   const methods: DoaMethod[] = input.methods ?? [input.method!];
+  let request = input;
+  let snapshotSet: SnapshotSetRef | undefined;
+  if (input.snapshots) {
+    snapshotSet = await storeSnapshotSet(inlineRows(input.snapshots));
+    const { snapshots: _inline, ...rest } = input;
+    void _inline;
+    request = rest;
+  }
   const inputs: RunInputs = {
-    request: input,
+    request,
+    ...(snapshotSet ? { snapshotSet } : {}),
     methods,
     options,
     array,
     ...(dataset ? { dataset: { id: dataset.id, sha256: dataset.sha256, name: dataset.name, elements: dataset.elements, snapshots: dataset.snapshots } } : {}),
     ...(rerunOf !== undefined ? { rerunOf } : {}),
   };
-  const run = await db.transaction(async (transaction) => {
+  const { run, job } = await db.transaction(async (transaction) => {
     const created = await EstimateRun.create(
       {
         teamId: caller.teamId,
@@ -251,73 +277,108 @@ export async function submitEstimate({
       { transaction },
     );
     await recordAudit({ teamId: caller.teamId, userId: caller.id, action: rerunOf ? 'estimate.rerun' : 'estimate.started', target: methods.join(', '), detail: { id: created.id, rerunOf: rerunOf ?? null } }, transaction);
-    return created;
+    const queued = await enqueueJob({ kind: ESTIMATE_JOB, inputRef: String(created.id), teamId: caller.teamId, ownerId: caller.id, transaction });
+    return { run: created, job: queued };
   });
-  const done = enqueue(String(run.id), () => executeRun({ caller, runId: run.id }));
-  if (!wait) {
-    done.catch(() => undefined); // the run row records the failure
-    return getEstimateRun({ caller, id: run.id });
-  }
-  try {
-    await done;
-  } catch (err) {
-    const mapped = engineToApi(err);
+  if (!wait) return getEstimateRun({ caller, id: run.id });
+  const outcome = await waitForJob(job.id);
+  if (outcome.status === 'failed' && outcome.cause !== undefined) {
+    const mapped = engineToApi(outcome.cause);
     if (mapped instanceof ApiError) {
-      await EstimateRun.destroy({ where: { id: run.id } });
+      // A refusal of the engine on a waited run is answered as 422 and leaves nothing behind.
+      await db.transaction(async (transaction) => {
+        await EstimateRun.destroy({ where: { id: run.id }, transaction });
+        await Job.destroy({ where: { id: job.id }, transaction });
+      });
       throw mapped;
     }
-    throw err;
   }
   return getEstimateRun({ caller, id: run.id });
 }
 
-/** The job: load the data, run each method with a yield in between, store progress and results. */
-async function executeRun({ caller, runId }: { caller: Caller; runId: number }): Promise<void> {
-  const run = await EstimateRun.findByPk(runId);
-  if (!run) return;
-  const inputs = run.inputs as unknown as RunInputs;
-  const setProgress = async (progress: number, status: EstimateRun['status'] = 'running') => {
-    await EstimateRun.update({ progress: Math.min(1, progress), status }, { where: { id: runId } });
-  };
-  try {
-    await setProgress(0.02);
-    let rows: ComplexMatrix;
-    if (inputs.dataset) {
-      let last = 0;
-      const { parsed } = await loadDatasetSnapshots({
-        caller,
-        id: inputs.dataset.id,
-        onProgress: ({ bytesRead, totalBytes }) => {
-          const p = 0.02 + 0.28 * (bytesRead / Math.max(1, totalBytes));
-          if (p - last > 0.05) {
-            last = p;
-            void setProgress(p);
-          }
-        },
-      });
-      rows = { rows: parsed.snapshots, cols: parsed.elements, re: parsed.re, im: parsed.im };
-    } else {
-      rows = inlineRows(inputs.request.snapshots!);
-    }
-    await setProgress(0.3);
-    await yieldToEventLoop();
-    const covariance = usedCovariance(rows, inputs.options);
-    const results: MethodResult[] = [];
-    for (let i = 0; i < inputs.methods.length; i++) {
-      await yieldToEventLoop();
-      results.push(
-        runMethod({ rows, elements: inputs.array.elements, spacingWavelengths: inputs.array.spacingWavelengths, method: inputs.methods[i], options: inputs.options, covariance }),
-      );
-      await setProgress(0.3 + (0.7 * (i + 1)) / inputs.methods.length);
-    }
-    await EstimateRun.update({ status: 'done', progress: 1, result: { results } as unknown as Record<string, unknown>, error: null }, { where: { id: runId } });
-  } catch (err) {
-    const mapped = engineToApi(err);
-    const message = mapped instanceof ApiError ? mapped.message : 'The run failed on the server; the detail has been logged.';
-    if (!(mapped instanceof ApiError)) console.error('[steerwise] estimate run failed', runId, err);
-    await EstimateRun.update({ status: 'failed', error: message }, { where: { id: runId } });
-    throw err;
+export const ESTIMATE_JOB = 'estimate';
+
+/** Where the worker finds a run's snapshots: the stored dataset file, or the request's inline matrix. */
+async function snapshotSource(run: EstimateRun, inputs: RunInputs): Promise<{ source: SnapshotSource; transferList?: ArrayBuffer[] }> {
+  if (inputs.dataset) {
+    const dataset = await Dataset.findOne({ where: { id: inputs.dataset.id, teamId: run.teamId as number } });
+    if (!dataset) throw new ApiError('conflict', `The dataset this run used ("${inputs.dataset.name}", id ${inputs.dataset.id}) has been deleted.`);
+    return {
+      source: {
+        kind: 'file',
+        path: resolveStoragePath(dataset.storagePath),
+        format: dataset.format,
+        fileName: dataset.originalName,
+        maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
+        parseOptions: (dataset.options ?? {}) as Extract<SnapshotSource, { kind: 'file' }>['parseOptions'],
+      },
+    };
   }
+  if (inputs.snapshotSet) {
+    const ref = inputs.snapshotSet;
+    return { source: { kind: 'raw', path: resolveStoragePath(ref.path), rows: ref.rows, cols: ref.cols, sha256: ref.sha256 } };
+  }
+  // Runs stored before snapshot sets (or imported from a bundle) carry their matrix inline.
+  const rows = inlineRows(inputs.request.snapshots!);
+  return { source: { kind: 'matrix', ...rows }, transferList: [rows.re.buffer as ArrayBuffer, rows.im.buffer as ArrayBuffer] };
+}
+
+/**
+ * The estimate job kind: the run row is its input (`inputRef` = run id). The
+ * compute runs in a worker thread (lib/jobs/compute.ts); the same inputs give
+ * the same results, so a job re-queued after a crash stores the same answer.
+ */
+registerJobKind<void>({
+  kind: ESTIMATE_JOB,
+  maxAttempts: 2,
+  async run({ job, signal, setProgress }: JobContext) {
+    const run = await EstimateRun.findByPk(Number(job.inputRef));
+    if (!run) return; // deleted meanwhile
+    const inputs = run.inputs as unknown as RunInputs;
+    const { source, transferList } = await snapshotSource(run, inputs);
+    const input: EstimateComputeInput = {
+      source,
+      elements: inputs.array.elements,
+      spacingWavelengths: inputs.array.spacingWavelengths,
+      methods: inputs.methods,
+      options: inputs.options,
+    };
+    const { results } = await runCompute('estimate', input, { signal, onProgress: setProgress, ...(transferList ? { transferList } : {}) });
+    // Result and status in one write (onState skips 'done'); a crash before the job row says done re-runs it to the same answer.
+    await EstimateRun.update(
+      { result: { results } as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { where: { id: run.id } },
+    );
+  },
+  async onState({ inputRef, status, progress, error }) {
+    if (status === 'done') return;
+    await EstimateRun.update({ status, progress, error }, { where: { id: Number(inputRef) } });
+  },
+  describeError(err) {
+    const mapped = engineToApi(err);
+    if (mapped instanceof ApiError) return mapped.message;
+    console.error('[steerwise] estimate run failed', err);
+    return 'The run failed on the server; the detail has been logged.';
+  },
+});
+
+/**
+ * Stops a queued or running run (engineers, admins). 409 when it has already
+ * ended; the run then keeps its status.
+ */
+export async function cancelEstimate({ caller, id }: { caller: Caller; id: number }): Promise<EstimateRunDto> {
+  assertPermission(caller, 'estimates.run');
+  await getDb();
+  const run = await EstimateRun.findOne({ where: { id, teamId: caller.teamId } });
+  if (!run) throw new ApiError('not_found', `No estimate run with id ${id} in your team.`);
+  const job = await latestJob(ESTIMATE_JOB, String(id));
+  const stopped = job ? await cancelJob(job.id, `Stopped by ${caller.name} before it finished.`) : false;
+  if (!stopped) {
+    const now = await EstimateRun.findByPk(id);
+    throw new ApiError('conflict', `Run ${id} is ${now?.status ?? run.status}; only a queued or running run can be stopped.`);
+  }
+  await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'estimate.cancelled', target: String(id), detail: { id } });
+  return getEstimateRun({ caller, id });
 }
 
 export async function getEstimateRun({ caller, id }: { caller: Caller; id: number }): Promise<EstimateRunDto> {
@@ -325,11 +386,6 @@ export async function getEstimateRun({ caller, id }: { caller: Caller; id: numbe
   await getDb();
   const run = await EstimateRun.findOne({ where: { id, teamId: caller.teamId } });
   if (!run) throw new ApiError('not_found', `No estimate run with id ${id} in your team.`);
-  if ((run.status === 'queued' || run.status === 'running') && !isActive(String(run.id))) {
-    run.status = 'failed';
-    run.error = STALE_MESSAGE;
-    await run.save();
-  }
   const creator = run.createdById ? await User.findByPk(run.createdById as number) : null;
   return toDto(run, creator);
 }
@@ -341,12 +397,11 @@ export async function listEstimateRuns({ caller, limit = 50 }: { caller: Caller;
   return runs.map((run) => {
     const inputs = run.inputs as unknown as RunInputs;
     const results = ((run.result ?? {}) as { results?: MethodResult[] }).results ?? [];
-    const stale = (run.status === 'queued' || run.status === 'running') && !isActive(String(run.id));
     return {
       id: run.id,
-      status: stale ? 'failed' : run.status,
+      status: run.status,
       progress: run.progress,
-      error: stale ? STALE_MESSAGE : (run.error ?? null),
+      error: run.error ?? null,
       createdAt: run.createdAt.toISOString(),
       softwareVersion: run.softwareVersion,
       methods: inputs.methods ?? [],
@@ -376,6 +431,11 @@ export async function rerunEstimate({ caller, id, wait }: { caller: Caller; id: 
     }
   }
   const request: EstimateRequest = { ...inputs.request };
+  if (inputs.snapshotSet) {
+    const matrix = await readSnapshotSet(inputs.snapshotSet);
+    if (!matrix) throw new ApiError('conflict', `The stored snapshots of run ${id} (SHA-256 ${inputs.snapshotSet.sha256.slice(0, 12)}…) are missing or changed; the run cannot be repeated exactly.`);
+    request.snapshots = nestedSnapshots(matrix);
+  }
   if (inputs.array.arrayRevisionId === undefined) request.array = { elements: inputs.array.elements, spacingWavelengths: inputs.array.spacingWavelengths };
   const run = await submitEstimate({ caller, input: request, wait, pinnedRevisionId: inputs.array.arrayRevisionId, rerunOf: id });
   const comparison = run.status === 'done' && old.status === 'done' ? compareRuns(old.results, run.results) : null;

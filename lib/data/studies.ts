@@ -4,8 +4,9 @@ import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
-import { enqueue, isActive, yieldToEventLoop } from '../jobs/queue';
-import { StudyAbortedError, StudyBudgetError, StudyInputError, runStudy, validateStudySpec, type StudyResult, type StudySpec } from '../studies/monte-carlo';
+import { cancelJob, enqueueJob, latestJob, registerJobKind, waitForJob } from '../jobs';
+import { runCompute } from '../jobs/pool';
+import { StudyBudgetError, StudyInputError, validateStudySpec, type StudyResult, type StudySpec } from '../studies/monte-carlo';
 import type { StudyRequest } from '../validations/study';
 import { findTeamArrayRevision } from './datasets';
 import { SOFTWARE_VERSION } from '../version';
@@ -44,14 +45,7 @@ export type StudyListItem = Omit<StudyDto, 'inputs' | 'result'> & {
   arrayLabel: string;
 };
 
-const STALE_MESSAGE = 'The study was interrupted (the server restarted before it finished); start it again.';
-
-/** Abort controllers of running studies in this process (DELETE stops a running study). */
-const controllers = ((globalThis as Record<string, unknown>).__steerwiseStudyControllers ??= new Map<number, AbortController>()) as Map<number, AbortController>;
-
-function jobId(id: number): string {
-  return `study-${id}`;
-}
+export const STUDY_JOB = 'study';
 
 function toDto(study: Study, creator: User | null): StudyDto {
   return {
@@ -127,7 +121,7 @@ export async function createStudy({ caller, input }: { caller: Caller; input: St
     throw studyErrorToApi(err);
   }
   const inputs: StudyInputs = { request: input, spec, array };
-  const study = await db.transaction(async (transaction) => {
+  const { study, job } = await db.transaction(async (transaction) => {
     const created = await Study.create(
       {
         teamId: caller.teamId,
@@ -141,44 +135,39 @@ export async function createStudy({ caller, input }: { caller: Caller; input: St
       { transaction },
     );
     await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.started', target: input.name, detail: { id: created.id } }, transaction);
-    return created;
+    const queued = await enqueueJob({ kind: STUDY_JOB, inputRef: String(created.id), teamId: caller.teamId, ownerId: caller.id, transaction });
+    return { study: created, job: queued };
   });
-  const done = enqueue(jobId(study.id), () => executeStudy(study.id));
-  done.catch(() => undefined); // the row records the failure
+  const done = waitForJob(job.id).then(() => undefined);
   return { study: await getStudy({ caller, id: study.id }), done };
 }
 
-/** The job: run the study with progress written to the row (at most every 2 %), yielding between chunks. */
-async function executeStudy(id: number): Promise<void> {
-  const study = await Study.findByPk(id);
-  if (!study) return;
-  const { spec } = study.inputs as unknown as StudyInputs;
-  const controller = new AbortController();
-  controllers.set(id, controller);
-  let last = 0;
-  try {
-    await Study.update({ status: 'running', progress: 0 }, { where: { id } });
-    const result = await runStudy(spec, {
-      signal: controller.signal,
-      yieldControl: yieldToEventLoop,
-      onProgress: async (fraction) => {
-        if (fraction - last >= 0.02 && fraction < 1) {
-          last = fraction;
-          await Study.update({ progress: fraction }, { where: { id } });
-        }
-      },
-    });
-    await Study.update({ status: 'done', progress: 1, result: result as unknown as Record<string, unknown>, error: null }, { where: { id } });
-  } catch (err) {
-    if (err instanceof StudyAbortedError) return; // deleted while running: the row is gone
+/**
+ * The study job kind: the study row is its input. The Monte Carlo runs in a
+ * worker thread; a cancel (Stop, or DELETE) aborts the task, which stops that
+ * thread. The same spec and seed give the same result, so a re-queued job
+ * stores the same answer.
+ */
+registerJobKind<void>({
+  kind: STUDY_JOB,
+  maxAttempts: 2,
+  async run({ job, signal, setProgress }) {
+    const study = await Study.findByPk(Number(job.inputRef));
+    if (!study) return;
+    const { spec } = study.inputs as unknown as StudyInputs;
+    const result = await runCompute('study', spec, { signal, onProgress: setProgress });
+    await Study.update({ result: result as unknown as Record<string, unknown>, error: null }, { where: { id: study.id } });
+  },
+  async onState({ inputRef, status, progress, error }) {
+    await Study.update({ status, progress, error }, { where: { id: Number(inputRef) } });
+  },
+  describeError(err) {
     const mapped = studyErrorToApi(err);
-    const message = mapped instanceof ApiError ? mapped.message : 'The study failed on the server; the detail has been logged.';
-    if (!(mapped instanceof ApiError)) console.error('[steerwise] study failed', id, err);
-    await Study.update({ status: 'failed', error: message }, { where: { id } });
-  } finally {
-    controllers.delete(id);
-  }
-}
+    if (mapped instanceof ApiError) return mapped.message;
+    console.error('[steerwise] study failed', err);
+    return 'The study failed on the server; the detail has been logged.';
+  },
+});
 
 async function findStudy(caller: Caller, id: number): Promise<Study> {
   await getDb();
@@ -190,11 +179,6 @@ async function findStudy(caller: Caller, id: number): Promise<Study> {
 export async function getStudy({ caller, id }: { caller: Caller; id: number }): Promise<StudyDto> {
   assertPermission(caller, 'arrays.read');
   const study = await findStudy(caller, id);
-  if ((study.status === 'queued' || study.status === 'running') && !isActive(jobId(study.id))) {
-    study.status = 'failed';
-    study.error = STALE_MESSAGE;
-    await study.save();
-  }
   const creator = study.createdById ? await User.findByPk(study.createdById as number) : null;
   return toDto(study, creator);
 }
@@ -211,14 +195,13 @@ export async function listStudies({ caller, limit = 100 }: { caller: Caller; lim
   });
   return studies.map((s) => {
     const inputs = s.inputs as unknown as StudyInputs;
-    const stale = (s.status === 'queued' || s.status === 'running') && !isActive(jobId(s.id));
     const creator = (s as unknown as { createdBy?: User | null }).createdBy ?? null;
     return {
       id: s.id,
       name: s.name,
-      status: stale ? 'failed' : s.status,
+      status: s.status,
       progress: s.progress,
-      error: stale ? STALE_MESSAGE : (s.error ?? null),
+      error: s.error ?? null,
       softwareVersion: s.softwareVersion,
       arrayRevisionId: (s.arrayRevisionId as number | null) ?? null,
       createdAt: s.createdAt.toISOString(),
@@ -237,10 +220,25 @@ export async function listStudies({ caller, limit = 100 }: { caller: Caller; lim
 export async function deleteStudy({ caller, id }: { caller: Caller; id: number }): Promise<void> {
   assertPermission(caller, 'studies.run');
   const study = await findStudy(caller, id);
-  controllers.get(id)?.abort();
+  const job = await latestJob(STUDY_JOB, String(id));
+  if (job) await cancelJob(job.id, 'The study was deleted while it ran.');
   const db = await getDb();
   await db.transaction(async (transaction) => {
     await study.destroy({ transaction });
     await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.deleted', target: study.name, detail: { id } }, transaction);
   });
+}
+
+/** Stops a queued or running study (engineers, admins); 409 when it has already ended. */
+export async function cancelStudy({ caller, id }: { caller: Caller; id: number }): Promise<StudyDto> {
+  assertPermission(caller, 'studies.run');
+  const study = await findStudy(caller, id);
+  const job = await latestJob(STUDY_JOB, String(id));
+  const stopped = job ? await cancelJob(job.id, `Stopped by ${caller.name} before it finished.`) : false;
+  if (!stopped) {
+    const now = await Study.findByPk(id);
+    throw new ApiError('conflict', `Study ${id} is ${now?.status ?? study.status}; only a queued or running study can be stopped.`);
+  }
+  await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.cancelled', target: study.name, detail: { id } });
+  return getStudy({ caller, id });
 }

@@ -27,6 +27,7 @@ import { designFigures, pairAdvice } from '@/lib/designer/analysis';
 import { beamPatternSvg, separationChartSvg } from './charts';
 import { resolveStoragePath } from '@/lib/storage/files';
 import { storedResults } from './runs';
+import { withInlineSnapshots } from '@/lib/storage/snapshots';
 import { SOFTWARE_VERSION } from '@/lib/version';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
@@ -295,10 +296,14 @@ export async function buildArrayBundle({
 
   const runJsons: BundleRunJson[] = [];
   for (const r of runs) {
-    const inputs = { ...parseJson<Record<string, unknown>>(r.inputs) };
+    // A run's stored snapshot set travels inline, as request.snapshots (lib/storage/snapshots.ts).
+    const inputs = datasetsAllowed
+      ? await withInlineSnapshots({ ...parseJson<Record<string, unknown>>(r.inputs) })
+      : { ...parseJson<Record<string, unknown>>(r.inputs) };
     if (!datasetsAllowed) {
       // Inline snapshots are data too.
       delete inputs.snapshots;
+      delete inputs.snapshotSet;
       if (inputs.request && typeof inputs.request === 'object') {
         const { snapshots: _s, ...request } = inputs.request as Record<string, unknown>;
         void _s;

@@ -22,6 +22,23 @@ export async function readJson(req: Request, limit = maxJsonBytes()): Promise<un
   }
 }
 
+/** Like readJson, but an empty body (no content, no content type) reads as `{}` (bodies that are optional). */
+export async function readOptionalJson(req: Request, limit = maxJsonBytes()): Promise<unknown> {
+  const declared = req.headers.get('content-length');
+  if (!req.body || declared === '0') return {};
+  const type = req.headers.get('content-type') ?? '';
+  if (type && !/^application\/(.+\+)?json\b/i.test(type)) {
+    throw new ApiError('unsupported_format', `Send the body as application/json (got ${type.split(';')[0]}).`);
+  }
+  const text = await readTextLimited(req, limit);
+  if (!text.trim()) return {};
+  try {
+    return JSON.parse(text);
+  } catch (err) {
+    throw new ApiError('bad_json', `The request body is not valid JSON: ${(err as Error).message}`);
+  }
+}
+
 async function readTextLimited(req: Request, limit: number): Promise<string> {
   if (!req.body) return '';
   const reader = req.body.getReader();

@@ -328,6 +328,25 @@ export function openApiDocument() {
           },
         },
       },
+      '/api/v1/estimates/{id}/cancel': {
+        parameters: [idParam],
+        post: {
+          summary: 'Stop a queued or running run (engineers, admins)',
+          description: 'The body is empty or `{}`. The run becomes `cancelled` with the reason in `error`.',
+          responses: {
+            '200': { description: 'Stopped', content: json('EstimateRun') },
+            ...errors(401, 403, 404, 409, 422),
+          },
+        },
+      },
+      '/api/v1/studies/{id}/cancel': {
+        parameters: [idParam],
+        post: {
+          summary: 'Stop a queued or running study (engineers, admins)',
+          description: 'The body is empty or `{}`. The study becomes `cancelled` with the reason in `error`.',
+          responses: { '200': { description: 'Stopped' }, ...errors(401, 403, 404, 409, 422) },
+        },
+      },
       '/api/v1/studies': {
         get: {
           summary: "The team's Monte Carlo studies (without results)",

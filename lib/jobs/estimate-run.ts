@@ -206,21 +206,6 @@ export function runMethod({
   return out;
 }
 
-/** The §7 answer fields of one method result (no uncertainty or criteria). */
-export function v1Fields(r: MethodResult) {
-  return {
-    method: r.method,
-    sourceCount: r.sourceCount,
-    sourceCountRule: r.sourceCountRule,
-    bearingsDeg: r.bearingsDeg,
-    eigenvalues: r.eigenvalues,
-    warnings: r.warnings,
-    ...(r.spectrum
-      ? { spectrum: { startDeg: r.spectrum.startDeg, stepDeg: r.spectrum.stepDeg, valuesDb: r.spectrum.valuesDb } }
-      : {}),
-  };
-}
-
 export function eigenvaluesOf(r: ComplexMatrix): number[] {
   return Array.from(hermitianEigen(r, { vectors: false }).values);
 }

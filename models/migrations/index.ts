@@ -2,6 +2,7 @@ import type { QueryInterface } from 'sequelize';
 import * as m0001 from './0001-initial';
 import * as m0002 from './0002-arrays-datasets-runs';
 import * as m0003 from './0003-studies';
+import * as m0004 from './0004-jobs';
 
 export type Migration = {
   name: string;
@@ -18,4 +19,5 @@ export const migrations: Migration[] = [
   { name: '0001-initial', ...m0001 },
   { name: '0002-arrays-datasets-runs', ...m0002 },
   { name: '0003-studies', ...m0003 },
+  { name: '0004-jobs', ...m0004 },
 ];

@@ -58,6 +58,12 @@ function newestSource(): number {
 }
 
 function buildIfNeeded(): void {
+  // The compute worker bundle (dist/jobs-worker.cjs) that next start loads; esbuild takes well under a second.
+  const worker = spawnSync(process.execPath, [path.join(root, 'scripts', 'build-worker.mjs')], {
+    cwd: root,
+    encoding: 'utf8',
+  });
+  if (worker.status !== 0) throw new Error(`building the compute worker failed:\n${worker.stderr}`);
   const buildId = path.join(root, '.next', 'BUILD_ID');
   if (fs.existsSync(buildId) && fs.statSync(buildId).mtimeMs > newestSource() && !process.env.STEERWISE_E2E_REBUILD)
     return;

@@ -29,6 +29,10 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  const { stopJobRunner } = await import('@/lib/jobs');
+  const { closePool } = await import('@/lib/jobs/pool');
+  await stopJobRunner();
+  await closePool();
   const { closeDb } = await import('@/lib/db');
   await closeDb();
   fs.rmSync(dir, { recursive: true, force: true });

@@ -1,0 +1,225 @@
+/**
+ * The compute of every job kind, as plain functions without I/O other than
+ * reading the input file they are pointed at. They run inside the worker
+ * threads (lib/jobs/worker.ts) and never touch the database, Next or React.
+ *
+ * Layouts: snapshots are N × M row-major, split re/im (docs/conventions.md §2).
+ * Large inputs travel as a file path (a stored dataset) or as transferred
+ * Float64Array buffers (inline snapshots), never as nested JSON arrays.
+ */
+import { DatasetError, parseSnapshotFile, type ParseOptions, type SnapshotFormat } from '../datasets';
+import { DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
+import { summarise, type DatasetSummary } from '../storage/summary';
+import {
+  runStudy,
+  StudyAbortedError,
+  StudyBudgetError,
+  StudyInputError,
+  type StudyResult,
+  type StudySpec,
+} from '../studies/monte-carlo';
+import { runMethod, usedCovariance, type MethodResult, type RunOptions } from './estimate-run';
+
+/** Where an estimate's snapshots come from. */
+export type SnapshotSource =
+  | {
+      kind: 'file';
+      path: string;
+      format: SnapshotFormat;
+      fileName: string;
+      maxBytes: number;
+      parseOptions?: Omit<ParseOptions, 'path' | 'onProgress' | 'signal'>;
+    }
+  | { kind: 'matrix'; rows: number; cols: number; re: Float64Array; im: Float64Array }
+  /** A content-addressed snapshot file: N·M float64 little-endian re values, then N·M im values. */
+  | { kind: 'raw'; path: string; rows: number; cols: number; sha256: string };
+
+export interface EstimateComputeInput {
+  source: SnapshotSource;
+  elements: number;
+  spacingWavelengths: number;
+  methods: DoaMethod[];
+  options: RunOptions;
+}
+
+export interface DatasetParseInput {
+  path: string;
+  fileName: string;
+  format: SnapshotFormat;
+  maxBytes: number;
+  parseOptions?: Omit<ParseOptions, 'path' | 'onProgress' | 'signal'>;
+}
+
+export interface DatasetParseOutput {
+  format: SnapshotFormat;
+  elements: number;
+  snapshots: number;
+  sampleRate?: number;
+  details: Record<string, unknown>;
+  summary: DatasetSummary;
+}
+
+export interface ComputeTasks {
+  estimate: { input: EstimateComputeInput; output: { results: MethodResult[] } };
+  study: { input: StudySpec; output: StudyResult };
+  'dataset.parse': { input: DatasetParseInput; output: DatasetParseOutput };
+}
+export type ComputeTaskName = keyof ComputeTasks;
+
+type Report = (fraction: number) => void;
+
+async function loadRows(source: SnapshotSource, report: Report, share: number): Promise<ComplexMatrix> {
+  if (source.kind === 'matrix') return { rows: source.rows, cols: source.cols, re: source.re, im: source.im };
+  if (source.kind === 'raw') {
+    const { readFile } = await import('node:fs/promises');
+    const bytes = await readFile(source.path);
+    const n = source.rows * source.cols;
+    if (bytes.byteLength !== 16 * n) {
+      throw new DatasetError(
+        422,
+        'corrupt',
+        `the stored snapshot file holds ${bytes.byteLength} bytes, expected ${16 * n}`,
+      );
+    }
+    const all = new Float64Array(bytes.buffer, bytes.byteOffset, 2 * n).slice();
+    return { rows: source.rows, cols: source.cols, re: all.subarray(0, n), im: all.subarray(n) };
+  }
+  const parsed = await parseSnapshotFile({
+    path: source.path,
+    format: source.format,
+    fileName: source.fileName,
+    maxBytes: source.maxBytes,
+    ...(source.parseOptions ?? {}),
+    onProgress: ({ bytesRead, totalBytes }) => report((share * bytesRead) / Math.max(1, totalBytes)),
+  });
+  return { rows: parsed.snapshots, cols: parsed.elements, re: parsed.re, im: parsed.im };
+}
+
+/** One estimate run: every method on the same snapshots (lib/jobs/estimate-run.ts). */
+export async function computeEstimate(
+  input: EstimateComputeInput,
+  report: Report,
+): Promise<{ results: MethodResult[] }> {
+  const rows = await loadRows(input.source, report, 0.3);
+  report(0.3);
+  const covariance = usedCovariance(rows, input.options);
+  const results: MethodResult[] = [];
+  for (let i = 0; i < input.methods.length; i++) {
+    results.push(
+      runMethod({
+        rows,
+        elements: input.elements,
+        spacingWavelengths: input.spacingWavelengths,
+        method: input.methods[i],
+        options: input.options,
+        covariance,
+      }),
+    );
+    report(0.3 + (0.7 * (i + 1)) / input.methods.length);
+  }
+  return { results };
+}
+
+/** Parses an uploaded file and computes its page figures (lib/storage/summary.ts); the snapshots stay in the worker. */
+export async function computeDatasetParse(input: DatasetParseInput, report: Report): Promise<DatasetParseOutput> {
+  const parsed = await parseSnapshotFile({
+    path: input.path,
+    fileName: input.fileName,
+    format: input.format,
+    maxBytes: input.maxBytes,
+    ...(input.parseOptions ?? {}),
+    onProgress: ({ bytesRead, totalBytes }) => report((0.8 * bytesRead) / Math.max(1, totalBytes)),
+  });
+  const summary = summarise(parsed);
+  report(1);
+  return {
+    format: parsed.format,
+    elements: parsed.elements,
+    snapshots: parsed.snapshots,
+    ...(parsed.sampleRate ? { sampleRate: parsed.sampleRate } : {}),
+    details: parsed.details as unknown as Record<string, unknown>,
+    summary,
+  };
+}
+
+export async function compute<K extends ComputeTaskName>(
+  task: K,
+  input: ComputeTasks[K]['input'],
+  report: Report,
+): Promise<ComputeTasks[K]['output']> {
+  switch (task) {
+    case 'estimate':
+      return (await computeEstimate(input as EstimateComputeInput, report)) as ComputeTasks[K]['output'];
+    case 'study':
+      return (await runStudy(input as StudySpec, { onProgress: report })) as ComputeTasks[K]['output'];
+    case 'dataset.parse':
+      return (await computeDatasetParse(input as DatasetParseInput, report)) as ComputeTasks[K]['output'];
+    default:
+      throw new Error(`unknown compute task ${String(task)}`);
+  }
+}
+
+/**
+ * An error as it crosses the thread boundary: structured cloning keeps only
+ * name and message, so the fields the API needs (code, status, location,
+ * field) travel explicitly and the class is rebuilt on the other side.
+ */
+export interface EncodedError {
+  name: string;
+  message: string;
+  code?: string;
+  status?: number;
+  location?: { row?: number; column?: number };
+  field?: string;
+  cost?: number;
+  budget?: number;
+  stack?: string;
+}
+
+export function encodeError(err: unknown): EncodedError {
+  if (err instanceof DatasetError) {
+    return {
+      name: 'DatasetError',
+      message: err.message,
+      code: err.code,
+      status: err.status,
+      ...(err.location ? { location: err.location } : {}),
+    };
+  }
+  if (err instanceof DoaInputError) return { name: 'DoaInputError', message: err.message, code: err.code };
+  if (err instanceof DoaNumericalError) return { name: 'DoaNumericalError', message: err.message, code: err.code };
+  if (err instanceof StudyInputError) return { name: 'StudyInputError', message: err.message, field: err.field };
+  if (err instanceof StudyBudgetError)
+    return { name: 'StudyBudgetError', message: err.message, cost: err.cost, budget: err.budget };
+  if (err instanceof StudyAbortedError) return { name: 'StudyAbortedError', message: err.message };
+  const e = err instanceof Error ? err : new Error(String(err));
+  return { name: e.name, message: e.message, ...(e.stack ? { stack: e.stack } : {}) };
+}
+
+export function decodeError(e: EncodedError): Error {
+  switch (e.name) {
+    case 'DatasetError':
+      return new DatasetError(
+        e.status as ConstructorParameters<typeof DatasetError>[0],
+        e.code as ConstructorParameters<typeof DatasetError>[1],
+        e.message,
+        e.location,
+      );
+    case 'DoaInputError':
+      return new DoaInputError(e.code as ConstructorParameters<typeof DoaInputError>[0], e.message);
+    case 'DoaNumericalError':
+      return new DoaNumericalError(e.code as ConstructorParameters<typeof DoaNumericalError>[0], e.message);
+    case 'StudyInputError':
+      return new StudyInputError(e.field ?? 'spec', e.message);
+    case 'StudyBudgetError':
+      return new StudyBudgetError(e.cost ?? 0, e.budget ?? 0, e.message);
+    case 'StudyAbortedError':
+      return new StudyAbortedError();
+    default: {
+      const out = new Error(e.message);
+      out.name = e.name;
+      if (e.stack) out.stack = e.stack;
+      return out;
+    }
+  }
+}

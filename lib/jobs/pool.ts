@@ -1,0 +1,125 @@
+import 'server-only';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { Piscina } from 'piscina';
+import { decodeError, type ComputeTaskName, type ComputeTasks } from './compute';
+import type { WorkerAnswer, WorkerTask } from './worker';
+
+/**
+ * The compute pool: piscina worker threads, as many as the machine's cores
+ * (STEERWISE_WORKERS overrides), running lib/jobs/worker.ts bundled by
+ * esbuild (scripts/build-worker.mjs). The web thread only validates, stores,
+ * enqueues and answers.
+ *
+ * Which file the threads load:
+ * - STEERWISE_WORKER_FILE when set;
+ * - under NODE_ENV=production (next start), dist/jobs-worker.cjs, which
+ *   `npm run build` writes before next build; a missing bundle is an error
+ *   naming the command;
+ * - otherwise (next dev, vitest, tsx scripts) a bundle built on first use into
+ *   node_modules/.cache/steerwise/, so every setting runs the same bundled code.
+ */
+export async function workerFile(): Promise<string> {
+  if (process.env.STEERWISE_WORKER_FILE)
+    return path.resolve(/*turbopackIgnore: true*/ process.env.STEERWISE_WORKER_FILE);
+  const root = process.cwd();
+  if (process.env.NODE_ENV === 'production') {
+    const bundled = path.join(/*turbopackIgnore: true*/ root, 'dist', 'jobs-worker.cjs');
+    if (!fs.existsSync(bundled)) {
+      throw new Error(
+        `The compute worker bundle ${bundled} is missing; run "npm run build" (it runs build:worker before next build).`,
+      );
+    }
+    return bundled;
+  }
+  // Built per process into a temporary name, then renamed over one shared file (atomic), so
+  // parallel test processes never see a half-written bundle and nothing accumulates.
+  const dir = path.join(/*turbopackIgnore: true*/ root, 'node_modules', '.cache', 'steerwise');
+  const out = path.join(dir, 'jobs-worker.cjs');
+  const temp = path.join(dir, `jobs-worker.${process.pid}.tmp.cjs`);
+  const script = pathToFileURL(path.join(/*turbopackIgnore: true*/ root, 'scripts', 'build-worker.mjs')).href;
+  const { buildWorker } = (await import(/* webpackIgnore: true */ /* turbopackIgnore: true */ script)) as {
+    buildWorker: (file: string, options: { inlineSourceMap: boolean }) => Promise<string>;
+  };
+  await buildWorker(temp, { inlineSourceMap: true });
+  fs.renameSync(temp, out);
+  return out;
+}
+
+export function poolSize(): number {
+  const fromEnv = Number(process.env.STEERWISE_WORKERS);
+  if (Number.isInteger(fromEnv) && fromEnv > 0) return fromEnv;
+  return Math.max(1, os.availableParallelism());
+}
+
+type PoolHolder = { pool?: Promise<Piscina> };
+const holder = ((globalThis as Record<string, unknown>).__steerwisePool ??= {}) as PoolHolder;
+
+function pool(): Promise<Piscina> {
+  if (!holder.pool) {
+    const size = poolSize();
+    const made = workerFile().then(
+      (filename) =>
+        new Piscina({
+          filename,
+          minThreads: size,
+          maxThreads: size,
+          idleTimeout: 60_000,
+          // The engine's typed arrays for a 200 MB dataset need room beyond V8's default young/old sizes.
+          resourceLimits: { maxOldGenerationSizeMb: 2048 },
+        }),
+    );
+    made.catch(() => {
+      if (holder.pool === made) holder.pool = undefined;
+    });
+    holder.pool = made;
+  }
+  return holder.pool;
+}
+
+export interface ComputeOptions {
+  signal?: AbortSignal;
+  onProgress?: (fraction: number) => void;
+  /** Buffers moved (not copied) to the worker; they are unusable here afterwards. */
+  transferList?: ArrayBuffer[];
+}
+
+/** Runs one compute task on the pool; rejects with the task's own error class (see encodeError). */
+export async function runCompute<K extends ComputeTaskName>(
+  task: K,
+  input: ComputeTasks[K]['input'],
+  { signal, onProgress, transferList }: ComputeOptions = {},
+): Promise<ComputeTasks[K]['output']> {
+  const progress = new SharedArrayBuffer(4);
+  const cell = new Int32Array(progress);
+  let last = -1;
+  const poll = onProgress
+    ? setInterval(() => {
+        const v = Atomics.load(cell, 0);
+        if (v !== last) {
+          last = v;
+          onProgress(v / 1e6);
+        }
+      }, 200)
+    : null;
+  poll?.unref();
+  try {
+    const message: WorkerTask<K> = { task, input, progress };
+    const answer = (await (
+      await pool()
+    ).run(message, { ...(signal ? { signal } : {}), ...(transferList ? { transferList } : {}) })) as WorkerAnswer<K>;
+    if (!answer.ok) throw decodeError(answer.error);
+    return answer.value;
+  } finally {
+    if (poll) clearInterval(poll);
+  }
+}
+
+/** Stops the pool's threads (tests, shutdown). */
+export async function closePool(): Promise<void> {
+  const p = holder.pool;
+  holder.pool = undefined;
+  if (p) await (await p).destroy();
+}

@@ -1,0 +1,25 @@
+import 'server-only';
+import { startJobRunner, recoverStaleJobs } from '.';
+import { sweepDataFolder } from '../storage/sweep';
+import { isSnapshotSetReferenced, snapshotsDir } from '../storage/snapshots';
+// Importing the data modules registers their job kinds.
+import '../data/estimates';
+import '../data/studies';
+import '../data/datasets';
+
+/**
+ * Server start (instrumentation.ts): remove what a killed server left in the
+ * data folder, recover jobs whose process died, then start this process's
+ * job runner so queued and recovered jobs run without waiting for a request.
+ */
+export async function startServerJobs(): Promise<void> {
+  const { removed } = await sweepDataFolder([{ dir: snapshotsDir(), referenced: isSnapshotSetReferenced }]);
+  if (removed.length) console.log(`[steerwise] removed ${removed.length} leftover file(s) from the data folder`);
+  const recovered = await recoverStaleJobs();
+  if (recovered.requeued || recovered.failed || recovered.removed) {
+    console.log(
+      `[steerwise] jobs of a stopped server: ${recovered.requeued} re-queued, ${recovered.failed} failed, ${recovered.removed} removed`,
+    );
+  }
+  startJobRunner();
+}

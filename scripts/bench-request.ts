@@ -1,0 +1,125 @@
+/**
+ * Where the time of one inline estimate request goes (POST /api/v1/estimates,
+ * M = 16, N = 1000, two sources, LS-ESPRIT, no spectrum), measured in-process
+ * on a temporary migrated and seeded database:
+ *
+ *   npx tsx scripts/bench-request.ts [--json] [--n 40]
+ *
+ * Phases (median over the runs after a warm-up): JSON.parse of the body, zod
+ * validation, storing the snapshot set (SHA-256 + file), the whole
+ * submitEstimate (store rows, enqueue, claim, compute in the worker, store
+ * the result), the compute alone in the worker (runCompute), and shaping the
+ * answer (JSON.stringify of the §7 body).
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+
+// The data modules import 'server-only', which throws outside Next's server build; stand in an empty module.
+const serverOnly = require.resolve('server-only');
+require.cache[serverOnly] = { id: serverOnly, filename: serverOnly, loaded: true, exports: {} } as NodeJS.Module;
+
+const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-req-'));
+process.env.STEERWISE_DATA_DIR = dir;
+process.env.STEERWISE_DB = path.join(dir, 'db.sqlite');
+process.env.NEXTAUTH_SECRET = 'bench-request';
+
+const args = process.argv.slice(2);
+const runs = args.includes('--n') ? Number(args[args.indexOf('--n') + 1]) : 40;
+
+async function main() {
+  const { getDb } = await import('../lib/db');
+  const { migrateUp } = await import('../lib/db/migrate');
+  const { seedDemo } = await import('../lib/demo/seed');
+  const { simulateSnapshots } = await import('../lib/doa/sim/simulate');
+  const { estimateRequestSchema } = await import('../lib/validations/estimate');
+  const { submitEstimate, v1Answer } = await import('../lib/data/estimates');
+  const { storeSnapshotSet } = await import('../lib/storage/snapshots');
+  const { runCompute, closePool } = await import('../lib/jobs/pool');
+  const { stopJobRunner } = await import('../lib/jobs');
+  const { User } = await import('../models');
+  const db = await getDb();
+  await migrateUp(db);
+  await seedDemo(db);
+  const user = (await User.findOne({ where: { email: 'engineer@steerwise.test' } }))!;
+  const caller = {
+    id: user.id,
+    email: user.email,
+    name: user.name,
+    role: user.role,
+    teamId: user.teamId as number,
+    via: 'token' as const,
+  };
+  const m = 16;
+  const n = 1000;
+  const x = simulateSnapshots({
+    elements: m,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [-12, 20],
+    powers: [10, 10],
+    noisePower: 1,
+    snapshots: n,
+    seed: 2026,
+  });
+  const re: number[][] = [];
+  const im: number[][] = [];
+  for (let s = 0; s < n; s++) {
+    re.push(Array.from({ length: m }, (_, e) => x.re[e * n + s]));
+    im.push(Array.from({ length: m }, (_, e) => x.im[e * n + s]));
+  }
+  const text = JSON.stringify({
+    method: 'esprit-ls',
+    sourceCount: 2,
+    includeSpectrum: false,
+    array: { elements: m, spacingWavelengths: 0.5 },
+    snapshots: { re, im },
+  });
+  const t: Record<string, number[]> = {
+    parse: [],
+    validate: [],
+    storeSnapshots: [],
+    submitEstimate: [],
+    computeInWorker: [],
+    answer: [],
+  };
+  const time = async <T>(k: string, fn: () => T | Promise<T>): Promise<T> => {
+    const t0 = performance.now();
+    const v = await fn();
+    t[k].push(performance.now() - t0);
+    return v;
+  };
+  for (let i = 0; i < runs + 5; i++) {
+    const body = await time('parse', () => JSON.parse(text));
+    const input = await time('validate', () => estimateRequestSchema.parse(body));
+    const flat = { rows: n, cols: m, re: new Float64Array(re.flat()), im: new Float64Array(im.flat()) };
+    await time('storeSnapshots', () => storeSnapshotSet(flat));
+    const run = await time('submitEstimate', () => submitEstimate({ caller, input, wait: true }));
+    await time('computeInWorker', () =>
+      runCompute('estimate', {
+        source: { kind: 'matrix', ...flat },
+        elements: m,
+        spacingWavelengths: 0.5,
+        methods: ['esprit-ls'],
+        options: { sourceCount: 2, includeSpectrum: false },
+      }),
+    );
+    await time('answer', () => JSON.stringify(v1Answer(run)));
+    if (i < 5) for (const k of Object.keys(t)) t[k].length = 0;
+  }
+  const median = (a: number[]) => [...a].sort((p, q) => p - q)[Math.floor(a.length / 2)];
+  const out = Object.fromEntries(Object.entries(t).map(([k, v]) => [`${k}Ms`, Math.round(median(v) * 100) / 100]));
+  console.log(
+    args.includes('--json')
+      ? JSON.stringify({ case: 'request-phases', runs, bodyMb: Math.round(text.length / 1e4) / 100, ...out })
+      : out,
+  );
+  await stopJobRunner();
+  await closePool();
+  fs.rmSync(dir, { recursive: true, force: true });
+  process.exit(0);
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});
