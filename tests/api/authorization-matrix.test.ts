@@ -640,6 +640,14 @@ const MATRIX: Row[] = [
       if (res.status === 201) expect(body.rerunOf).toBe(ids.run);
     },
   },
+  // Stopping the seeded, finished run: engineers and admins pass the permission check and get 409 (already ended);
+  // stopping a running job is covered in tests/api/jobs.test.ts.
+  {
+    route: '/api/v1/estimates/[id]/cancel',
+    method: 'POST',
+    expect: engineersAndAdmins(409, 404),
+    prepare: async () => ({ params: { id: String(ids.run) }, body: {} }),
+  },
   // The v1 API description, public.
   { route: '/api/v1/openapi.json', method: 'GET', expect: publicRoute(200) },
   // The review thread of revision 1 of the seeded array.
@@ -708,6 +716,14 @@ const MATRIX: Row[] = [
     method: 'GET',
     expect: teamRead(200),
     prepare: async () => ({ params: { id: String(ids.study) } }),
+  },
+  // Stopping the seeded, finished demo study: engineers and admins pass the permission check and get 409 (already
+  // ended); stopping a running study is covered in tests/api/jobs.test.ts.
+  {
+    route: '/api/v1/studies/[id]/cancel',
+    method: 'POST',
+    expect: engineersAndAdmins(409, 404),
+    prepare: async () => ({ params: { id: String(ids.study) }, body: {} }),
   },
   // Deleting a fresh tiny demo study: engineers and admins.
   {
