@@ -29,7 +29,16 @@ export async function updateProfile({ caller, input }: { caller: Caller; input: 
     const before = user.name;
     user.name = input.name;
     await user.save({ transaction });
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'account.profile_updated', target: user.email, detail: { from: before, to: input.name } }, transaction);
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: 'account.profile_updated',
+        target: user.email,
+        detail: { from: before, to: input.name },
+      },
+      transaction,
+    );
     return toMemberDto(user);
   });
 }
@@ -45,28 +54,65 @@ export async function changePassword({ caller, input }: { caller: Caller; input:
   const db = await getDb();
   await db.transaction(async (transaction) => {
     await User.update({ passwordHash: hash }, { where: { id: user.id }, transaction });
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'account.password_changed', target: user.email }, transaction);
+    await recordAudit(
+      { teamId: caller.teamId, userId: caller.id, action: 'account.password_changed', target: user.email },
+      transaction,
+    );
   });
 }
 
 export async function listTokens({ caller }: { caller: Caller }): Promise<TokenDto[]> {
   await getDb();
-  const tokens = await ApiToken.findAll({ where: { userId: caller.id }, order: [['createdAt', 'DESC'], ['id', 'DESC']] });
+  const tokens = await ApiToken.findAll({
+    where: { userId: caller.id },
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+  });
   return tokens.map(toTokenDto);
 }
 
 /** Creates a token for a user; the secret is returned once and only its hash is stored. */
-export async function issueToken({ userId, teamId, name, actorId }: { userId: number; teamId: number; name: string; actorId: number | null }): Promise<{ token: string; record: TokenDto }> {
+export async function issueToken({
+  userId,
+  teamId,
+  name,
+  actorId,
+}: {
+  userId: number;
+  teamId: number;
+  name: string;
+  actorId: number | null;
+}): Promise<{ token: string; record: TokenDto }> {
   const db = await getDb();
   const secret = randomSecret('sw_', 32);
   return db.transaction(async (transaction) => {
-    const record = await ApiToken.create({ userId, name, tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9) }, { transaction });
-    await recordAudit({ teamId, userId: actorId, action: 'token.created', target: name, detail: { tokenId: record.id, prefix: record.prefix, forUserId: userId } }, transaction);
+    const record = await ApiToken.create(
+      { userId, name, tokenHash: sha256Hex(secret), prefix: secret.slice(0, 9) },
+      { transaction },
+    );
+    await recordAudit(
+      {
+        teamId,
+        userId: actorId,
+        action: 'token.created',
+        target: name,
+        detail: { tokenId: record.id, prefix: record.prefix, forUserId: userId },
+      },
+      transaction,
+    );
     return { token: secret, record: toTokenDto(record) };
   });
 }
 
-export async function createToken({ caller, input }: { caller: Caller; input: TokenCreateInput }): Promise<{ token: string; record: TokenDto }> {
+export async function createToken({
+  caller,
+  input,
+}: {
+  caller: Caller;
+  input: TokenCreateInput;
+}): Promise<{ token: string; record: TokenDto }> {
   await loadSelf(caller);
   return issueToken({ userId: caller.id, teamId: caller.teamId, name: input.name, actorId: caller.id });
 }
@@ -80,7 +126,16 @@ export async function revokeToken({ caller, id }: { caller: Caller; id: number }
     if (!token.revokedAt) {
       token.revokedAt = new Date();
       await token.save({ transaction });
-      await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'token.revoked', target: token.name, detail: { tokenId: token.id, prefix: token.prefix } }, transaction);
+      await recordAudit(
+        {
+          teamId: caller.teamId,
+          userId: caller.id,
+          action: 'token.revoked',
+          target: token.name,
+          detail: { tokenId: token.id, prefix: token.prefix },
+        },
+        transaction,
+      );
     }
     return toTokenDto(token);
   });

@@ -23,7 +23,13 @@ import { getDb } from '../db';
  */
 
 export type PersonDto = { id: number; name: string } | null;
-export type RevisionSummaryDto = { revision: number; author: PersonDto; createdAt: string; elements: number; spacingWavelengths: number };
+export type RevisionSummaryDto = {
+  revision: number;
+  author: PersonDto;
+  createdAt: string;
+  elements: number;
+  spacingWavelengths: number;
+};
 
 /** The array as GET /api/v1/arrays/{id} answers (docs/conventions.md §7) plus extra fields. */
 export type ArrayDto = {
@@ -81,7 +87,11 @@ const authorInclude: IncludeOptions = { model: User, as: 'author', attributes: [
 const createdByInclude: IncludeOptions = { model: User, as: 'createdBy', attributes: ['id', 'name'] };
 
 async function findOwnArray(caller: Caller, id: number, transaction?: Transaction): Promise<ArrayRow> {
-  const array = await ArrayDesign.findOne({ where: { id, teamId: caller.teamId }, include: [createdByInclude], transaction });
+  const array = await ArrayDesign.findOne({
+    where: { id, teamId: caller.teamId },
+    include: [createdByInclude],
+    transaction,
+  });
   if (!array) throw new ApiError('not_found', `No array with id ${id} in your team.`);
   return array as ArrayRow;
 }
@@ -99,13 +109,26 @@ export async function listArrays({ caller }: { caller: Caller }): Promise<ArrayD
   // One query: each array of the team joined to its latest revision row.
   const rows = (await ArrayRevision.findAll({
     where: where(col('ArrayRevision.revision'), Op.eq, col('array.latestRevision')),
-    include: [{ model: ArrayDesign, as: 'array', where: { teamId: caller.teamId }, include: [createdByInclude] }, authorInclude],
+    include: [
+      { model: ArrayDesign, as: 'array', where: { teamId: caller.teamId }, include: [createdByInclude] },
+      authorInclude,
+    ],
   })) as (RevisionRow & { array: ArrayRow })[];
-  return rows.map((r) => toArrayDto(r.array, r)).sort((x, y) => y.revisionCreatedAt.localeCompare(x.revisionCreatedAt) || y.id - x.id);
+  return rows
+    .map((r) => toArrayDto(r.array, r))
+    .sort((x, y) => y.revisionCreatedAt.localeCompare(x.revisionCreatedAt) || y.id - x.id);
 }
 
 /** One array at its latest revision (or at `revision`), with the list of all its revisions. */
-export async function getArray({ caller, id, revision }: { caller: Caller; id: number; revision?: number }): Promise<ArrayDetailDto> {
+export async function getArray({
+  caller,
+  id,
+  revision,
+}: {
+  caller: Caller;
+  id: number;
+  revision?: number;
+}): Promise<ArrayDetailDto> {
   assertPermission(caller, 'arrays.read');
   await getDb();
   const array = await findOwnArray(caller, id);
@@ -118,8 +141,18 @@ export async function listRevisions({ caller, id }: { caller: Caller; id: number
   assertPermission(caller, 'arrays.read');
   await getDb();
   const array = await findOwnArray(caller, id);
-  const rows = (await ArrayRevision.findAll({ where: { arrayId: array.id }, include: [authorInclude], order: [['revision', 'DESC']] })) as RevisionRow[];
-  return rows.map((r) => ({ revision: r.revision, author: person(r.author), createdAt: iso(r.createdAt), elements: r.elements, spacingWavelengths: r.spacingWavelengths }));
+  const rows = (await ArrayRevision.findAll({
+    where: { arrayId: array.id },
+    include: [authorInclude],
+    order: [['revision', 'DESC']],
+  })) as RevisionRow[];
+  return rows.map((r) => ({
+    revision: r.revision,
+    author: person(r.author),
+    createdAt: iso(r.createdAt),
+    elements: r.elements,
+    spacingWavelengths: r.spacingWavelengths,
+  }));
 }
 
 /** Creates an array at revision 1 from a raw (unvalidated) body. */
@@ -128,10 +161,28 @@ export async function createArray({ caller, input: raw }: { caller: Caller; inpu
   const { input, geometry } = validateArrayInput(raw);
   const db = await getDb();
   const id = await db.transaction({ type: Transaction.TYPES.IMMEDIATE }, async (transaction) => {
-    const array = await ArrayDesign.create({ teamId: caller.teamId, name: input.name, latestRevision: 1, createdById: caller.id }, { transaction });
-    await ArrayRevision.create({ arrayId: array.id, revision: 1, authorId: caller.id, ...revisionColumns(input, geometry) }, { transaction });
+    const array = await ArrayDesign.create(
+      { teamId: caller.teamId, name: input.name, latestRevision: 1, createdById: caller.id },
+      { transaction },
+    );
+    await ArrayRevision.create(
+      { arrayId: array.id, revision: 1, authorId: caller.id, ...revisionColumns(input, geometry) },
+      { transaction },
+    );
     await recordAudit(
-      { teamId: caller.teamId, userId: caller.id, action: 'array.created', target: input.name, detail: { arrayId: array.id, revision: 1, elements: input.elements, spacingWavelengths: geometry.spacingWavelengths, via: caller.via } },
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: 'array.created',
+        target: input.name,
+        detail: {
+          arrayId: array.id,
+          revision: 1,
+          elements: input.elements,
+          spacingWavelengths: geometry.spacingWavelengths,
+          via: caller.via,
+        },
+      },
       transaction,
     );
     return array.id;
@@ -140,7 +191,15 @@ export async function createArray({ caller, input: raw }: { caller: Caller; inpu
 }
 
 /** Saves revision n + 1 from a partial (unvalidated) change merged into revision n. Old revisions are never touched. */
-export async function updateArray({ caller, id, patch }: { caller: Caller; id: number; patch: unknown }): Promise<ArrayDetailDto> {
+export async function updateArray({
+  caller,
+  id,
+  patch,
+}: {
+  caller: Caller;
+  id: number;
+  patch: unknown;
+}): Promise<ArrayDetailDto> {
   assertPermission(caller, 'arrays.edit');
   const changes = requireObjectBody(patch, 'with the fields to change');
   const db = await getDb();
@@ -150,22 +209,35 @@ export async function updateArray({ caller, id, patch }: { caller: Caller; id: n
       const previous = await findRevision(array.id, array.latestRevision, transaction);
       const { input, geometry } = validateArrayInput(mergeArrayInput(previous.config as ArrayInput, changes));
       const revision = array.latestRevision + 1;
-      await ArrayRevision.create({ arrayId: array.id, revision, authorId: caller.id, ...revisionColumns(input, geometry) }, { transaction });
+      await ArrayRevision.create(
+        { arrayId: array.id, revision, authorId: caller.id, ...revisionColumns(input, geometry) },
+        { transaction },
+      );
       const renamedFrom = array.name !== input.name ? array.name : undefined;
-      await ArrayDesign.update({ latestRevision: revision, name: input.name }, { where: { id: array.id, teamId: caller.teamId }, transaction });
+      await ArrayDesign.update(
+        { latestRevision: revision, name: input.name },
+        { where: { id: array.id, teamId: caller.teamId }, transaction },
+      );
       await recordAudit(
         {
           teamId: caller.teamId,
           userId: caller.id,
           action: 'array.revised',
           target: input.name,
-          detail: { arrayId: array.id, revision, changed: Object.keys(changes), ...(renamedFrom ? { renamedFrom } : {}), via: caller.via },
+          detail: {
+            arrayId: array.id,
+            revision,
+            changed: Object.keys(changes),
+            ...(renamedFrom ? { renamedFrom } : {}),
+            via: caller.via,
+          },
         },
         transaction,
       );
     });
   } catch (err) {
-    if (err instanceof UniqueConstraintError) throw new ApiError('conflict', `Array ${id} was saved by someone else at the same moment; reload and try again.`);
+    if (err instanceof UniqueConstraintError)
+      throw new ApiError('conflict', `Array ${id} was saved by someone else at the same moment; reload and try again.`);
     throw err;
   }
   return getArray({ caller, id });

@@ -7,7 +7,14 @@ import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
-import { DatasetError, detectFormat, parseSnapshotFile, type ParsedSnapshots, type ParseOptions, type SnapshotFormat } from '../datasets';
+import {
+  DatasetError,
+  detectFormat,
+  parseSnapshotFile,
+  type ParsedSnapshots,
+  type ParseOptions,
+  type SnapshotFormat,
+} from '../datasets';
 import { summarise, type DatasetSummary } from '../storage/summary';
 import { datasetsDir, removeQuietly, resolveStoragePath } from '../storage/files';
 import { formatBytes, receiveFile, type ReceivedFile } from '../http/multipart';
@@ -38,7 +45,6 @@ export interface DatasetDto {
 
 export type DatasetListItem = Omit<DatasetDto, 'summary' | 'details' | 'options'>;
 
-
 function toDto(d: Dataset, uploader: User | null, withSummary: boolean): DatasetDto {
   const details = (d.details ?? null) as (Record<string, unknown> & { summary?: DatasetSummary }) | null;
   const { summary, ...rest } = details ?? {};
@@ -67,13 +73,28 @@ export function createdBody(d: DatasetDto) {
 
 /** The latest revision of an array of the caller's team, or 404. */
 /** An array of the caller's team at its latest revision, or at `revision` when given (404 when either is missing). */
-export async function findTeamArrayRevision({ caller, arrayId, revision: wanted }: { caller: Caller; arrayId: number; revision?: number }): Promise<{ array: ArrayDesign; revision: ArrayRevision }> {
+export async function findTeamArrayRevision({
+  caller,
+  arrayId,
+  revision: wanted,
+}: {
+  caller: Caller;
+  arrayId: number;
+  revision?: number;
+}): Promise<{ array: ArrayDesign; revision: ArrayRevision }> {
   await getDb();
   const array = await ArrayDesign.findOne({ where: { id: arrayId, teamId: caller.teamId } });
   if (!array) throw new ApiError('not_found', `No array with id ${arrayId} in your team.`);
-  const revision = await ArrayRevision.findOne({ where: { arrayId: array.id, revision: wanted ?? array.latestRevision } });
+  const revision = await ArrayRevision.findOne({
+    where: { arrayId: array.id, revision: wanted ?? array.latestRevision },
+  });
   if (!revision) {
-    throw new ApiError('not_found', wanted === undefined ? `Array ${arrayId} has no saved revision.` : `Array ${arrayId} has no revision ${wanted} (its latest is ${array.latestRevision}).`);
+    throw new ApiError(
+      'not_found',
+      wanted === undefined
+        ? `Array ${arrayId} has no saved revision.`
+        : `Array ${arrayId} has no revision ${wanted} (its latest is ${array.latestRevision}).`,
+    );
   }
   return { array, revision };
 }
@@ -82,7 +103,14 @@ export async function findTeamArrayRevision({ caller, arrayId, revision: wanted 
 export function datasetErrorToApi(err: DatasetError): ApiError | null {
   if (err.status === 500) return null;
   const code = err.status === 413 ? 'too_large' : err.status === 415 ? 'unsupported_format' : 'validation_failed';
-  const where = err.location ? [err.location.row !== undefined ? `row ${err.location.row}` : '', err.location.column !== undefined ? `column ${err.location.column}` : ''].filter(Boolean).join(', ') : '';
+  const where = err.location
+    ? [
+        err.location.row !== undefined ? `row ${err.location.row}` : '',
+        err.location.column !== undefined ? `column ${err.location.column}` : '',
+      ]
+        .filter(Boolean)
+        .join(', ')
+    : '';
   // The reader's stable code and the 1-based location travel in `fields`, the one open slot of the §7 error body.
   const fields: Record<string, string[]> = { file: [err.message], reason: [err.code] };
   if (where) fields.location = [where];
@@ -108,7 +136,8 @@ export function receiveDatasetUpload(req: Request): Promise<ReceivedFile> {
   return receiveFile(req, {
     noun: 'dataset',
     maxBytes: maxUploadBytes(),
-    tooLarge: (max) => new ApiError('too_large', `The file is larger than the upload limit of ${formatBytes(max)} (${max} bytes).`),
+    tooLarge: (max) =>
+      new ApiError('too_large', `The file is larger than the upload limit of ${formatBytes(max)} (${max} bytes).`),
   });
 }
 
@@ -124,7 +153,16 @@ export async function createDataset({ caller, upload }: { caller: Caller; upload
   let target: { array: ArrayDesign; revision: ArrayRevision } | null = null;
   if (fields.arrayId !== undefined) target = await findTeamArrayRevision({ caller, arrayId: fields.arrayId });
   const options = parseOptionsOf(fields);
-  const parsed = await parseUpload({ caller, input: { path: upload.tempPath, fileName: upload.originalName, format, maxBytes: maxUploadBytes(), parseOptions: options } });
+  const parsed = await parseUpload({
+    caller,
+    input: {
+      path: upload.tempPath,
+      fileName: upload.originalName,
+      format,
+      maxBytes: maxUploadBytes(),
+      parseOptions: options,
+    },
+  });
   if (target && target.revision.elements !== parsed.elements) {
     throw new ApiError(
       'validation_failed',
@@ -155,13 +193,23 @@ export async function createDataset({ caller, upload }: { caller: Caller; upload
           storagePath: rel,
           arrayId: target ? target.array.id : null,
           options: Object.keys(options).length ? (options as Record<string, unknown>) : null,
-          details: { ...(parsed.details as unknown as Record<string, unknown>), ...(parsed.sampleRate ? { sampleRate: parsed.sampleRate } : {}), summary },
+          details: {
+            ...(parsed.details as unknown as Record<string, unknown>),
+            ...(parsed.sampleRate ? { sampleRate: parsed.sampleRate } : {}),
+            summary,
+          },
           uploadedById: caller.id,
         },
         { transaction },
       );
       await recordAudit(
-        { teamId: caller.teamId, userId: caller.id, action: 'dataset.uploaded', target: created.name, detail: { id: created.id, sha256: upload.sha256, bytes: upload.bytes, format: parsed.format } },
+        {
+          teamId: caller.teamId,
+          userId: caller.id,
+          action: 'dataset.uploaded',
+          target: created.name,
+          detail: { id: created.id, sha256: upload.sha256, bytes: upload.bytes, format: parsed.format },
+        },
         transaction,
       );
       await fs.promises.rename(upload.tempPath, finalPath);
@@ -193,12 +241,26 @@ registerJobKind<DatasetParseOutput>({
     return runCompute('dataset.parse', localInput as DatasetParseInput, { signal, onProgress: setProgress });
   },
   describeError(err) {
-    return err instanceof DatasetError ? err.message : 'The file could not be parsed on the server; the detail has been logged.';
+    return err instanceof DatasetError
+      ? err.message
+      : 'The file could not be parsed on the server; the detail has been logged.';
   },
 });
 
-async function parseUpload({ caller, input }: { caller: Caller; input: DatasetParseInput }): Promise<DatasetParseOutput> {
-  const job = await enqueueJob({ kind: DATASET_PARSE_JOB, inputRef: path.relative(dataDir(), input.path), teamId: caller.teamId, ownerId: caller.id, localInput: input });
+async function parseUpload({
+  caller,
+  input,
+}: {
+  caller: Caller;
+  input: DatasetParseInput;
+}): Promise<DatasetParseOutput> {
+  const job = await enqueueJob({
+    kind: DATASET_PARSE_JOB,
+    inputRef: path.relative(dataDir(), input.path),
+    teamId: caller.teamId,
+    ownerId: caller.id,
+    localInput: input,
+  });
   const outcome = await waitForJob<DatasetParseOutput>(job.id);
   if (outcome.status === 'done' && outcome.value) return outcome.value;
   if (outcome.cause !== undefined) throw outcome.cause;
@@ -217,9 +279,21 @@ export async function getDataset({ caller, id }: { caller: Caller; id: number })
 export async function listDatasets({ caller }: { caller: Caller }): Promise<DatasetListItem[]> {
   assertPermission(caller, 'datasets.read');
   await getDb();
-  const rows = await Dataset.findAll({ where: { teamId: caller.teamId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], include: [{ model: User, as: 'uploadedBy' }] });
+  const rows = await Dataset.findAll({
+    where: { teamId: caller.teamId },
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    include: [{ model: User, as: 'uploadedBy' }],
+  });
   return rows.map((d) => {
-    const { summary: _s, details: _d, options: _o, ...rest } = toDto(d, (d as unknown as { uploadedBy: User | null }).uploadedBy ?? null, false);
+    const {
+      summary: _s,
+      details: _d,
+      options: _o,
+      ...rest
+    } = toDto(d, (d as unknown as { uploadedBy: User | null }).uploadedBy ?? null, false);
     return rest;
   });
 }
@@ -231,7 +305,16 @@ export async function deleteDataset({ caller, id }: { caller: Caller; id: number
   const storagePath = await db.transaction(async (transaction) => {
     const d = await Dataset.findOne({ where: { id, teamId: caller.teamId }, transaction });
     if (!d) throw new ApiError('not_found', `No dataset with id ${id} in your team.`);
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'dataset.deleted', target: d.name, detail: { id: d.id, sha256: d.sha256 } }, transaction);
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: 'dataset.deleted',
+        target: d.name,
+        detail: { id: d.id, sha256: d.sha256 },
+      },
+      transaction,
+    );
     await d.destroy({ transaction });
     return d.storagePath;
   });
@@ -296,7 +379,13 @@ export interface ArrayChoice {
 }
 
 /** The team's arrays at their latest revision (or every revision, newest first, with `allRevisions`), for the upload, estimate and study forms. */
-export async function listArrayChoices({ caller, allRevisions = false }: { caller: Caller; allRevisions?: boolean }): Promise<ArrayChoice[]> {
+export async function listArrayChoices({
+  caller,
+  allRevisions = false,
+}: {
+  caller: Caller;
+  allRevisions?: boolean;
+}): Promise<ArrayChoice[]> {
   assertPermission(caller, 'arrays.read');
   await getDb();
   const arrays = await ArrayDesign.findAll({ where: { teamId: caller.teamId }, order: [['name', 'ASC']] });
@@ -312,6 +401,16 @@ export async function listArrayChoices({ caller, allRevisions = false }: { calle
 
 function arrayChoiceOf(a: ArrayDesign, r: ArrayRevision): ArrayChoice {
   const states = (r.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
-  const disabledElements = Array.isArray(states) ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : [])) : [];
-  return { id: a.id, name: a.name, revision: r.revision, revisionId: r.id, elements: r.elements, spacingWavelengths: r.spacingWavelengths, disabledElements };
+  const disabledElements = Array.isArray(states)
+    ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : []))
+    : [];
+  return {
+    id: a.id,
+    name: a.name,
+    revision: r.revision,
+    revisionId: r.id,
+    elements: r.elements,
+    spacingWavelengths: r.spacingWavelengths,
+    disabledElements,
+  };
 }

@@ -4,15 +4,50 @@ import type { TeamSettings } from '@/models/team';
 
 /** Plain objects returned by data functions and route handlers (never model instances or hashes). */
 export type MemberDto = { id: number; email: string; name: string; role: Role; createdAt: string };
-export type TokenDto = { id: number; name: string; prefix: string; createdAt: string; lastUsedAt: string | null; revokedAt: string | null };
-export type InvitationDto = { id: number; email: string; role: Role | null; createdAt: string; expiresAt: string; status: 'pending' | 'accepted' | 'expired' | 'revoked' };
-export type OutboxDto = { id: number; to: string; from: string; subject: string; text: string; html: string | null; receivedAt: string };
-export type AuditDto = { id: number; action: string; target: string | null; detail: Record<string, unknown> | null; createdAt: string; user: { id: number; name: string; email: string } | null };
+export type TokenDto = {
+  id: number;
+  name: string;
+  prefix: string;
+  createdAt: string;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+};
+export type InvitationDto = {
+  id: number;
+  email: string;
+  role: Role | null;
+  createdAt: string;
+  expiresAt: string;
+  status: 'pending' | 'accepted' | 'expired' | 'revoked';
+};
+export type OutboxDto = {
+  id: number;
+  to: string;
+  from: string;
+  subject: string;
+  text: string;
+  html: string | null;
+  receivedAt: string;
+};
+export type AuditDto = {
+  id: number;
+  action: string;
+  target: string | null;
+  detail: Record<string, unknown> | null;
+  createdAt: string;
+  user: { id: number; name: string; email: string } | null;
+};
 export type TeamDto = { id: number; name: string; settings: TeamSettings };
 
 const iso = (d: Date | string | null | undefined): string | null => (d ? new Date(d).toISOString() : null);
 
-export const toMemberDto = (u: User): MemberDto => ({ id: u.id, email: u.email, name: u.name, role: u.role, createdAt: iso(u.createdAt)! });
+export const toMemberDto = (u: User): MemberDto => ({
+  id: u.id,
+  email: u.email,
+  name: u.name,
+  role: u.role,
+  createdAt: iso(u.createdAt)!,
+});
 
 export const toTokenDto = (t: ApiToken): TokenDto => ({
   id: t.id,

@@ -5,7 +5,14 @@ import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { DatasetError, sha256File } from '../datasets';
-import { bounds, defaultSingleSnapshotSubarray, DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
+import {
+  bounds,
+  defaultSingleSnapshotSubarray,
+  DoaInputError,
+  DoaNumericalError,
+  type ComplexMatrix,
+  type DoaMethod,
+} from '../doa';
 import { cancelJob, enqueueJob, latestJob, registerJobKind, waitForJob, type JobContext } from '../jobs';
 import type { MethodResult, RunOptions } from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
@@ -55,7 +62,10 @@ export interface EstimateRunDto {
   results: MethodResult[];
 }
 
-export type EstimateRunListItem = Pick<EstimateRunDto, 'id' | 'status' | 'progress' | 'error' | 'createdAt' | 'softwareVersion'> & {
+export type EstimateRunListItem = Pick<
+  EstimateRunDto,
+  'id' | 'status' | 'progress' | 'error' | 'createdAt' | 'softwareVersion'
+> & {
   methods: DoaMethod[];
   datasetName: string | null;
   arrayLabel: string;
@@ -89,7 +99,9 @@ export function v1Fields(r: MethodResult) {
     bearingsDeg: r.bearingsDeg,
     eigenvalues: r.eigenvalues,
     warnings: r.warnings,
-    ...(r.spectrum ? { spectrum: { startDeg: r.spectrum.startDeg, stepDeg: r.spectrum.stepDeg, valuesDb: r.spectrum.valuesDb } } : {}),
+    ...(r.spectrum
+      ? { spectrum: { startDeg: r.spectrum.startDeg, stepDeg: r.spectrum.stepDeg, valuesDb: r.spectrum.valuesDb } }
+      : {}),
   };
 }
 
@@ -125,11 +137,16 @@ function checkSizes(m: number, options: RunOptions, snapshots: number): void {
     else size = l;
   }
   if (options.smoothingSubarray !== undefined) {
-    if (options.smoothingSubarray > size) fields.smoothingSubarray = [`smoothingSubarray ${options.smoothingSubarray} must be at most ${size} (the elements available)`];
+    if (options.smoothingSubarray > size)
+      fields.smoothingSubarray = [
+        `smoothingSubarray ${options.smoothingSubarray} must be at most ${size} (the elements available)`,
+      ];
     else size = options.smoothingSubarray;
   }
   if (options.sourceCount !== undefined && options.sourceCount >= size) {
-    fields.sourceCount = [`sourceCount ${options.sourceCount} must be below the ${size} effective elements (K < ${size === m ? 'M' : 'L'} = ${size})`];
+    fields.sourceCount = [
+      `sourceCount ${options.sourceCount} must be below the ${size} effective elements (K < ${size === m ? 'M' : 'L'} = ${size})`,
+    ];
   }
   if (snapshots < 1) fields.snapshots = ['the data holds no snapshots'];
   const first = Object.entries(fields)[0];
@@ -148,23 +165,47 @@ function optionsOf(input: EstimateRequest): RunOptions {
   return o;
 }
 
-async function resolveArray({ caller, input, dataset, pinnedRevisionId }: { caller: Caller; input: EstimateRequest; dataset: Dataset | null; pinnedRevisionId?: number }): Promise<RunArray> {
+async function resolveArray({
+  caller,
+  input,
+  dataset,
+  pinnedRevisionId,
+}: {
+  caller: Caller;
+  input: EstimateRequest;
+  dataset: Dataset | null;
+  pinnedRevisionId?: number;
+}): Promise<RunArray> {
   let revision: ArrayRevision | null = null;
   let design: ArrayDesign | null = null;
   if (pinnedRevisionId !== undefined) {
     revision = await ArrayRevision.findByPk(pinnedRevisionId);
-    design = revision ? await ArrayDesign.findOne({ where: { id: revision.arrayId as number, teamId: caller.teamId } }) : null;
-    if (!revision || !design) throw new ApiError('conflict', `The array revision this run used (id ${pinnedRevisionId}) no longer exists; start a new run.`);
+    design = revision
+      ? await ArrayDesign.findOne({ where: { id: revision.arrayId as number, teamId: caller.teamId } })
+      : null;
+    if (!revision || !design)
+      throw new ApiError(
+        'conflict',
+        `The array revision this run used (id ${pinnedRevisionId}) no longer exists; start a new run.`,
+      );
   } else if (input.array) {
     return { elements: input.array.elements, spacingWavelengths: input.array.spacingWavelengths };
   } else {
-    const arrayId = input.arrayId ?? ((dataset?.arrayId as number | null) ?? undefined);
+    const arrayId = input.arrayId ?? (dataset?.arrayId as number | null) ?? undefined;
     if (arrayId === undefined) {
-      throw new ApiError('validation_failed', 'Give arrayId or array {elements, spacingWavelengths}: the spacing is needed to turn phases into bearings.', {
-        fields: { arrayId: ['arrayId or array is required'] },
-      });
+      throw new ApiError(
+        'validation_failed',
+        'Give arrayId or array {elements, spacingWavelengths}: the spacing is needed to turn phases into bearings.',
+        {
+          fields: { arrayId: ['arrayId or array is required'] },
+        },
+      );
     }
-    ({ array: design, revision } = await findTeamArrayRevision({ caller, arrayId, revision: input.arrayId !== undefined ? input.arrayRevision : undefined }));
+    ({ array: design, revision } = await findTeamArrayRevision({
+      caller,
+      arrayId,
+      revision: input.arrayId !== undefined ? input.arrayRevision : undefined,
+    }));
   }
   const disabled = disabledElements(revision);
   if (disabled.length) {
@@ -174,7 +215,14 @@ async function resolveArray({ caller, input, dataset, pinnedRevisionId }: { call
       { fields: { arrayId: [`elements ${disabled.join(', ')} are disabled`] } },
     );
   }
-  return { elements: revision.elements, spacingWavelengths: revision.spacingWavelengths, arrayId: design.id, arrayRevisionId: revision.id, revision: revision.revision, name: design.name };
+  return {
+    elements: revision.elements,
+    spacingWavelengths: revision.spacingWavelengths,
+    arrayId: design.id,
+    arrayRevisionId: revision.id,
+    revision: revision.revision,
+    name: design.name,
+  };
 }
 
 function inlineRows(s: NonNullable<EstimateRequest['snapshots']>): ComplexMatrix {
@@ -186,7 +234,10 @@ function inlineRows(s: NonNullable<EstimateRequest['snapshots']>): ComplexMatrix
     for (let c = 0; c < m; c++) {
       const a = s.re[r][c];
       const b = s.im[r][c];
-      if (!Number.isFinite(a) || !Number.isFinite(b)) throw new ApiError('validation_failed', `snapshots row ${r + 1}, column ${c + 1} is not a finite number`, { fields: { snapshots: ['not finite'] } });
+      if (!Number.isFinite(a) || !Number.isFinite(b))
+        throw new ApiError('validation_failed', `snapshots row ${r + 1}, column ${c + 1} is not a finite number`, {
+          fields: { snapshots: ['not finite'] },
+        });
       re[r * m + c] = a;
       im[r * m + c] = b;
     }
@@ -195,8 +246,14 @@ function inlineRows(s: NonNullable<EstimateRequest['snapshots']>): ComplexMatrix
 }
 
 function engineToApi(err: unknown): unknown {
-  if (err instanceof DoaInputError) return new ApiError('validation_failed', `The estimate cannot be computed: ${err.message}.`, { fields: { engine: [err.code] } });
-  if (err instanceof DoaNumericalError) return new ApiError('validation_failed', `The computation did not succeed on these data: ${err.message}.`, { fields: { engine: [err.code] } });
+  if (err instanceof DoaInputError)
+    return new ApiError('validation_failed', `The estimate cannot be computed: ${err.message}.`, {
+      fields: { engine: [err.code] },
+    });
+  if (err instanceof DoaNumericalError)
+    return new ApiError('validation_failed', `The computation did not succeed on these data: ${err.message}.`, {
+      fields: { engine: [err.code] },
+    });
   if (err instanceof DatasetError) return datasetErrorToApi(err) ?? err;
   return err;
 }
@@ -236,11 +293,17 @@ export async function submitEstimate({
   }
   const array = await resolveArray({ caller, input, dataset, pinnedRevisionId });
   if (array.elements !== m) {
-    const what = dataset ? `dataset "${dataset.name}" has ${m} columns (elements)` : `the snapshots have ${m} columns (elements)`;
+    const what = dataset
+      ? `dataset "${dataset.name}" has ${m} columns (elements)`
+      : `the snapshots have ${m} columns (elements)`;
     const arrayName = array.name ? `array "${array.name}" (revision ${array.revision})` : 'the array';
-    throw new ApiError('validation_failed', `The element counts differ: ${what} but ${arrayName} has ${array.elements} elements.`, {
-      fields: { [input.array ? 'array' : 'arrayId']: [`${array.elements} elements, the data has ${m}`] },
-    });
+    throw new ApiError(
+      'validation_failed',
+      `The element counts differ: ${what} but ${arrayName} has ${array.elements} elements.`,
+      {
+        fields: { [input.array ? 'array' : 'arrayId']: [`${array.elements} elements, the data has ${m}`] },
+      },
+    );
   }
   const options = optionsOf(input);
   checkSizes(m, options, n);
@@ -259,7 +322,17 @@ export async function submitEstimate({
     methods,
     options,
     array,
-    ...(dataset ? { dataset: { id: dataset.id, sha256: dataset.sha256, name: dataset.name, elements: dataset.elements, snapshots: dataset.snapshots } } : {}),
+    ...(dataset
+      ? {
+          dataset: {
+            id: dataset.id,
+            sha256: dataset.sha256,
+            name: dataset.name,
+            elements: dataset.elements,
+            snapshots: dataset.snapshots,
+          },
+        }
+      : {}),
     ...(rerunOf !== undefined ? { rerunOf } : {}),
   };
   const { run, job } = await db.transaction(async (transaction) => {
@@ -276,8 +349,23 @@ export async function submitEstimate({
       },
       { transaction },
     );
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: rerunOf ? 'estimate.rerun' : 'estimate.started', target: methods.join(', '), detail: { id: created.id, rerunOf: rerunOf ?? null } }, transaction);
-    const queued = await enqueueJob({ kind: ESTIMATE_JOB, inputRef: String(created.id), teamId: caller.teamId, ownerId: caller.id, transaction });
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: rerunOf ? 'estimate.rerun' : 'estimate.started',
+        target: methods.join(', '),
+        detail: { id: created.id, rerunOf: rerunOf ?? null },
+      },
+      transaction,
+    );
+    const queued = await enqueueJob({
+      kind: ESTIMATE_JOB,
+      inputRef: String(created.id),
+      teamId: caller.teamId,
+      ownerId: caller.id,
+      transaction,
+    });
     return { run: created, job: queued };
   });
   if (!wait) return getEstimateRun({ caller, id: run.id });
@@ -299,10 +387,17 @@ export async function submitEstimate({
 export const ESTIMATE_JOB = 'estimate';
 
 /** Where the worker finds a run's snapshots: the stored dataset file, or the request's inline matrix. */
-async function snapshotSource(run: EstimateRun, inputs: RunInputs): Promise<{ source: SnapshotSource; transferList?: ArrayBuffer[] }> {
+async function snapshotSource(
+  run: EstimateRun,
+  inputs: RunInputs,
+): Promise<{ source: SnapshotSource; transferList?: ArrayBuffer[] }> {
   if (inputs.dataset) {
     const dataset = await Dataset.findOne({ where: { id: inputs.dataset.id, teamId: run.teamId as number } });
-    if (!dataset) throw new ApiError('conflict', `The dataset this run used ("${inputs.dataset.name}", id ${inputs.dataset.id}) has been deleted.`);
+    if (!dataset)
+      throw new ApiError(
+        'conflict',
+        `The dataset this run used ("${inputs.dataset.name}", id ${inputs.dataset.id}) has been deleted.`,
+      );
     return {
       source: {
         kind: 'file',
@@ -316,11 +411,16 @@ async function snapshotSource(run: EstimateRun, inputs: RunInputs): Promise<{ so
   }
   if (inputs.snapshotSet) {
     const ref = inputs.snapshotSet;
-    return { source: { kind: 'raw', path: resolveStoragePath(ref.path), rows: ref.rows, cols: ref.cols, sha256: ref.sha256 } };
+    return {
+      source: { kind: 'raw', path: resolveStoragePath(ref.path), rows: ref.rows, cols: ref.cols, sha256: ref.sha256 },
+    };
   }
   // Runs stored before snapshot sets (or imported from a bundle) carry their matrix inline.
   const rows = inlineRows(inputs.request.snapshots!);
-  return { source: { kind: 'matrix', ...rows }, transferList: [rows.re.buffer as ArrayBuffer, rows.im.buffer as ArrayBuffer] };
+  return {
+    source: { kind: 'matrix', ...rows },
+    transferList: [rows.re.buffer as ArrayBuffer, rows.im.buffer as ArrayBuffer],
+  };
 }
 
 /**
@@ -343,7 +443,11 @@ registerJobKind<void>({
       methods: inputs.methods,
       options: inputs.options,
     };
-    const { results } = await runCompute('estimate', input, { signal, onProgress: setProgress, ...(transferList ? { transferList } : {}) });
+    const { results } = await runCompute('estimate', input, {
+      signal,
+      onProgress: setProgress,
+      ...(transferList ? { transferList } : {}),
+    });
     // Result and status in one write (onState skips 'done'); a crash before the job row says done re-runs it to the same answer.
     await EstimateRun.update(
       { result: { results } as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
@@ -375,9 +479,18 @@ export async function cancelEstimate({ caller, id }: { caller: Caller; id: numbe
   const stopped = job ? await cancelJob(job.id, `Stopped by ${caller.name} before it finished.`) : false;
   if (!stopped) {
     const now = await EstimateRun.findByPk(id);
-    throw new ApiError('conflict', `Run ${id} is ${now?.status ?? run.status}; only a queued or running run can be stopped.`);
+    throw new ApiError(
+      'conflict',
+      `Run ${id} is ${now?.status ?? run.status}; only a queued or running run can be stopped.`,
+    );
   }
-  await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'estimate.cancelled', target: String(id), detail: { id } });
+  await recordAudit({
+    teamId: caller.teamId,
+    userId: caller.id,
+    action: 'estimate.cancelled',
+    target: String(id),
+    detail: { id },
+  });
   return getEstimateRun({ caller, id });
 }
 
@@ -390,10 +503,23 @@ export async function getEstimateRun({ caller, id }: { caller: Caller; id: numbe
   return toDto(run, creator);
 }
 
-export async function listEstimateRuns({ caller, limit = 50 }: { caller: Caller; limit?: number }): Promise<EstimateRunListItem[]> {
+export async function listEstimateRuns({
+  caller,
+  limit = 50,
+}: {
+  caller: Caller;
+  limit?: number;
+}): Promise<EstimateRunListItem[]> {
   assertPermission(caller, 'datasets.read');
   await getDb();
-  const runs = await EstimateRun.findAll({ where: { teamId: caller.teamId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit });
+  const runs = await EstimateRun.findAll({
+    where: { teamId: caller.teamId },
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit,
+  });
   return runs.map((run) => {
     const inputs = run.inputs as unknown as RunInputs;
     const results = ((run.result ?? {}) as { results?: MethodResult[] }).results ?? [];
@@ -406,7 +532,9 @@ export async function listEstimateRuns({ caller, limit = 50 }: { caller: Caller;
       softwareVersion: run.softwareVersion,
       methods: inputs.methods ?? [],
       datasetName: inputs.dataset?.name ?? null,
-      arrayLabel: inputs.array?.name ? `${inputs.array.name} r${inputs.array.revision}` : `${inputs.array?.elements} × ${inputs.array?.spacingWavelengths} λ`,
+      arrayLabel: inputs.array?.name
+        ? `${inputs.array.name} r${inputs.array.revision}`
+        : `${inputs.array?.elements} × ${inputs.array?.spacingWavelengths} λ`,
       bearingsDeg: Object.fromEntries(results.map((r) => [r.method, r.bearingsDeg])),
     };
   });
@@ -418,26 +546,57 @@ export async function listEstimateRuns({ caller, limit = 50 }: { caller: Caller;
  * again; 409 if the file changed or the dataset is gone) and options; then
  * compares the bearings method by method.
  */
-export async function rerunEstimate({ caller, id, wait }: { caller: Caller; id: number; wait: boolean }): Promise<{ run: EstimateRunDto; rerunOf: number; comparison: RerunComparison[] | null; softwareVersionThen: string }> {
+export async function rerunEstimate({
+  caller,
+  id,
+  wait,
+}: {
+  caller: Caller;
+  id: number;
+  wait: boolean;
+}): Promise<{
+  run: EstimateRunDto;
+  rerunOf: number;
+  comparison: RerunComparison[] | null;
+  softwareVersionThen: string;
+}> {
   assertPermission(caller, 'estimates.run');
   const old = await getEstimateRun({ caller, id });
   const inputs = old.inputs;
   if (inputs.dataset) {
     const dataset = await Dataset.findOne({ where: { id: inputs.dataset.id, teamId: caller.teamId } });
-    if (!dataset) throw new ApiError('conflict', `The dataset this run used ("${inputs.dataset.name}", id ${inputs.dataset.id}) has been deleted; the run cannot be repeated.`);
+    if (!dataset)
+      throw new ApiError(
+        'conflict',
+        `The dataset this run used ("${inputs.dataset.name}", id ${inputs.dataset.id}) has been deleted; the run cannot be repeated.`,
+      );
     const digest = await sha256File(resolveStoragePath(dataset.storagePath)).catch(() => null);
     if (digest !== inputs.dataset.sha256) {
-      throw new ApiError('conflict', `The stored file of dataset "${dataset.name}" no longer has the SHA-256 the run used (${inputs.dataset.sha256.slice(0, 12)}…); the run cannot be repeated exactly.`);
+      throw new ApiError(
+        'conflict',
+        `The stored file of dataset "${dataset.name}" no longer has the SHA-256 the run used (${inputs.dataset.sha256.slice(0, 12)}…); the run cannot be repeated exactly.`,
+      );
     }
   }
   const request: EstimateRequest = { ...inputs.request };
   if (inputs.snapshotSet) {
     const matrix = await readSnapshotSet(inputs.snapshotSet);
-    if (!matrix) throw new ApiError('conflict', `The stored snapshots of run ${id} (SHA-256 ${inputs.snapshotSet.sha256.slice(0, 12)}…) are missing or changed; the run cannot be repeated exactly.`);
+    if (!matrix)
+      throw new ApiError(
+        'conflict',
+        `The stored snapshots of run ${id} (SHA-256 ${inputs.snapshotSet.sha256.slice(0, 12)}…) are missing or changed; the run cannot be repeated exactly.`,
+      );
     request.snapshots = nestedSnapshots(matrix);
   }
-  if (inputs.array.arrayRevisionId === undefined) request.array = { elements: inputs.array.elements, spacingWavelengths: inputs.array.spacingWavelengths };
-  const run = await submitEstimate({ caller, input: request, wait, pinnedRevisionId: inputs.array.arrayRevisionId, rerunOf: id });
+  if (inputs.array.arrayRevisionId === undefined)
+    request.array = { elements: inputs.array.elements, spacingWavelengths: inputs.array.spacingWavelengths };
+  const run = await submitEstimate({
+    caller,
+    input: request,
+    wait,
+    pinnedRevisionId: inputs.array.arrayRevisionId,
+    rerunOf: id,
+  });
   const comparison = run.status === 'done' && old.status === 'done' ? compareRuns(old.results, run.results) : null;
   return { run, rerunOf: id, comparison, softwareVersionThen: old.softwareVersion };
 }

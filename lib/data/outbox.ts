@@ -15,16 +15,26 @@ import { toOutboxDto, type OutboxDto } from './dto';
 export async function listOutbox({ caller, limit = 200 }: { caller: Caller; limit?: number }): Promise<OutboxDto[]> {
   assertPermission(caller, 'outbox.read');
   await getDb();
-  const rows = await OutboxMessage.findAll({ order: [['receivedAt', 'DESC'], ['id', 'DESC']], limit: 2000 });
+  const rows = await OutboxMessage.findAll({
+    order: [
+      ['receivedAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit: 2000,
+  });
   const visible = await teamAddresses(caller.teamId);
-  return rows.filter((m) => addressedTo(m.to, visible)).slice(0, limit).map(toOutboxDto);
+  return rows
+    .filter((m) => addressedTo(m.to, visible))
+    .slice(0, limit)
+    .map(toOutboxDto);
 }
 
 export async function getOutboxMessage({ caller, id }: { caller: Caller; id: number }): Promise<OutboxDto> {
   assertPermission(caller, 'outbox.read');
   await getDb();
   const m = await OutboxMessage.findByPk(id);
-  if (!m || !addressedTo(m.to, await teamAddresses(caller.teamId))) throw new ApiError('not_found', `No message with id ${id} in your team's outbox.`);
+  if (!m || !addressedTo(m.to, await teamAddresses(caller.teamId)))
+    throw new ApiError('not_found', `No message with id ${id} in your team's outbox.`);
   return toOutboxDto(m);
 }
 

@@ -44,7 +44,8 @@ export function createPlan({ caller, input }: { caller: Caller; input: PlanReque
   } catch (err) {
     if (err instanceof PlanInfeasibleError)
       throw new ApiError('validation_failed', err.message, { fields: err.fields });
-    if (err instanceof DoaInputError) throw new ApiError('validation_failed', err.message, { fields: { _: [err.message] } });
+    if (err instanceof DoaInputError)
+      throw new ApiError('validation_failed', err.message, { fields: { _: [err.message] } });
     throw err;
   }
 }

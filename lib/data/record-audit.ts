@@ -4,7 +4,19 @@ import { AuditEvent } from '@/models';
 import { getDb } from '../db';
 
 export async function recordAudit(
-  { teamId, userId, action, target, detail }: { teamId: number; userId: number | null; action: string; target?: string | null; detail?: Record<string, unknown> | null },
+  {
+    teamId,
+    userId,
+    action,
+    target,
+    detail,
+  }: {
+    teamId: number;
+    userId: number | null;
+    action: string;
+    target?: string | null;
+    detail?: Record<string, unknown> | null;
+  },
   transaction?: Transaction,
 ): Promise<void> {
   await getDb();

@@ -6,7 +6,13 @@ import { recordAudit } from './record-audit';
 import { getDb } from '../db';
 import { cancelJob, enqueueJob, latestJob, registerJobKind, waitForJob } from '../jobs';
 import { runCompute } from '../jobs/pool';
-import { StudyBudgetError, StudyInputError, validateStudySpec, type StudyResult, type StudySpec } from '../studies/monte-carlo';
+import {
+  StudyBudgetError,
+  StudyInputError,
+  validateStudySpec,
+  type StudyResult,
+  type StudySpec,
+} from '../studies/monte-carlo';
 import type { StudyRequest } from '../validations/study';
 import { findTeamArrayRevision } from './datasets';
 import { SOFTWARE_VERSION } from '../version';
@@ -19,7 +25,14 @@ import { SOFTWARE_VERSION } from '../version';
 export interface StudyInputs {
   request: StudyRequest;
   spec: StudySpec;
-  array: { elements: number; spacingWavelengths: number; arrayId?: number; arrayRevisionId?: number; revision?: number; name?: string };
+  array: {
+    elements: number;
+    spacingWavelengths: number;
+    arrayId?: number;
+    arrayRevisionId?: number;
+    revision?: number;
+    name?: string;
+  };
 }
 
 export interface StudyDto {
@@ -67,10 +80,16 @@ function toDto(study: Study, creator: User | null): StudyDto {
 /** Turns the pure module's refusals into 422 bodies naming the field. */
 export function studyErrorToApi(err: unknown): unknown {
   if (err instanceof StudyInputError) {
-    const field = err.field === 'elements' || err.field === 'spacingWavelengths' ? `array.${err.field}` : ['bearingsDeg', 'powersDb', 'correlation'].includes(err.field) ? `sources.${err.field}` : err.field;
+    const field =
+      err.field === 'elements' || err.field === 'spacingWavelengths'
+        ? `array.${err.field}`
+        : ['bearingsDeg', 'powersDb', 'correlation'].includes(err.field)
+          ? `sources.${err.field}`
+          : err.field;
     return new ApiError('validation_failed', `${field}: ${err.message}`, { fields: { [field]: [err.message] } });
   }
-  if (err instanceof StudyBudgetError) return new ApiError('validation_failed', err.message, { fields: { trials: [err.message] } });
+  if (err instanceof StudyBudgetError)
+    return new ApiError('validation_failed', err.message, { fields: { trials: [err.message] } });
   return err;
 }
 
@@ -97,7 +116,13 @@ export function specOf(input: StudyRequest, array: { elements: number; spacingWa
  * the study), stores the study as queued and puts it on the job queue.
  * Returns the stored study at once, and the job's promise for callers that wait (the seed).
  */
-export async function createStudy({ caller, input }: { caller: Caller; input: StudyRequest }): Promise<{ study: StudyDto; done: Promise<void> }> {
+export async function createStudy({
+  caller,
+  input,
+}: {
+  caller: Caller;
+  input: StudyRequest;
+}): Promise<{ study: StudyDto; done: Promise<void> }> {
   assertPermission(caller, 'studies.run');
   const db = await getDb();
   let array: StudyInputs['array'];
@@ -106,11 +131,22 @@ export async function createStudy({ caller, input }: { caller: Caller; input: St
     const states = (found.revision.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
     const disabled = Array.isArray(states) ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : [])) : [];
     if (disabled.length) {
-      throw new ApiError('validation_failed', `Array "${found.array.name}" (revision ${found.revision.revision}) has disabled element(s) ${disabled.join(', ')}; studies simulate a full uniform line. Enable them or give array {elements, spacingWavelengths}.`, {
-        fields: { arrayId: [`elements ${disabled.join(', ')} are disabled`] },
-      });
+      throw new ApiError(
+        'validation_failed',
+        `Array "${found.array.name}" (revision ${found.revision.revision}) has disabled element(s) ${disabled.join(', ')}; studies simulate a full uniform line. Enable them or give array {elements, spacingWavelengths}.`,
+        {
+          fields: { arrayId: [`elements ${disabled.join(', ')} are disabled`] },
+        },
+      );
     }
-    array = { elements: found.revision.elements, spacingWavelengths: found.revision.spacingWavelengths, arrayId: found.array.id, arrayRevisionId: found.revision.id, revision: found.revision.revision, name: found.array.name };
+    array = {
+      elements: found.revision.elements,
+      spacingWavelengths: found.revision.spacingWavelengths,
+      arrayId: found.array.id,
+      arrayRevisionId: found.revision.id,
+      revision: found.revision.revision,
+      name: found.array.name,
+    };
   } else {
     array = { elements: input.array!.elements, spacingWavelengths: input.array!.spacingWavelengths };
   }
@@ -134,8 +170,23 @@ export async function createStudy({ caller, input }: { caller: Caller; input: St
       },
       { transaction },
     );
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.started', target: input.name, detail: { id: created.id } }, transaction);
-    const queued = await enqueueJob({ kind: STUDY_JOB, inputRef: String(created.id), teamId: caller.teamId, ownerId: caller.id, transaction });
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: 'study.started',
+        target: input.name,
+        detail: { id: created.id },
+      },
+      transaction,
+    );
+    const queued = await enqueueJob({
+      kind: STUDY_JOB,
+      inputRef: String(created.id),
+      teamId: caller.teamId,
+      ownerId: caller.id,
+      transaction,
+    });
     return { study: created, job: queued };
   });
   const done = waitForJob(job.id).then(() => undefined);
@@ -156,7 +207,10 @@ registerJobKind<void>({
     if (!study) return;
     const { spec } = study.inputs as unknown as StudyInputs;
     const result = await runCompute('study', spec, { signal, onProgress: setProgress });
-    await Study.update({ result: result as unknown as Record<string, unknown>, error: null }, { where: { id: study.id } });
+    await Study.update(
+      { result: result as unknown as Record<string, unknown>, error: null },
+      { where: { id: study.id } },
+    );
   },
   async onState({ inputRef, status, progress, error }) {
     await Study.update({ status, progress, error }, { where: { id: Number(inputRef) } });
@@ -183,14 +237,23 @@ export async function getStudy({ caller, id }: { caller: Caller; id: number }): 
   return toDto(study, creator);
 }
 
-export async function listStudies({ caller, limit = 100 }: { caller: Caller; limit?: number }): Promise<StudyListItem[]> {
+export async function listStudies({
+  caller,
+  limit = 100,
+}: {
+  caller: Caller;
+  limit?: number;
+}): Promise<StudyListItem[]> {
   assertPermission(caller, 'arrays.read');
   await getDb();
   const studies = await Study.findAll({
     where: { teamId: caller.teamId },
     attributes: { exclude: ['result'] },
     include: [{ model: User, as: 'createdBy', attributes: ['id', 'name'] }],
-    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
     limit,
   });
   return studies.map((s) => {
@@ -211,7 +274,9 @@ export async function listStudies({ caller, limit = 100 }: { caller: Caller; lim
       values: inputs.spec.sweep.values,
       methods: inputs.spec.methods,
       trials: inputs.spec.trials,
-      arrayLabel: inputs.array.name ? `${inputs.array.name} r${inputs.array.revision}` : `${inputs.array.elements} × ${inputs.array.spacingWavelengths} λ`,
+      arrayLabel: inputs.array.name
+        ? `${inputs.array.name} r${inputs.array.revision}`
+        : `${inputs.array.elements} × ${inputs.array.spacingWavelengths} λ`,
     };
   });
 }
@@ -225,7 +290,10 @@ export async function deleteStudy({ caller, id }: { caller: Caller; id: number }
   const db = await getDb();
   await db.transaction(async (transaction) => {
     await study.destroy({ transaction });
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.deleted', target: study.name, detail: { id } }, transaction);
+    await recordAudit(
+      { teamId: caller.teamId, userId: caller.id, action: 'study.deleted', target: study.name, detail: { id } },
+      transaction,
+    );
   });
 }
 
@@ -237,8 +305,17 @@ export async function cancelStudy({ caller, id }: { caller: Caller; id: number }
   const stopped = job ? await cancelJob(job.id, `Stopped by ${caller.name} before it finished.`) : false;
   if (!stopped) {
     const now = await Study.findByPk(id);
-    throw new ApiError('conflict', `Study ${id} is ${now?.status ?? study.status}; only a queued or running study can be stopped.`);
+    throw new ApiError(
+      'conflict',
+      `Study ${id} is ${now?.status ?? study.status}; only a queued or running study can be stopped.`,
+    );
   }
-  await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'study.cancelled', target: study.name, detail: { id } });
+  await recordAudit({
+    teamId: caller.teamId,
+    userId: caller.id,
+    action: 'study.cancelled',
+    target: study.name,
+    detail: { id },
+  });
   return getStudy({ caller, id });
 }

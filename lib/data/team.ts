@@ -24,9 +24,19 @@ export async function updateTeam({ caller, input }: { caller: Caller; input: Tea
     if (!team) throw new ApiError('not_found', 'Your team no longer exists.');
     const before = toTeamDto(team);
     if (input.name !== undefined) team.name = input.name;
-    if (input.allowViewerDatasetExport !== undefined) team.settings = { ...team.settings, allowViewerDatasetExport: input.allowViewerDatasetExport };
+    if (input.allowViewerDatasetExport !== undefined)
+      team.settings = { ...team.settings, allowViewerDatasetExport: input.allowViewerDatasetExport };
     await team.save({ transaction });
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'team.updated', target: team.name, detail: { before: { name: before.name, ...before.settings }, after: { name: team.name, ...team.settings } } }, transaction);
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: 'team.updated',
+        target: team.name,
+        detail: { before: { name: before.name, ...before.settings }, after: { name: team.name, ...team.settings } },
+      },
+      transaction,
+    );
     return toTeamDto(team);
   });
 }
@@ -42,7 +52,15 @@ async function adminCount(teamId: number, transaction: import('sequelize').Trans
   return User.count({ where: { teamId, role: 'admin' }, transaction });
 }
 
-export async function updateMemberRole({ caller, id, role }: { caller: Caller; id: number; role: Role }): Promise<MemberDto> {
+export async function updateMemberRole({
+  caller,
+  id,
+  role,
+}: {
+  caller: Caller;
+  id: number;
+  role: Role;
+}): Promise<MemberDto> {
   assertPermission(caller, 'team.manage');
   const db = await getDb();
   return db.transaction(async (transaction) => {
@@ -54,7 +72,16 @@ export async function updateMemberRole({ caller, id, role }: { caller: Caller; i
     const from = member.role;
     member.role = role;
     await member.save({ transaction });
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'member.role_changed', target: member.email, detail: { from, to: role } }, transaction);
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: 'member.role_changed',
+        target: member.email,
+        detail: { from, to: role },
+      },
+      transaction,
+    );
     return toMemberDto(member);
   });
 }
@@ -69,7 +96,16 @@ export async function removeMember({ caller, id }: { caller: Caller; id: number 
     if (member.role === 'admin' && (await adminCount(caller.teamId, transaction)) <= 1) {
       throw new ApiError('conflict', 'A team needs at least one admin.');
     }
-    await recordAudit({ teamId: caller.teamId, userId: caller.id, action: 'member.removed', target: member.email, detail: { role: member.role } }, transaction);
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: 'member.removed',
+        target: member.email,
+        detail: { role: member.role },
+      },
+      transaction,
+    );
     await member.destroy({ transaction });
   });
 }
