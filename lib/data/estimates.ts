@@ -546,15 +546,7 @@ export async function listEstimateRuns({
  * again; 409 if the file changed or the dataset is gone) and options; then
  * compares the bearings method by method.
  */
-export async function rerunEstimate({
-  caller,
-  id,
-  wait,
-}: {
-  caller: Caller;
-  id: number;
-  wait: boolean;
-}): Promise<{
+export async function rerunEstimate({ caller, id, wait }: { caller: Caller; id: number; wait: boolean }): Promise<{
   run: EstimateRunDto;
   rerunOf: number;
   comparison: RerunComparison[] | null;
