@@ -268,6 +268,14 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
                       </td>
                     ))}
                   </tr>
+                  <tr className="border-t border-ink-100 text-xs text-ink-500">
+                    <td className="px-4 py-2">± from</td>
+                    {run.results.map((r) => (
+                      <td key={r.method} className="px-4 py-2" data-testid="uncertainty-basis">
+                        {r.uncertainty?.basis ?? '—'}
+                      </td>
+                    ))}
+                  </tr>
                 </tbody>
               </table>
             </div>
