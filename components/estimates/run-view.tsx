@@ -97,7 +97,12 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
   const router = useRouter();
   const { data, mutate } = useSWR<RunDto>(`/api/v1/estimates/${id}`, fetcher, {
     fallbackData: initial,
-    refreshInterval: (d) => (d && (d.status === 'queued' || d.status === 'running') ? 400 : 0),
+    // SWR's cache is empty until the first fetch (fallbackData is not cached), so fall back to the
+    // server-rendered run; otherwise polling never starts when the first answer equals it.
+    refreshInterval: (d) => {
+      const latest = d ?? initial;
+      return latest.status === 'queued' || latest.status === 'running' ? 400 : 0;
+    },
   });
   const [rerun, setRerun] = useState<{ busy: boolean; error?: string }>({ busy: false });
   const run = data ?? initial;

@@ -109,7 +109,12 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
   // Poll while queued or running; stop once done or failed.
   const { data, mutate } = useSWR<StudyDto>(`/api/v1/studies/${id}`, fetcher, {
     fallbackData: initial,
-    refreshInterval: (latest) => (latest && (latest.status === 'queued' || latest.status === 'running') ? 700 : 0),
+    // SWR's cache is empty until the first fetch (fallbackData is not cached), so fall back to the
+    // server-rendered study; otherwise polling never starts when the first answer equals it.
+    refreshInterval: (d) => {
+      const latest = d ?? initial;
+      return latest.status === 'queued' || latest.status === 'running' ? 700 : 0;
+    },
   });
   const study = data ?? initial;
   const running = study.status === 'queued' || study.status === 'running';
