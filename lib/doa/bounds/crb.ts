@@ -112,15 +112,23 @@ export function checkBoundsInput(input: BoundsInput): Checked {
   return { m, d, theta, powers, noise, n };
 }
 
-/** Gram products of A (steering) and D (its θ-derivative): G = AᴴA, AᴴD, DᴴD. */
-function gramProducts(c: Checked): { g: ComplexMatrix; ad: ComplexMatrix; dd: ComplexMatrix } {
-  const k = c.theta.length;
+/**
+ * Gram products of the ULA steering matrix A (M elements, spacing d wavelengths, bearings θ in
+ * radians) and its θ-derivative D: G = AᴴA, AᴴD and DᴴD, each K × K. Shared by the narrowband
+ * bounds here and the per-bin wideband bound (lib/doa/wideband/crb.ts).
+ */
+export function ulaGramProducts(
+  elements: number,
+  spacingWavelengths: number,
+  thetaRad: ArrayLike<number>,
+): { g: ComplexMatrix; ad: ComplexMatrix; dd: ComplexMatrix } {
+  const k = thetaRad.length;
   const g = zeros(k, k);
   const ad = zeros(k, k);
   const dd = zeros(k, k);
-  const kk = 2 * Math.PI * c.d;
-  const s = Float64Array.from(c.theta, Math.sin);
-  const cs = Float64Array.from(c.theta, Math.cos);
+  const kk = 2 * Math.PI * spacingWavelengths;
+  const s = Float64Array.from(thetaRad, Math.sin);
+  const cs = Float64Array.from(thetaRad, Math.cos);
   // a_mk = e^{jmφ_k}, φ_k = kk·sinθ_k; D_mk = j·kk·cosθ_k·m·a_mk.
   // conj(a_mi)·a_mj = e^{jmΔ}, Δ = φ_j − φ_i, so every product is a weighted sum
   // of e^{jmΔ} with weights 1, m, m².
@@ -133,7 +141,7 @@ function gramProducts(c: Checked): { g: ComplexMatrix; ad: ComplexMatrix; dd: Co
       let s1i = 0;
       let s2r = 0;
       let s2i = 0;
-      for (let m = 0; m < c.m; m++) {
+      for (let m = 0; m < elements; m++) {
         const cr = Math.cos(m * delta);
         const ci = Math.sin(m * delta);
         s0r += cr;
@@ -161,7 +169,7 @@ function gramProducts(c: Checked): { g: ComplexMatrix; ad: ComplexMatrix; dd: Co
 
 export function crbFromChecked(c: Checked, kind: BoundKind): CrbResult {
   const k = c.theta.length;
-  const { g, ad, dd } = gramProducts(c);
+  const { g, ad, dd } = ulaGramProducts(c.m, c.d, c.theta);
   // H = DᴴD − (AᴴD)ᴴ·G⁻¹·AᴴD
   const gInvAd = solve(g, ad);
   const h = zeros(k, k);

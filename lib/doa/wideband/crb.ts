@@ -21,6 +21,7 @@
 import { DoaInputError } from '../errors';
 import { inverse, multiply, solve, zeros, type ComplexMatrix } from '../linalg/complex';
 import { RAD_PER_DEG } from '../angles';
+import { ulaGramProducts } from '../bounds/crb';
 
 /** Stochastic Fisher information (K × K, row-major, 1/rad²) of one bin; null when A is rank-deficient. */
 export function binFisherInformation(
@@ -32,41 +33,7 @@ export function binFisherInformation(
   snapshots: number,
 ): Float64Array | null {
   const k = thetaRad.length;
-  const m = elements;
-  const kk = 2 * Math.PI * spacingWavelengths;
-  const g = zeros(k, k);
-  const ad = zeros(k, k);
-  const dd = zeros(k, k);
-  for (let i = 0; i < k; i++) {
-    for (let j = 0; j < k; j++) {
-      const delta = kk * (Math.sin(thetaRad[j]) - Math.sin(thetaRad[i]));
-      let s0r = 0;
-      let s0i = 0;
-      let s1r = 0;
-      let s1i = 0;
-      let s2r = 0;
-      let s2i = 0;
-      for (let e = 0; e < m; e++) {
-        const cr = Math.cos(e * delta);
-        const ci = Math.sin(e * delta);
-        s0r += cr;
-        s0i += ci;
-        s1r += e * cr;
-        s1i += e * ci;
-        s2r += e * e * cr;
-        s2i += e * e * ci;
-      }
-      const idx = i * k + j;
-      g.re[idx] = s0r;
-      g.im[idx] = s0i;
-      const fj = kk * Math.cos(thetaRad[j]);
-      ad.re[idx] = -fj * s1i;
-      ad.im[idx] = fj * s1r;
-      const fij = kk * kk * Math.cos(thetaRad[i]) * Math.cos(thetaRad[j]);
-      dd.re[idx] = fij * s2r;
-      dd.im[idx] = fij * s2i;
-    }
-  }
+  const { g, ad, dd } = ulaGramProducts(elements, spacingWavelengths, thetaRad);
   let gInvAd: ComplexMatrix;
   let arA: ComplexMatrix;
   try {
