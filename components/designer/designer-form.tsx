@@ -18,7 +18,7 @@ import {
   type ArrayInputRaw,
   type ResolvedGeometry,
 } from '@/lib/validations/array';
-import { normalizeDraft, type DesignerAction, type DesignerDraft } from '@/lib/designer/state';
+import { type DesignerAction, type DesignerDraft } from '@/lib/designer/state';
 import { MediumPanel, NumberField } from './medium-panel';
 import { cn } from '@/lib/client/cn';
 

@@ -27,8 +27,6 @@ const finite = (field: string) =>
       error: `${field} must be a finite number`,
     });
 
-const positive = (field: string) => finite(field).refine((v) => v > 0, { error: `${field} must be greater than 0` });
-
 const temperature = (field: string) =>
   finite(field).refine((v) => v > -273.15 && v <= 1000, { error: `${field} must lie between −273.15 °C and 1000 °C` });
 

@@ -265,7 +265,7 @@ export interface SidelobeResult {
  * period of ψ (a property of the weights alone, as in window tables).
  */
 export function peakSidelobe(options: FigureOptions & { region?: 'visible' | 'full-period' }): SidelobeResult {
-  const { w, d, u0, m } = prepare(options);
+  const { w, d, u0 } = prepare(options);
   const region = options.region ?? 'visible';
   if (region !== 'visible' && region !== 'full-period')
     throw new DoaInputError('bad-option', `region must be 'visible' or 'full-period', got ${String(region)}`);
