@@ -31,7 +31,7 @@ async function main() {
   const { getDb } = await import('../lib/db');
   const { migrateUp } = await import('../lib/db/migrate');
   const { seedDemo } = await import('../lib/demo/seed');
-  const { simulateSnapshots } = await import('../lib/doa/sim/simulate');
+  const { inlineEstimateBody } = await import('./inline-estimate-body');
   const { estimateRequestSchema } = await import('../lib/validations/estimate');
   const { submitEstimate, v1Answer } = await import('../lib/data/estimates');
   const { storeSnapshotSet } = await import('../lib/storage/snapshots');
@@ -50,30 +50,10 @@ async function main() {
     teamId: user.teamId as number,
     via: 'token' as const,
   };
-  const m = 16;
-  const n = 1000;
-  const x = simulateSnapshots({
-    elements: m,
-    spacingWavelengths: 0.5,
-    bearingsDeg: [-12, 20],
-    powers: [10, 10],
-    noisePower: 1,
-    snapshots: n,
-    seed: 2026,
-  });
-  const re: number[][] = [];
-  const im: number[][] = [];
-  for (let s = 0; s < n; s++) {
-    re.push(Array.from({ length: m }, (_, e) => x.re[e * n + s]));
-    im.push(Array.from({ length: m }, (_, e) => x.im[e * n + s]));
-  }
-  const text = JSON.stringify({
-    method: 'esprit-ls',
-    sourceCount: 2,
-    includeSpectrum: false,
-    array: { elements: m, spacingWavelengths: 0.5 },
-    snapshots: { re, im },
-  });
+  const text = inlineEstimateBody();
+  const { re, im } = (JSON.parse(text) as { snapshots: { re: number[][]; im: number[][] } }).snapshots;
+  const n = re.length;
+  const m = re[0].length;
   const t: Record<string, number[]> = {
     parse: [],
     validate: [],

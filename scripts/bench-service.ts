@@ -28,7 +28,7 @@ import os from 'node:os';
 import path from 'node:path';
 import autocannon from 'autocannon';
 import sqlite3 from 'sqlite3';
-import { simulateSnapshots } from '../lib/doa/sim/simulate';
+import { inlineEstimateBody } from './inline-estimate-body';
 
 const args = process.argv.slice(2);
 const flag = (name: string) => args.includes(`--${name}`);
@@ -103,34 +103,6 @@ function count(file: string, sql: string): Promise<number> {
   });
 }
 
-function estimateBody(): string {
-  const m = 16;
-  const n = 1000;
-  const x = simulateSnapshots({
-    elements: m,
-    spacingWavelengths: 0.5,
-    bearingsDeg: [-12, 20],
-    powers: [10, 10],
-    noisePower: 1,
-    snapshots: n,
-    seed: 2026,
-  });
-  // The engine's matrix is M × N; the request is N rows of M.
-  const re: number[][] = [];
-  const im: number[][] = [];
-  for (let s = 0; s < n; s++) {
-    re.push(Array.from({ length: m }, (_, e) => x.re[e * n + s]));
-    im.push(Array.from({ length: m }, (_, e) => x.im[e * n + s]));
-  }
-  return JSON.stringify({
-    method: 'esprit-ls',
-    sourceCount: 2,
-    includeSpectrum: false,
-    array: { elements: m, spacingWavelengths: 0.5 },
-    snapshots: { re, im },
-  });
-}
-
 async function writeCsv(file: string, targetBytes: number, elements: number) {
   const out = fs.createWriteStream(file);
   let bytes = 0;
@@ -200,7 +172,7 @@ async function main() {
       if (i > 600) throw new Error('the server did not start');
       await new Promise((r) => setTimeout(r, 100));
     }
-    const body = estimateBody();
+    const body = inlineEstimateBody();
     const headers = { ...auth, 'content-type': 'application/json' };
     log(`request body ${(body.length / 1e6).toFixed(2)} MB; warming up`);
     for (let i = 0; i < 20; i++) {
