@@ -87,6 +87,25 @@ beforeAll(async () => {
   await userOf('engineer');
 });
 
+/** A tiny inline estimate (3 snapshots of 4 elements, LS-ESPRIT, K = 1) for the Stop and recovery cases. */
+const tinyEstimate = {
+  method: 'esprit-ls',
+  sourceCount: 1,
+  array: { elements: 4, spacingWavelengths: 0.5 },
+  snapshots: {
+    re: [
+      [1, 0, -1, 0],
+      [0, 1, 0, -1],
+      [1, 1, 1, 1],
+    ],
+    im: [
+      [0, 1, 0, -1],
+      [1, 0, -1, 0],
+      [0, 0, 0, 0],
+    ],
+  },
+};
+
 describe('Stop and DELETE of studies', () => {
   it('Stop cancels a running study: its thread is stopped, the row and its job say why, a second Stop is 409', async () => {
     const created = await createStudy(long);
@@ -140,23 +159,7 @@ describe('Stop of estimate runs', () => {
   it('a queued run is cancelled (200), a finished one is 409; roles as for studies', async () => {
     const blocker = await createStudy(long);
     await until('the blocker to run', async () => (await getStudy(blocker.body.id)).body.status === 'running');
-    const body = {
-      method: 'esprit-ls',
-      sourceCount: 1,
-      array: { elements: 4, spacingWavelengths: 0.5 },
-      snapshots: {
-        re: [
-          [1, 0, -1, 0],
-          [0, 1, 0, -1],
-          [1, 1, 1, 1],
-        ],
-        im: [
-          [0, 1, 0, -1],
-          [1, 0, -1, 0],
-          [0, 0, 0, 0],
-        ],
-      },
-    };
+    const body = tinyEstimate;
     const queued = await call(estimates.POST as never, 'POST', '/api/v1/estimates', 'engineer', {}, body, {
       prefer: 'respond-async',
     });
@@ -213,23 +216,7 @@ describe('recovery of jobs whose server died', () => {
   });
 
   it('at the attempt limit the job fails with the reason, shown on the run to its owner', async () => {
-    const body = {
-      method: 'esprit-ls',
-      sourceCount: 1,
-      array: { elements: 4, spacingWavelengths: 0.5 },
-      snapshots: {
-        re: [
-          [1, 0, -1, 0],
-          [0, 1, 0, -1],
-          [1, 1, 1, 1],
-        ],
-        im: [
-          [0, 1, 0, -1],
-          [1, 0, -1, 0],
-          [0, 0, 0, 0],
-        ],
-      },
-    };
+    const body = tinyEstimate;
     const run = await call(estimates.POST as never, 'POST', '/api/v1/estimates', 'engineer', {}, body);
     expect(run.status).toBe(201);
     await killedMidway(run.body.id, 'estimate', 2);
