@@ -13,7 +13,7 @@ import {
   type ComplexMatrix,
   type DoaMethod,
 } from '../doa';
-import { cancelJob, enqueueJob, latestJob, registerJobKind, waitForJob, type JobContext } from '../jobs';
+import { enqueueJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
 import type { MethodResult, RunOptions } from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
 import { runCompute } from '../jobs/pool';
@@ -475,8 +475,7 @@ export async function cancelEstimate({ caller, id }: { caller: Caller; id: numbe
   await getDb();
   const run = await EstimateRun.findOne({ where: { id, teamId: caller.teamId } });
   if (!run) throw new ApiError('not_found', `No estimate run with id ${id} in your team.`);
-  const job = await latestJob(ESTIMATE_JOB, String(id));
-  const stopped = job ? await cancelJob(job.id, `Stopped by ${caller.name} before it finished.`) : false;
+  const stopped = await stopRecordJob(ESTIMATE_JOB, id, caller.name);
   if (!stopped) {
     const now = await EstimateRun.findByPk(id);
     throw new ApiError(

@@ -4,7 +4,7 @@ import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
-import { cancelJob, enqueueJob, latestJob, registerJobKind, waitForJob } from '../jobs';
+import { cancelJob, enqueueJob, latestJob, registerJobKind, stopRecordJob, waitForJob } from '../jobs';
 import { runCompute } from '../jobs/pool';
 import {
   StudyBudgetError,
@@ -301,8 +301,7 @@ export async function deleteStudy({ caller, id }: { caller: Caller; id: number }
 export async function cancelStudy({ caller, id }: { caller: Caller; id: number }): Promise<StudyDto> {
   assertPermission(caller, 'studies.run');
   const study = await findStudy(caller, id);
-  const job = await latestJob(STUDY_JOB, String(id));
-  const stopped = job ? await cancelJob(job.id, `Stopped by ${caller.name} before it finished.`) : false;
+  const stopped = await stopRecordJob(STUDY_JOB, id, caller.name);
   if (!stopped) {
     const now = await Study.findByPk(id);
     throw new ApiError(

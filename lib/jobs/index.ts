@@ -349,6 +349,15 @@ async function heartbeat(job: Job, entry: Running): Promise<void> {
 }
 
 /**
+ * Stops the newest job of one record (the Stop button and the cancel routes): true when a queued or
+ * running job was stopped, false when the record has none left to stop (it already ended).
+ */
+export async function stopRecordJob(kind: string, recordId: number, stoppedBy: string): Promise<boolean> {
+  const job = await latestJob(kind, String(recordId));
+  return job ? cancelJob(job.id, `Stopped by ${stoppedBy} before it finished.`) : false;
+}
+
+/**
  * Cancels a queued or running job: the row becomes `cancelled` with the
  * reason, the kind's row mirrors it, and a running job's signal is aborted.
  * Returns false when the job had already ended (nothing to stop).
