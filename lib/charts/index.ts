@@ -10,4 +10,5 @@ export * from './beam-pattern';
 export * from './separation';
 export * from './dataset';
 export * from './study';
+export * from './bearing-time';
 export * from './interaction';
