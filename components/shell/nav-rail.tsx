@@ -12,6 +12,7 @@ export const mainNav: NavItem[] = [
   { href: '/arrays', label: 'Arrays', hint: 'Design and revisions' },
   { href: '/datasets', label: 'Datasets', hint: 'Snapshot recordings' },
   { href: '/estimates', label: 'Estimates', hint: 'Bearings and bounds' },
+  { href: '/bearing-time-records', label: 'Bearing–time', hint: 'Long recordings and tracks' },
   { href: '/handoff', label: 'Hand-off', hint: 'Bundles, e-mail, sign-off' },
   { href: '/studies', label: 'Studies', hint: 'Monte Carlo accuracy vs the CRB' },
   { href: '/plans', label: 'Planner', hint: 'Elements and snapshots for a target' },

@@ -22,6 +22,7 @@
 import type { CustomSeriesOption, CustomSeriesRenderItem, LineSeriesOption, ScatterSeriesOption } from 'echarts';
 import { baseOption, degreeLabel, type ChartHeading, type ChartOption, valueAxisX, valueAxisY } from './common';
 import { INK } from './palette';
+import type { SpectrumSeriesInput } from './spectrum';
 
 /** The display grid of a record: levelsDb[r][c] at bearing bearingsDeg[c] and time timesS[r]. */
 export interface BearingTimeImage {
@@ -139,7 +140,7 @@ export function levelRange(image: Pick<BearingTimeImage, 'levelsDb'>, dynamicRan
 export function imageToRgba(
   image: Pick<BearingTimeImage, 'levelsDb'>,
   range: LevelRange,
-): { width: number; height: number; data: Uint8ClampedArray } {
+): { width: number; height: number; data: Uint8ClampedArray<ArrayBuffer> } {
   const height = image.levelsDb.length;
   const width = height ? image.levelsDb[0].length : 0;
   const data = new Uint8ClampedArray(width * height * 4);
@@ -324,6 +325,50 @@ export interface BearingTimeOptionInput {
   rowSeconds?: number;
 }
 
+/** The highlight of one block (a dashed band over its time span); none for null or an unknown index. */
+export function selectedBlockSeries(
+  blocks: Pick<BearingTimeBlockInput, 'startS' | 'endS'>[],
+  index: number | null,
+): LineSeriesOption {
+  const sel = index !== null && blocks[index] ? blocks[index] : null;
+  return {
+    type: 'line',
+    id: BTR_IDS.selected,
+    name: 'selected block',
+    data: [],
+    silent: true,
+    z: 5,
+    markArea: {
+      silent: true,
+      itemStyle: { color: 'rgba(255,255,255,0.16)', borderColor: '#ffffff', borderWidth: 1, borderType: 'dashed' },
+      data: sel ? [[{ yAxis: sel.startS }, { yAxis: sel.endS }]] : [],
+    },
+  };
+}
+
+/**
+ * A block's wideband spectrum as the run page's spectrum chart takes it
+ * (lib/charts/spectrum.ts): the record's grid is uniform, so it becomes start and step.
+ */
+export function blockSpectrumSeries(
+  detail: { spectrum: { bearingsDeg: number[]; levelsDb: number[] }; bearingsDeg: number[]; stdDeg: number[] },
+  method: string,
+  label: string,
+): SpectrumSeriesInput {
+  const b = detail.spectrum.bearingsDeg;
+  return {
+    method,
+    label,
+    spectrum: {
+      startDeg: b[0] ?? -90,
+      stepDeg: b.length > 1 ? (b[b.length - 1] - b[0]) / (b.length - 1) : 1,
+      valuesDb: detail.spectrum.levelsDb.map((v) => (Number.isFinite(v) ? v : null)),
+    },
+    bearingsDeg: detail.bearingsDeg,
+    crbStdDeg: detail.stdDeg,
+  };
+}
+
 export const BTR_GRID = { left: 64, right: 118, top: 34, bottom: 70 } as const;
 
 export function bearingTimeOption(input: BearingTimeOptionInput, heading: ChartHeading = {}): ChartOption {
@@ -402,21 +447,7 @@ export function bearingTimeOption(input: BearingTimeOptionInput, heading: ChartH
     } as LineSeriesOption);
   });
 
-  const selected = input.selectedBlock ?? null;
-  const sel = selected !== null && blocks[selected] ? blocks[selected] : null;
-  series.push({
-    type: 'line',
-    id: BTR_IDS.selected,
-    name: 'selected block',
-    data: [],
-    silent: true,
-    z: 5,
-    markArea: {
-      silent: true,
-      itemStyle: { color: 'rgba(255,255,255,0.16)', borderColor: '#ffffff', borderWidth: 1, borderType: 'dashed' },
-      data: sel ? [[{ yAxis: sel.startS }, { yAxis: sel.endS }]] : [],
-    },
-  } as LineSeriesOption);
+  series.push(selectedBlockSeries(blocks, input.selectedBlock ?? null));
 
   const inside = {
     type: 'inside' as const,
