@@ -9,6 +9,7 @@
  */
 import { DatasetError, parseSnapshotFile, type ParseOptions, type SnapshotFormat } from '../datasets';
 import { DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
+import { WidebandInputError } from '../doa/wideband/plan';
 import { summarise, type DatasetSummary } from '../storage/summary';
 import {
   runStudy,
@@ -19,6 +20,7 @@ import {
   type StudySpec,
 } from '../studies/monte-carlo';
 import { runMethod, usedCovariance, type MethodResult, type RunOptions } from './estimate-run';
+import { computeBtrBlocks, type BtrBlocksInput, type BtrBlocksOutput } from './btr-blocks';
 
 /** Where an estimate's snapshots come from. */
 export type SnapshotSource =
@@ -63,6 +65,7 @@ export interface ComputeTasks {
   estimate: { input: EstimateComputeInput; output: { results: MethodResult[] } };
   study: { input: StudySpec; output: StudyResult };
   'dataset.parse': { input: DatasetParseInput; output: DatasetParseOutput };
+  'btr.blocks': { input: BtrBlocksInput; output: BtrBlocksOutput };
 }
 export type ComputeTaskName = keyof ComputeTasks;
 
@@ -154,6 +157,8 @@ export async function compute<K extends ComputeTaskName>(
       return (await runStudy(input as StudySpec, { onProgress: report })) as ComputeTasks[K]['output'];
     case 'dataset.parse':
       return (await computeDatasetParse(input as DatasetParseInput, report)) as ComputeTasks[K]['output'];
+    case 'btr.blocks':
+      return (await computeBtrBlocks(input as BtrBlocksInput, report)) as ComputeTasks[K]['output'];
     default:
       throw new Error(`unknown compute task ${String(task)}`);
   }
@@ -186,6 +191,7 @@ export function encodeError(err: unknown): EncodedError {
       ...(err.location ? { location: err.location } : {}),
     };
   }
+  if (err instanceof WidebandInputError) return { name: 'WidebandInputError', message: err.message, field: err.field };
   if (err instanceof DoaInputError) return { name: 'DoaInputError', message: err.message, code: err.code };
   if (err instanceof DoaNumericalError) return { name: 'DoaNumericalError', message: err.message, code: err.code };
   if (err instanceof StudyInputError) return { name: 'StudyInputError', message: err.message, field: err.field };
@@ -207,6 +213,8 @@ export function decodeError(e: EncodedError): Error {
       );
     case 'DoaInputError':
       return new DoaInputError(e.code as ConstructorParameters<typeof DoaInputError>[0], e.message);
+    case 'WidebandInputError':
+      return new WidebandInputError(e.field ?? 'options', e.message);
     case 'DoaNumericalError':
       return new DoaNumericalError(e.code as ConstructorParameters<typeof DoaNumericalError>[0], e.message);
     case 'StudyInputError':

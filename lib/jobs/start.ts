@@ -6,6 +6,7 @@ import { isSnapshotSetReferenced, snapshotsDir } from '../storage/snapshots';
 import '../data/estimates';
 import '../data/studies';
 import '../data/datasets';
+import { btrFilesDir, isBtrFileReferenced } from '../data/bearing-time-records';
 
 /**
  * Server start (instrumentation.ts): remove what a killed server left in the
@@ -13,7 +14,10 @@ import '../data/datasets';
  * job runner so queued and recovered jobs run without waiting for a request.
  */
 export async function startServerJobs(): Promise<void> {
-  const { removed } = await sweepDataFolder([{ dir: snapshotsDir(), referenced: isSnapshotSetReferenced }]);
+  const { removed } = await sweepDataFolder([
+    { dir: snapshotsDir(), referenced: isSnapshotSetReferenced },
+    { dir: btrFilesDir(), referenced: isBtrFileReferenced },
+  ]);
   if (removed.length) console.log(`[steerwise] removed ${removed.length} leftover file(s) from the data folder`);
   const recovered = await recoverStaleJobs();
   if (recovered.requeued || recovered.failed || recovered.removed) {
