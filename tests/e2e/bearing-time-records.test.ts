@@ -1,0 +1,257 @@
+/**
+ * Bearing–time records in the built app. An engineer opens a finished record
+ * (the seeded demo record when the seed has one, else one made here from a
+ * simulated recording), sees the image and the tracks, points at the image and
+ * reads time, bearing and level, which must be the stored grid's value for that
+ * cell (read back over the API), clicks a block and sees its spectrum and
+ * bearings; then starts a new record through the form on that recording and sees
+ * the progress bar, then the result. A viewer sees records read-only and cannot
+ * start one. Screenshots land in test-results/btr-*.png.
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { DEMO_PASSWORD } from '@/lib/demo/seed';
+import { writeSimulatedWav } from '@/lib/btr/simulated-wav';
+import { browserForFile, csrf, shot, signIn } from './browser';
+
+const { baseUrl, open } = browserForFile();
+
+/** The recording made here when the seed has none: 8 elements 0.25 m apart in water, d = λ/2 at 3 kHz. */
+const LINE = { elements: 8, spacingM: 0.25, propagationSpeedMps: 1500, sampleRate: 8000 };
+const RECORDING_NAME = 'Browser check: two contacts';
+
+type ListItem = { id: number; name: string; status: string; datasetId: number | null };
+
+async function json<T>(page: Page, url: string): Promise<T> {
+  const res = await page.request.get(url);
+  expect(res.status(), url).toBe(200);
+  return (await res.json()) as T;
+}
+
+/** A WAV of two contacts, one crossing the line and one drifting slowly, uploaded as a dataset. */
+async function uploadRecording(page: Page): Promise<number> {
+  const file = path.join(os.tmpdir(), `btr-e2e-${process.pid}.wav`);
+  await writeSimulatedWav(file, {
+    ...LINE,
+    durationS: 90,
+    sources: [
+      {
+        trajectory: [
+          { tS: 0, bearingDeg: -40 },
+          { tS: 90, bearingDeg: 35 },
+        ],
+        rms: 0.06,
+        bandHz: [300, 2800],
+      },
+      {
+        trajectory: [
+          { tS: 0, bearingDeg: 50 },
+          { tS: 90, bearingDeg: 44 },
+        ],
+        rms: 0.04,
+        bandHz: [300, 2800],
+      },
+    ],
+    noiseRms: 0.02,
+    seed: 14,
+  });
+  try {
+    const res = await page.request.post('/api/v1/datasets', {
+      multipart: {
+        file: { name: 'two-contacts.wav', mimeType: 'audio/wav', buffer: fs.readFileSync(file) },
+        name: RECORDING_NAME,
+        frequencyHz: '1500',
+      },
+      headers: { 'x-csrf-token': await csrf(page) },
+    });
+    expect(res.status(), await res.text()).toBe(201);
+    return ((await res.json()) as { id: number }).id;
+  } finally {
+    fs.rmSync(file, { force: true });
+  }
+}
+
+async function waitDone(page: Page, id: number): Promise<void> {
+  for (let i = 0; i < 240; i++) {
+    const r = await json<{ status: string; error: string | null }>(page, `/api/v1/bearing-time-records/${id}`);
+    if (r.status === 'done') return;
+    if (r.status === 'failed' || r.status === 'cancelled') throw new Error(`record ${id}: ${r.status} ${r.error}`);
+    await page.waitForTimeout(500);
+  }
+  throw new Error(`record ${id} did not finish`);
+}
+
+/** The seeded demo record if there is one, else a record of a recording uploaded here. */
+async function finishedRecord(page: Page): Promise<{ id: number; name: string; datasetId: number }> {
+  const { items } = await json<{ items: ListItem[] }>(page, '/api/v1/bearing-time-records');
+  const seeded = items.find((r) => r.status === 'done' && r.datasetId !== null);
+  if (seeded) return { id: seeded.id, name: seeded.name, datasetId: seeded.datasetId! };
+  const datasetId = await uploadRecording(page);
+  const res = await page.request.post('/api/v1/bearing-time-records', {
+    data: {
+      name: 'Browser check: reference record',
+      datasetId,
+      array: { elements: LINE.elements, spacingM: LINE.spacingM },
+      propagationSpeedMps: LINE.propagationSpeedMps,
+      band: { lowHz: 400, highHz: 2800 },
+      blockSeconds: 1,
+      blockOverlap: 0.5,
+      fftLength: 256,
+      method: 'music',
+      sourceCount: 2,
+    },
+    headers: { 'x-csrf-token': await csrf(page) },
+  });
+  expect(res.status(), await res.text()).toBe(202);
+  const { id } = (await res.json()) as { id: number };
+  await waitDone(page, id);
+  return { id, name: 'Browser check: reference record', datasetId };
+}
+
+describe('bearing–time records', () => {
+  it('engineer: the record with readout and block detail, then a new record with progress', async () => {
+    const { context, page } = await open({ width: 1440, height: 1100 });
+    await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
+    const record = await finishedRecord(page);
+
+    await page.goto(`${baseUrl}/bearing-time-records`);
+    await page.getByRole('link', { name: 'Bearing–time', exact: false }).first().waitFor();
+    await page.getByRole('link', { name: record.name }).click();
+    await page.waitForURL(/\/bearing-time-records\/\d+$/);
+    const plot = page.getByTestId('btr-plot');
+    await page.locator('[data-testid="btr-plot"][data-image-ready="true"]').waitFor({ timeout: 30_000 });
+    expect(await plot.locator('svg image').count()).toBe(1);
+
+    const api = await json<{
+      blocks: { bearingsDeg: number[] }[];
+      tracks: { id: number }[];
+      image: { bearingsDeg: number[]; timesS: number[]; levelsDb: number[][] };
+    }>(page, `/api/v1/bearing-time-records/${record.id}`);
+    expect(api.tracks.length).toBeGreaterThan(0);
+    const trackRows = page.getByRole('table', { name: 'Tracks' }).locator('tbody tr');
+    expect(await trackRows.count()).toBe(api.tracks.length);
+    expect(await page.getByRole('list', { name: 'Tracks' }).locator('li').count()).toBe(api.tracks.length);
+    await shot(page, 'btr-record');
+
+    // Point at the middle of the plot: the readout is the stored grid's value for that cell.
+    const box = (await plot.boundingBox())!;
+    const edge = async (name: string) => Number(await plot.getAttribute(`data-plot-${name}`));
+    const [left, right, top, bottom] = [
+      await edge('left'),
+      await edge('right'),
+      await edge('top'),
+      await edge('bottom'),
+    ];
+    const x = box.x + left + 0.37 * (right - left);
+    const y = box.y + top + 0.55 * (bottom - top);
+    await page.mouse.move(x, y);
+    const readout = page.getByTestId('btr-readout');
+    await page.locator('[data-testid="btr-readout"][data-row]:not([data-row=""])').waitFor();
+    const row = Number(await readout.getAttribute('data-row'));
+    const col = Number(await readout.getAttribute('data-col'));
+    const db = Number(await readout.getAttribute('data-db'));
+    expect(api.image.timesS.length).toBeLessThanOrEqual(1600); // shown without further pooling
+    expect(db).toBe(api.image.levelsDb[row][col]);
+    expect(Number(await readout.getAttribute('data-bearing'))).toBe(api.image.bearingsDeg[col]);
+    expect(Number(await readout.getAttribute('data-time'))).toBe(api.image.timesS[row]);
+    const text = await readout.innerText();
+    expect(text).toContain(`θ = ${api.image.bearingsDeg[col].toFixed(2)}°`);
+    expect(text).toContain(`${api.image.levelsDb[row][col].toFixed(2)} dB`);
+    await shot(page, 'btr-readout');
+
+    // Click: that block's spectrum and bearings.
+    const blockIndex = Number(await readout.getAttribute('data-block'));
+    expect(blockIndex).toBeGreaterThanOrEqual(0);
+    await page.mouse.click(x, y);
+    const detail = page.locator(`[data-testid="block-detail"][data-block="${blockIndex}"]`);
+    await detail.waitFor({ timeout: 20_000 });
+    await detail.getByRole('img', { name: `Wideband spectrum of block ${blockIndex + 1}` }).waitFor();
+    expect(await detail.getByTestId('block-bearing').count()).toBe(api.blocks[blockIndex].bearingsDeg.length);
+    const first = api.blocks[blockIndex].bearingsDeg[0];
+    if (first !== undefined)
+      expect(Number(await detail.getByTestId('block-bearing').first().getAttribute('data-bearing'))).toBe(first);
+    await detail.scrollIntoViewIfNeeded();
+    await shot(page, 'btr-block');
+
+    // Zoom in time with the wheel: the time window shrinks.
+    const before = Number(await plot.getAttribute('data-time-to')) - Number(await plot.getAttribute('data-time-from'));
+    await page.mouse.move(x, y);
+    await page.mouse.wheel(0, -600);
+    await page.waitForTimeout(400);
+    const after = Number(await plot.getAttribute('data-time-to')) - Number(await plot.getAttribute('data-time-from'));
+    expect(after).toBeLessThan(before);
+    await page.getByTestId('btr-zoom-reset').click();
+
+    // Exports are links to the export route.
+    for (const f of ['csv', 'json', 'png'])
+      expect(await page.getByTestId(`btr-export-${f}`).getAttribute('href')).toBe(
+        `/api/v1/bearing-time-records/${record.id}/export?format=${f}`,
+      );
+
+    // A new record through the form on the same recording: progress, then the result.
+    await page.goto(`${baseUrl}/bearing-time-records/new?dataset=${record.datasetId}`);
+    await page.getByTestId('btr-form').waitFor();
+    await page.locator('#btr-name').fill('Browser check: new record');
+    const recording = await json<{ elements: number }>(page, `/api/v1/datasets/${record.datasetId}`);
+    await page.locator('#btr-array').selectOption('inline');
+    await page.locator('#btr-elements').fill(String(recording.elements));
+    await page.locator('#btr-spacing').fill(String(LINE.spacingM));
+    await page.locator('#btr-speed').fill(String(LINE.propagationSpeedMps));
+    await page.locator('#btr-low').fill('400');
+    await page.locator('#btr-high').fill('2800');
+    await page.locator('#btr-block').fill('0.5');
+    await page.locator('#btr-overlap').fill('75');
+    await page.locator('#btr-fft').selectOption('256');
+    await shot(page, 'btr-form');
+    await page.getByTestId('btr-submit').click();
+    await page.waitForURL(/\/bearing-time-records\/\d+$/, { timeout: 30_000 });
+    await page.getByRole('progressbar', { name: 'Record progress' }).waitFor({ timeout: 20_000 });
+    await shot(page, 'btr-progress');
+    await page.locator('[data-testid="btr-plot"][data-image-ready="true"]').waitFor({ timeout: 180_000 });
+    expect(await page.getByRole('progressbar', { name: 'Record progress' }).count()).toBe(0);
+    await shot(page, 'btr-new-result');
+    await context.close();
+  }, 400_000);
+
+  it('a bad band is shown under its field and nothing starts', async () => {
+    const { context, page } = await open();
+    await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
+    await page.goto(`${baseUrl}/bearing-time-records/new`);
+    await page.getByTestId('btr-form').waitFor();
+    const before = (await json<{ items: unknown[] }>(page, '/api/v1/bearing-time-records')).items.length;
+    await page.locator('#btr-low').fill('2000');
+    await page.locator('#btr-high').fill('1000');
+    await page.getByTestId('btr-submit').click();
+    await page.locator('#btr-high-error').waitFor();
+    expect(await page.locator('#btr-high-error').innerText()).toMatch(/band\.highHz must be above band\.lowHz/);
+    expect(page.url()).toMatch(/\/bearing-time-records\/new$/);
+    expect((await json<{ items: unknown[] }>(page, '/api/v1/bearing-time-records')).items.length).toBe(before);
+    await context.close();
+  }, 120_000);
+
+  it('viewer: reads records, cannot start or delete one', async () => {
+    const { context, page } = await open();
+    await signIn(page, 'viewer@steerwise.test', DEMO_PASSWORD);
+    await page.goto(`${baseUrl}/bearing-time-records`);
+    await page.getByText('Your role (viewer) can read records').waitFor();
+    expect(await page.getByTestId('btr-new').count()).toBe(0);
+    const { items } = await json<{ items: ListItem[] }>(page, '/api/v1/bearing-time-records');
+    const done = items.find((r) => r.status === 'done');
+    expect(done).toBeDefined();
+    await page.getByRole('link', { name: done!.name }).first().click();
+    await page.locator('[data-testid="btr-plot"][data-image-ready="true"]').waitFor({ timeout: 30_000 });
+    expect(await page.getByRole('button', { name: 'Delete' }).count()).toBe(0);
+    await shot(page, 'btr-viewer');
+    await page.goto(`${baseUrl}/bearing-time-records/new`);
+    await page.getByText(/Your role \(viewer\) cannot run estimates/).waitFor();
+    const refused = await page.request.post('/api/v1/bearing-time-records', {
+      data: { datasetId: 1, array: { elements: 8, spacingWavelengths: 0.5 }, band: { lowHz: 100, highHz: 200 } },
+      headers: { 'x-csrf-token': await csrf(page) },
+    });
+    expect(refused.status()).toBe(403);
+    await context.close();
+  }, 120_000);
+});
