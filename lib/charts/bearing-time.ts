@@ -325,24 +325,34 @@ export interface BearingTimeOptionInput {
   rowSeconds?: number;
 }
 
-/** The highlight of one block (a dashed band over its time span); none for null or an unknown index. */
+/** The highlight of one block (a dashed band across the plot over its time span); none for null or an unknown index. */
 export function selectedBlockSeries(
   blocks: Pick<BearingTimeBlockInput, 'startS' | 'endS'>[],
   index: number | null,
-): LineSeriesOption {
+): CustomSeriesOption {
   const sel = index !== null && blocks[index] ? blocks[index] : null;
+  const renderBand: CustomSeriesRenderItem = (params, api) => {
+    const grid = params.coordSys as unknown as { x: number; width: number };
+    const y0 = api.coord([0, Number(api.value(1))])[1];
+    const y1 = api.coord([0, Number(api.value(2))])[1];
+    return {
+      type: 'rect',
+      shape: { x: grid.x, y: Math.min(y0, y1), width: grid.width, height: Math.max(1, Math.abs(y1 - y0)) },
+      style: { fill: 'rgba(255,255,255,0.18)', stroke: '#ffffff', lineWidth: 1.2, lineDash: [5, 3] },
+      silent: true,
+    } as ReturnType<CustomSeriesRenderItem>;
+  };
   return {
-    type: 'line',
+    type: 'custom',
     id: BTR_IDS.selected,
     name: 'selected block',
-    data: [],
+    renderItem: renderBand,
+    data: sel ? [[0, sel.startS, sel.endS]] : [],
+    encode: { x: 0, y: [1, 2] },
+    clip: true,
     silent: true,
     z: 5,
-    markArea: {
-      silent: true,
-      itemStyle: { color: 'rgba(255,255,255,0.16)', borderColor: '#ffffff', borderWidth: 1, borderType: 'dashed' },
-      data: sel ? [[{ yAxis: sel.startS }, { yAxis: sel.endS }]] : [],
-    },
+    tooltip: { show: false },
   };
 }
 

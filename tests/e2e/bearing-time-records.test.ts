@@ -177,8 +177,10 @@ describe('bearing–time records', () => {
     await shot(page, 'btr-block');
 
     // Zoom in time with the wheel: the time window shrinks.
+    await plot.scrollIntoViewIfNeeded();
+    const at = (await plot.boundingBox())!;
     const before = Number(await plot.getAttribute('data-time-to')) - Number(await plot.getAttribute('data-time-from'));
-    await page.mouse.move(x, y);
+    await page.mouse.move(at.x + left + 0.5 * (right - left), at.y + top + 0.5 * (bottom - top));
     await page.mouse.wheel(0, -600);
     await page.waitForTimeout(400);
     const after = Number(await plot.getAttribute('data-time-to')) - Number(await plot.getAttribute('data-time-from'));

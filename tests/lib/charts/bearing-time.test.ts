@@ -13,6 +13,7 @@ import {
   levelAt,
   levelRange,
   lightnessOf,
+  selectedBlockSeries,
   type BearingTimeImage,
 } from '@/lib/charts/bearing-time';
 import { renderChartSvg } from '@/lib/charts/ssr';
@@ -239,6 +240,16 @@ describe('option', () => {
     expect(images[0]).toMatch(/transform="matrix\(/);
     expect(svg).toContain('0 dB');
     expect(svg).toContain('-30 dB');
+  });
+
+  it('highlights the selected block over its time span, and nothing without one', () => {
+    const sel = selectedBlockSeries(blocks, 3);
+    expect(sel.id).toBe(BTR_IDS.selected);
+    expect(sel.data).toEqual([[0, blocks[3].startS, blocks[3].endS]]);
+    expect(selectedBlockSeries(blocks, null).data).toEqual([]);
+    expect(selectedBlockSeries(blocks, 999).data).toEqual([]);
+    const svg = renderChartSvg(option, { width: 800, height: 520 });
+    expect(svg).toMatch(/stroke-dasharray="5,3"/);
   });
 
   it('draws no image when there are no pixels yet', () => {
