@@ -16,6 +16,8 @@ import * as byId from '@/app/api/v1/bearing-time-records/[id]/route';
 import * as cancelRoute from '@/app/api/v1/bearing-time-records/[id]/cancel/route';
 import * as blockRoute from '@/app/api/v1/bearing-time-records/[id]/blocks/[index]/route';
 import * as exportRoute from '@/app/api/v1/bearing-time-records/[id]/export/route';
+import { openApiDocument } from '@/lib/http/openapi';
+import { bearingTimeBlockDetailSchema, bearingTimeRecordSchema } from '@/lib/validations/bearing-time-record';
 import { browserHeaders, json, params, req, userOf, type Who } from '../helpers/api';
 import { storeRawDataset, storeSimulatedWav, tinyBtrBody, waitForRecord } from './btr.helpers';
 
@@ -88,6 +90,36 @@ describe('a finished record', () => {
     const peak = image.bearingsDeg[row.indexOf(Math.max(...row))];
     expect(Math.abs(peak - 20)).toBeLessThanOrEqual(1);
     expect(body.summary).toMatchObject({ blockCount: 11, grid: { startDeg: -90, stepDeg: 0.5, count: 361 } });
+    // The answer is the one the OpenAPI document describes.
+    expect(() => bearingTimeRecordSchema.parse(body)).not.toThrow();
+  });
+
+  it('is in the OpenAPI document with the request schema the route parses', () => {
+    const doc = openApiDocument() as unknown as {
+      paths: Record<string, Record<string, unknown>>;
+      components: { schemas: Record<string, { properties?: Record<string, unknown> }> };
+    };
+    for (const p of ['', '/{id}', '/{id}/cancel', '/{id}/blocks/{index}', '/{id}/export'])
+      expect(Object.keys(doc.paths)).toContain(`${BASE}${p}`);
+    expect(Object.keys(doc.paths[BASE]).sort()).toEqual(['get', 'post']);
+    const request = doc.components.schemas.BearingTimeRecordRequest.properties!;
+    for (const field of [
+      'datasetId',
+      'arrayId',
+      'array',
+      'propagationSpeedMps',
+      'band',
+      'blockSeconds',
+      'blockOverlap',
+      'fftLength',
+      'hop',
+      'window',
+      'method',
+      'sourceCount',
+      'sourceCountRule',
+      'gratingLobes',
+    ])
+      expect(Object.keys(request)).toContain(field);
   });
 
   it('is listed for every member of the team, not for another team', async () => {
@@ -107,6 +139,7 @@ describe('a finished record', () => {
     expect(res.status).toBe(200);
     const block = await json(res);
     expect(block).toMatchObject({ index: 4, startS: 1, endS: 1.5 });
+    expect(() => bearingTimeBlockDetailSchema.parse(block)).not.toThrow();
     expect(block.spectrum.bearingsDeg).toHaveLength(361);
     const levels = block.spectrum.levelsDb as number[];
     // The average of peak-normalised narrowband spectra (lib/doa/wideband/analyze.ts): its peak is at most 0 dB.
