@@ -1,10 +1,10 @@
 /**
  * The PNG export of a bearing–time record (server side, pure JS with pngjs): the
- * image (bearing across, time down, level as colour), the tracks drawn over it,
+ * image (bearing across, time down, level as colour), the tracks drawn over it in red,
  * axis ticks with labels (bearing in degrees along the top, time in seconds down
  * the left) and a colour bar with its dB scale on the right.
  *
- * Colour scale: the top is the largest level in the record, the bottom 30 dB
+ * Colour scale: the top is the largest level in the record (rounded to 1 dB), the bottom 30 dB
  * below it (DISPLAY_RANGE_DB); lower levels take the bottom colour. The colour
  * map is a sequential dark-blue → teal → yellow ramp (linear interpolation
  * between VIRIDIS_STOPS, an approximation of the viridis map).
@@ -22,6 +22,7 @@ const TOP = 34;
 const RIGHT = 84;
 const BOTTOM = 16;
 const BAR_WIDTH = 16;
+const TRACK: [number, number, number] = [230, 40, 60];
 
 const VIRIDIS_STOPS: [number, number, number][] = [
   [68, 1, 84],
@@ -128,6 +129,7 @@ export function renderBtrPng(input: BtrPngInput): Buffer {
   let hi = -Infinity;
   for (let i = 0; i < levels.length; i++) if (levels[i] > hi) hi = levels[i];
   if (!Number.isFinite(hi)) hi = 0;
+  hi = Math.round(hi);
   const lo = hi - DISPLAY_RANGE_DB;
   const endDeg = grid.startDeg + (grid.count - 1) * grid.stepDeg;
   const spanDeg = endDeg - grid.startDeg || 1;
@@ -147,7 +149,7 @@ export function renderBtrPng(input: BtrPngInput): Buffer {
       canvas.set(LEFT + px, TOP + py, colourOf((best - lo) / (hi - lo)));
     }
   }
-  // Tracks: white points at their filtered bearings.
+  // Tracks: red lines through their filtered bearings.
   const t0 = timesS[0] ?? 0;
   const t1 = timesS[timesS.length - 1] ?? 1;
   const yOf = (t: number) => TOP + Math.round(((t - t0) / (t1 - t0 || 1)) * (plotHeight - 1));
@@ -163,8 +165,8 @@ export function renderBtrPng(input: BtrPngInput): Buffer {
         const f = s / steps;
         const deg = q ? p.bearingDeg + f * (q.bearingDeg - p.bearingDeg) : p.bearingDeg;
         const t = q ? p.tS + f * (q.tS - p.tS) : p.tS;
-        canvas.set(xOf(deg), yOf(t), [255, 255, 255]);
-        canvas.set(xOf(deg) + 1, yOf(t), [255, 255, 255]);
+        canvas.set(xOf(deg), yOf(t), TRACK);
+        canvas.set(xOf(deg) + 1, yOf(t), TRACK);
       }
     }
   }
@@ -178,7 +180,7 @@ export function renderBtrPng(input: BtrPngInput): Buffer {
     canvas.set(LEFT - 1, y, ink);
     canvas.set(LEFT + PLOT_WIDTH, y, ink);
   }
-  const degStep = niceStep(spanDeg, 6);
+  const degStep = spanDeg >= 120 ? 30 : niceStep(spanDeg, 6);
   for (let d = Math.ceil(grid.startDeg / degStep) * degStep; d <= endDeg + 1e-9; d += degStep) {
     const x = xOf(d);
     for (let k = 1; k <= 5; k++) canvas.set(x, TOP - 1 - k, ink);
@@ -201,8 +203,8 @@ export function renderBtrPng(input: BtrPngInput): Buffer {
   for (let db = 0; db <= DISPLAY_RANGE_DB; db += 10) {
     const y = TOP + Math.round((db / DISPLAY_RANGE_DB) * (plotHeight - 1));
     for (let k = 0; k < 4; k++) canvas.set(barX + BAR_WIDTH + k, y, ink);
-    canvas.text(barX + BAR_WIDTH + 6, y - 5, fmt(hi - db));
+    canvas.text(barX + BAR_WIDTH + 6, y - 5, (Math.round(hi) - db).toFixed(0));
   }
-  canvas.text(barX, TOP - 18, 'dB');
+  canvas.text(barX + BAR_WIDTH + 6, TOP - 18, 'dB');
   return PNG.sync.write(canvas.png);
 }

@@ -9,24 +9,25 @@ import { getDb } from '../db';
 import { dataDir, maxUploadBytes } from '../env';
 import { cancelJob, enqueueJob, latestJob, registerJobKind, stopRecordJob, waitForJob } from '../jobs';
 import { poolSize, runCompute } from '../jobs/pool';
-import type { BtrBlocksInput, BtrBlocksOutput } from '../jobs/btr-blocks';
+import type { BtrBlocksInput } from '../jobs/btr-blocks';
 import { DatasetError } from '../datasets/errors';
 import { openTimeSeries, type TimeSeriesFormat } from '../datasets/time-series';
-import {
-  blockCount,
-  decimateImage,
-  defaultMergeDeg,
-  planWideband,
-  trackBearings,
-  WidebandInputError,
-  type BearingTimeBlock,
-  type Track,
-  type WidebandOptions,
-} from '../doa/wideband';
+import { blockCount, planWideband, WidebandInputError, type WidebandOptions } from '../doa/wideband';
 import { BTR_DEFAULTS, type BearingTimeRecordRequest } from '../validations/bearing-time-record';
 import { datasetErrorToApi, findTeamArrayRevision } from './datasets';
 import { resolveStoragePath } from '../storage/files';
 import { SOFTWARE_VERSION } from '../version';
+import {
+  finishRecord,
+  round,
+  type BtrBlockDto,
+  type BtrImageDto,
+  type BtrInputs,
+  type BtrSummary,
+  type BtrTrackDto,
+} from '../btr/result';
+
+export type { BtrBlockDto, BtrImageDto, BtrInputs, BtrSummary, BtrTrackDto } from '../btr/result';
 
 /**
  * Bearing–time records (issue 14; docs/bearing-time-records.md): a stored
@@ -50,72 +51,8 @@ import { SOFTWARE_VERSION } from '../version';
  */
 
 export const BTR_JOB = 'bearing-time-record';
-export const IMAGE_MAX_ROWS = 1024;
-export const IMAGE_MAX_COLS = 721;
 /** Blocks per pool share at least this many, so short records use fewer threads. */
 const MIN_BLOCKS_PER_SHARE = 8;
-
-export interface BtrInputs {
-  request: BearingTimeRecordRequest;
-  options: WidebandOptions;
-  dataset: {
-    id: number;
-    name: string;
-    format: TimeSeriesFormat;
-    originalName: string;
-    storagePath: string;
-    sha256: string;
-    bytes: number;
-  };
-  recording: { sampleRate: number; channels: number; samplesPerChannel: number; durationS: number };
-  array: {
-    elements: number;
-    spacingM: number;
-    arrayId?: number;
-    arrayRevisionId?: number;
-    revision?: number;
-    name?: string;
-  };
-  blockCount: number;
-}
-
-export interface BtrSummary {
-  blockCount: number;
-  grid: { startDeg: number; stepDeg: number; count: number };
-  bins: BtrBlocksOutput['bins'];
-  framesPerBlock: number;
-  crbRedundancy: number;
-  warnings: { code: string; message: string }[];
-  tracks: BtrTrackDto[];
-  mergeDeg: number;
-  elapsedMs: number;
-}
-
-export interface BtrTrackDto {
-  id: number;
-  startS: number;
-  endS: number;
-  start: { tS: number; bearingDeg: number };
-  end: { tS: number; bearingDeg: number };
-  meanRateDegPerS: number;
-  points: { tS: number; bearingDeg: number; measuredDeg: number; blockIndex: number }[];
-}
-
-export interface BtrBlockDto {
-  index: number;
-  startS: number;
-  endS: number;
-  sourceCount: number;
-  bearingsDeg: number[];
-  stdDeg: number[];
-  warnings: string[];
-}
-
-export interface BtrImageDto {
-  bearingsDeg: number[];
-  timesS: number[];
-  levelsDb: number[][];
-}
 
 export interface BtrDto {
   id: number;
@@ -164,11 +101,6 @@ function resultFolder(teamId: number, id: number): { abs: string; rel: string } 
   return { abs: path.join(dataDir(), rel), rel };
 }
 
-const round = (v: number, digits: number) => {
-  const f = 10 ** digits;
-  return Math.round(v * f) / f;
-};
-
 /** Maps the wideband module's option names onto the request's field names. */
 function requestField(field: string, inputs: { arrayGiven: boolean }): string {
   if (field === 'elements') return inputs.arrayGiven ? 'array.elements' : 'arrayId';
@@ -191,25 +123,6 @@ export function btrErrorToApi(err: unknown, arrayGiven = true): unknown {
     });
   }
   return err;
-}
-
-function trackDto(t: Track): BtrTrackDto {
-  const first = t.points[0];
-  const last = t.points[t.points.length - 1];
-  return {
-    id: t.id,
-    startS: t.startS,
-    endS: t.endS,
-    start: { tS: first.tS, bearingDeg: round(first.bearingDeg, 4) },
-    end: { tS: last.tS, bearingDeg: round(last.bearingDeg, 4) },
-    meanRateDegPerS: round(t.meanRateDegPerS, 6),
-    points: t.points.map((p) => ({
-      tS: p.tS,
-      bearingDeg: round(p.bearingDeg, 4),
-      measuredDeg: round(p.measuredDeg, 4),
-      blockIndex: p.blockIndex,
-    })),
-  };
 }
 
 /** The wideband options of a validated request and its resolved array. */
@@ -416,38 +329,6 @@ export function splitBlocks(total: number, parts: number): { first: number; coun
   return out;
 }
 
-async function writeResult(
-  folder: string,
-  blocks: BearingTimeBlock[],
-  levels: Float32Array,
-  grid: BtrSummary['grid'],
-): Promise<void> {
-  await fs.promises.mkdir(folder, { recursive: true });
-  const blockDtos: BtrBlockDto[] = blocks.map((b) => ({
-    index: b.index,
-    startS: b.startS,
-    endS: b.endS,
-    sourceCount: b.sourceCount,
-    bearingsDeg: b.bearingsDeg.map((v) => round(v, 4)),
-    stdDeg: b.stdDeg.map((v) => round(v, 5)),
-    warnings: b.warnings,
-  }));
-  const image = decimateImage(
-    { blocks, image: { ...grid, levelsDb: levels } },
-    IMAGE_MAX_ROWS,
-    Math.min(IMAGE_MAX_COLS, grid.count),
-  );
-  const imageDto: BtrImageDto = {
-    bearingsDeg: image.bearingsDeg.map((v) => round(v, 4)),
-    timesS: image.timesS.map((v) => round(v, 6)),
-    levelsDb: image.levelsDb.map((row) => row.map((v) => (Number.isFinite(v) ? round(v, 2) : -300))),
-  };
-  const bytes = Buffer.from(levels.buffer, levels.byteOffset, levels.byteLength);
-  await fs.promises.writeFile(path.join(folder, 'levels.f32'), bytes);
-  await fs.promises.writeFile(path.join(folder, 'blocks.json'), JSON.stringify(blockDtos));
-  await fs.promises.writeFile(path.join(folder, 'image.json'), JSON.stringify(imageDto));
-}
-
 /**
  * The job kind: the row is its input. The blocks are split into one share per
  * pool thread (blockRange of bearingTimeRecord, each share seeking in the file);
@@ -497,42 +378,8 @@ registerJobKind<void>({
         ),
       ),
     );
-    const blocks = parts.flatMap((p) => p.blocks);
-    const grid = parts[0].grid;
-    const levels = new Float32Array(blocks.length * grid.count);
-    let at = 0;
-    for (const p of parts) {
-      levels.set(p.levelsDb, at);
-      at += p.levelsDb.length;
-    }
-    const plan = planWideband(inputs.options, {
-      sampleRate: inputs.recording.sampleRate,
-      channels: inputs.recording.channels,
-    });
-    const mergeDeg = defaultMergeDeg(plan);
-    const tracks = trackBearings(
-      blocks.map((b) => ({ tS: 0.5 * (b.startS + b.endS), bearingsDeg: b.bearingsDeg, stdDeg: b.stdDeg })),
-      { mergeDeg },
-    );
-    const warnings = parts[0].warnings;
-    const blockWarnings = new Set(blocks.flatMap((b) => b.warnings));
-    for (const code of blockWarnings) {
-      const n = blocks.filter((b) => b.warnings.includes(code)).length;
-      warnings.push({ code, message: `${n} of ${blocks.length} blocks: ${code}` });
-    }
     const folder = resultFolder(row.teamId as number, row.id);
-    await writeResult(folder.abs, blocks, levels, grid);
-    const summary: BtrSummary = {
-      blockCount: blocks.length,
-      grid,
-      bins: parts[0].bins,
-      framesPerBlock: parts[0].framesPerBlock,
-      crbRedundancy: parts[0].crbRedundancy,
-      warnings,
-      tracks: tracks.map(trackDto),
-      mergeDeg,
-      elapsedMs: Date.now() - started,
-    };
+    const summary = await finishRecord({ parts, inputs, folder: folder.abs, started });
     const [updated] = await BearingTimeRecord.update(
       { summary: summary as unknown as Record<string, unknown>, resultPath: folder.rel, error: null },
       { where: { id: row.id } },

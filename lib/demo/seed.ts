@@ -5,6 +5,7 @@ import { hashPassword } from '../auth/passwords';
 import { seedDemoArrays } from './arrays';
 import { seedRecordings } from './recordings';
 import { seedDemoStudy } from './studies';
+import { seedDemoBearingTimeRecord } from './bearing-time';
 import { randomSecret, sha256Hex } from '../auth/secrets';
 
 /**
@@ -137,6 +138,11 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
     await seedDemoArrays({ teamId: team.id, users, transaction });
     await seedRecordings({ teamId: team.id, uploadedById: users['engineer@steerwise.test'] ?? null, transaction });
     await seedDemoStudy({ teamId: team.id, createdById: users['engineer@steerwise.test'] ?? null, transaction });
+    await seedDemoBearingTimeRecord({
+      teamId: team.id,
+      uploadedById: users['engineer@steerwise.test'] ?? null,
+      transaction,
+    });
     return { teamId: team.id, otherTeamId: other.id, users, created: teamCreated };
   });
 }

@@ -8,6 +8,11 @@ import packageJson from '@/package.json';
 import { arrayInputSchema } from '../validations/array';
 import { datasetCreatedSchema, datasetSchema, datasetUploadFormSchema } from '../validations/dataset';
 import { studyRequestSchema } from '../validations/study';
+import {
+  bearingTimeBlockDetailSchema,
+  bearingTimeRecordRequestSchema,
+  bearingTimeRecordSchema,
+} from '../validations/bearing-time-record';
 import { planAnswerSchema, planRequestSchema } from '../validations/plan';
 import { bundleQuerySchema, handoffSendSchema } from '../validations/handoff';
 import { reviewCreateSchema, reviewQuerySchema } from '../validations/review';
@@ -371,6 +376,72 @@ export function openApiDocument() {
           responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
         },
       },
+      '/api/v1/bearing-time-records': {
+        get: {
+          summary: "The team's bearing–time records (without blocks, tracks or image)",
+          responses: { '200': { description: 'OK' }, ...errors(401) },
+        },
+        post: {
+          summary: 'Start a bearing–time record of a stored recording (WAV, or NPY with sampleRate)',
+          description:
+            'Answers 202 {id, status} and runs on the worker pool; poll GET /api/v1/bearing-time-records/{id}. The recording is checked against the array and the options before anything is stored: a mono file, a channel count other than the element count, a band above Nyquist, a block shorter than one FFT frame or longer than the recording, and a truncated file are 422 naming the field.',
+          requestBody: { required: true, content: json('BearingTimeRecordRequest') },
+          responses: { '202': { description: 'Queued: {id, status}' }, ...errors(400, 401, 403, 404, 413, 415, 422) },
+        },
+      },
+      '/api/v1/bearing-time-records/{id}': {
+        parameters: [idParam],
+        get: {
+          summary: 'A record: status, progress, and when done its blocks, tracks and display image',
+          responses: { '200': { description: 'OK', content: json('BearingTimeRecord') }, ...errors(401, 404) },
+        },
+        delete: {
+          summary: 'Delete a record and its result files (a running one is stopped)',
+          responses: { '204': { description: 'Deleted' }, ...errors(401, 403, 404) },
+        },
+      },
+      '/api/v1/bearing-time-records/{id}/cancel': {
+        parameters: [idParam],
+        post: {
+          summary: 'Stop a queued or running record (engineers, admins)',
+          description: 'The body is empty or `{}`. The record becomes `cancelled` with the reason in `error`.',
+          responses: {
+            '200': { description: 'Stopped', content: json('BearingTimeRecord') },
+            ...errors(401, 403, 404, 409, 422),
+          },
+        },
+      },
+      '/api/v1/bearing-time-records/{id}/blocks/{index}': {
+        parameters: [idParam, { name: 'index', in: 'path', required: true, schema: { type: 'integer', minimum: 0 } }],
+        get: {
+          summary: "One block's wideband spectrum (dB on the bearing grid), bearings and ±σ",
+          responses: {
+            '200': { description: 'OK', content: json('BearingTimeBlock') },
+            ...errors(401, 404, 409, 422),
+          },
+        },
+      },
+      '/api/v1/bearing-time-records/{id}/export': {
+        parameters: [
+          idParam,
+          { name: 'format', in: 'query', required: true, schema: { type: 'string', enum: ['csv', 'json', 'png'] } },
+        ],
+        get: {
+          summary:
+            'A finished record as CSV (a row per block bearing with its track), JSON or PNG (image, tracks, colour bar)',
+          responses: {
+            '200': {
+              description: 'The file',
+              content: {
+                'text/csv': { schema: { type: 'string' } },
+                'application/json': { schema: ref('BearingTimeRecord') },
+                'image/png': { schema: { type: 'string', format: 'binary' } },
+              },
+            },
+            ...errors(401, 404, 409, 422),
+          },
+        },
+      },
       '/api/v1/plans': {
         post: {
           summary: 'Plan an array: element count, spacing and snapshots meeting an accuracy (and resolution) target',
@@ -396,6 +467,9 @@ export function openApiDocument() {
         ArrayInput: schema(arrayInputSchema, 'input'),
         Array: schema(arraySchema),
         DatasetUpload: schema(datasetUploadFormSchema, 'input'),
+        BearingTimeRecordRequest: schema(bearingTimeRecordRequestSchema, 'input'),
+        BearingTimeRecord: schema(bearingTimeRecordSchema),
+        BearingTimeBlock: schema(bearingTimeBlockDetailSchema),
         DatasetCreated: schema(datasetCreatedSchema),
         Dataset: schema(datasetSchema),
         EstimateRequest: schema(estimateRequestSchema, 'input'),

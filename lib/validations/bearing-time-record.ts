@@ -158,3 +158,61 @@ export type BearingTimeRecordRequestInput = z.input<typeof bearingTimeRecordRequ
 export const bearingTimeRecordExportSchema = z.object({
   format: z.enum(['csv', 'json', 'png'], { error: 'format must be csv, json or png' }),
 });
+
+// ---- answer schemas (the OpenAPI document) -------------------------------------
+
+const status = z.enum(['queued', 'running', 'done', 'failed', 'cancelled']);
+
+export const bearingTimeBlockSchema = z.object({
+  index: z.int(),
+  startS: z.number(),
+  endS: z.number(),
+  sourceCount: z.int(),
+  bearingsDeg: z.array(z.number()),
+  stdDeg: z.array(z.number()).meta({ description: '±σ per bearing from the wideband CRB, degrees' }),
+  warnings: z.array(z.string()),
+});
+
+const trackEnd = z.object({ tS: z.number(), bearingDeg: z.number() });
+
+export const bearingTimeTrackSchema = z.object({
+  id: z.int(),
+  startS: z.number(),
+  endS: z.number(),
+  start: trackEnd,
+  end: trackEnd,
+  meanRateDegPerS: z.number(),
+  points: z.array(z.object({ tS: z.number(), bearingDeg: z.number(), measuredDeg: z.number(), blockIndex: z.int() })),
+});
+
+export const bearingTimeRecordSchema = z.object({
+  id: z.int(),
+  name: z.string(),
+  status,
+  progress: z.number(),
+  error: z.string().nullable(),
+  datasetId: z.int().nullable(),
+  arrayRevisionId: z.int().nullable(),
+  inputs: z.record(z.string(), z.unknown()).meta({
+    description: 'The request, the resolved analysis options, the dataset, the recording and the array',
+  }),
+  softwareVersion: z.string(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+  createdBy: z.object({ id: z.int(), name: z.string() }).nullable(),
+  blocks: z.array(bearingTimeBlockSchema).meta({ description: 'Every block, in time order (empty until done)' }),
+  tracks: z.array(bearingTimeTrackSchema),
+  image: z
+    .object({
+      bearingsDeg: z.array(z.number()),
+      timesS: z.array(z.number()),
+      levelsDb: z.array(z.array(z.number())).meta({ description: 'levelsDb[row][column], group maxima in dB' }),
+    })
+    .nullable()
+    .meta({ description: 'The record on a display grid of at most 1024 rows (null until done)' }),
+  summary: z.record(z.string(), z.unknown()).nullable(),
+});
+
+export const bearingTimeBlockDetailSchema = bearingTimeBlockSchema.extend({
+  spectrum: z.object({ bearingsDeg: z.array(z.number()), levelsDb: z.array(z.number()) }),
+});

@@ -24,7 +24,18 @@
 import { callRouteHandler, type RouteHandler } from '../helpers/next-request-scope';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ApiToken, ArrayDesign, ArrayRevision, AuthLink, Dataset, Handoff, OutboxMessage, Study, User } from '@/models';
+import {
+  ApiToken,
+  ArrayDesign,
+  BearingTimeRecord,
+  ArrayRevision,
+  AuthLink,
+  Dataset,
+  Handoff,
+  OutboxMessage,
+  Study,
+  User,
+} from '@/models';
 import { hashPassword } from '@/lib/auth/passwords';
 import { randomSecret, sha256Hex } from '@/lib/auth/secrets';
 import { startSmtpSink } from '@/lib/mail/sink';
@@ -54,6 +65,7 @@ import {
   type RouteMethod,
 } from '../helpers/route-discovery';
 import { createArray, createDataset, snapshotsCsv } from '../lib/handoff/fixtures';
+import { storeSimulatedWav, tinyBtrBody, waitForRecord } from './btr.helpers';
 
 const TABLE_FILE = 'tests/api/authorization-matrix.test.ts';
 const APP_DIR = path.resolve(__dirname, '../../app');
@@ -131,6 +143,9 @@ const ids = {
   study: 0,
   run: 0,
   mail: 0,
+  /** A tiny simulated WAV (3 s, 4 channels) of the demo team and a finished bearing–time record of it. */
+  wav: 0,
+  btr: 0,
 };
 let handoffToken = '';
 let bundleBytes: Uint8Array = new Uint8Array();
@@ -518,6 +533,54 @@ const MATRIX: Row[] = [
     expect: teamRead(200),
     prepare: async () => ({ params: { id: String(ids.array), rev: '1' } }),
   },
+  // The team's bearing–time records (roles as for estimates).
+  { route: '/api/v1/bearing-time-records', method: 'GET', expect: signedIn(200) },
+  // A record of the tiny demo-team WAV (3 s, 4 channels): engineers and admins; the dataset is 404 to the other team.
+  {
+    route: '/api/v1/bearing-time-records',
+    method: 'POST',
+    expect: engineersAndAdmins(202, 404),
+    prepare: async () => ({ body: tinyBtrBody(ids.wav) }),
+  },
+  // The finished record made in the setup.
+  {
+    route: '/api/v1/bearing-time-records/[id]',
+    method: 'GET',
+    expect: teamRead(200),
+    prepare: async () => ({ params: { id: String(ids.btr) } }),
+  },
+  // Deleting a fresh record (and its files): engineers and admins.
+  {
+    route: '/api/v1/bearing-time-records/[id]',
+    method: 'DELETE',
+    expect: engineersAndAdmins(204, 404),
+    prepare: async () => {
+      const res = await callAs('engineer', '/api/v1/bearing-time-records', 'POST', { body: tinyBtrBody(ids.wav) });
+      expect(res.status).toBe(202);
+      return { params: { id: String((await json(res)).id) } };
+    },
+  },
+  // One block's spectrum and bearings of the finished record.
+  {
+    route: '/api/v1/bearing-time-records/[id]/blocks/[index]',
+    method: 'GET',
+    expect: teamRead(200),
+    prepare: async () => ({ params: { id: String(ids.btr), index: '2' } }),
+  },
+  // Stopping the finished record: engineers and admins pass the permission check and get 409 (already ended).
+  {
+    route: '/api/v1/bearing-time-records/[id]/cancel',
+    method: 'POST',
+    expect: engineersAndAdmins(409, 404),
+    prepare: async () => ({ params: { id: String(ids.btr) }, body: {} }),
+  },
+  // The CSV export of the finished record (JSON and PNG are the same route with another format).
+  {
+    route: '/api/v1/bearing-time-records/[id]/export',
+    method: 'GET',
+    expect: teamRead(200),
+    prepare: async () => ({ params: { id: String(ids.btr) }, query: '?format=csv' }),
+  },
   // Pure computation on the body (no team data): every signed-in caller.
   {
     route: '/api/v1/bounds',
@@ -773,6 +836,12 @@ beforeAll(async () => {
   });
   ids.mail = mail.id;
 
+  ids.wav = (await storeSimulatedWav({ user: engineer })).id;
+  const btr = await callAs('engineer', '/api/v1/bearing-time-records', 'POST', { body: tinyBtrBody(ids.wav) });
+  expect(btr.status).toBe(202);
+  ids.btr = (await json(btr)).id;
+  expect(await waitForRecord(ids.btr)).toBe('done');
+
   const run = await callAs('engineer', '/api/v1/estimates', 'POST', { body: tinyEstimate() });
   expect(run.status).toBe(201);
   ids.run = (await json(run)).id;
@@ -802,7 +871,11 @@ beforeAll(async () => {
 afterAll(async () => {
   // Let the queued tiny studies finish before the database closes.
   for (let i = 0; i < 400; i++) {
-    if (!(await Study.count({ where: { status: ['queued', 'running'] } }))) break;
+    if (
+      !(await Study.count({ where: { status: ['queued', 'running'] } })) &&
+      !(await BearingTimeRecord.count({ where: { status: ['queued', 'running'] } }))
+    )
+      break;
     await new Promise((resolve) => setTimeout(resolve, 25));
   }
   await sink.close();

@@ -18,6 +18,8 @@ process.env.STEERWISE_DB = path.join(dir, 'test.sqlite');
 process.env.NEXTAUTH_SECRET = 'test-secret-for-api-tests';
 process.env.NEXTAUTH_URL = 'http://localhost:3000';
 delete process.env.SMTP_HOST;
+// The demo bearing–time record (lib/demo/bearing-time.ts) takes seconds to simulate and analyse: only tests that need it seed it.
+process.env.STEERWISE_SEED_BTR ??= '0';
 
 beforeAll(async () => {
   const { getDb } = await import('@/lib/db');
