@@ -27,6 +27,8 @@ export interface RecordingChoice {
   channels: number;
   sampleRate: number | null;
   durationS: number | null;
+  /** The array the recording was uploaded for, if any. */
+  arrayId: number | null;
 }
 
 /**
@@ -146,7 +148,10 @@ export function RecordForm({
       options as never,
     ) as unknown as ReturnType<Resolver<FormValues, unknown, BearingTimeRecordRequest>>;
   const first = recordings.find((r) => r.id === initialDatasetId) ?? recordings[0];
-  const matching = first ? usable.find((a) => a.elements === first.channels) : undefined;
+  const matching = first
+    ? (usable.find((a) => a.id === first.arrayId && a.elements === first.channels) ??
+      usable.find((a) => a.elements === first.channels))
+    : undefined;
   const form = useForm<FormValues, unknown, BearingTimeRecordRequest>({
     resolver,
     defaultValues: {

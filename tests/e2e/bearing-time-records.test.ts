@@ -1,27 +1,19 @@
 /**
- * Bearing–time records in the built app. An engineer opens a finished record
- * (the seeded demo record when the seed has one, else one made here from a
- * simulated recording), sees the image and the tracks, points at the image and
+ * Bearing–time records in the built app. An engineer opens the seeded demo
+ * record (lib/demo/bearing-time.ts), sees the image and the tracks, points at the image and
  * reads time, bearing and level, which must be the stored grid's value for that
  * cell (read back over the API), clicks a block and sees its spectrum and
- * bearings; then starts a new record through the form on that recording and sees
+ * bearings; then starts a new record through the form on the demo recording and sees
  * the progress bar, then the result. A viewer sees records read-only and cannot
  * start one. Screenshots land in test-results/btr-*.png.
  */
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '@/lib/demo/seed';
-import { writeSimulatedWav } from '@/lib/btr/simulated-wav';
+import { DEMO_BTR_NAME } from '@/lib/demo/bearing-time';
 import { browserForFile, csrf, shot, signIn } from './browser';
 
 const { baseUrl, open } = browserForFile();
-
-/** The recording made here when the seed has none: 8 elements 0.25 m apart in water, d = λ/2 at 3 kHz. */
-const LINE = { elements: 8, spacingM: 0.25, propagationSpeedMps: 1500, sampleRate: 8000 };
-const RECORDING_NAME = 'Browser check: two contacts';
 
 type ListItem = { id: number; name: string; status: string; datasetId: number | null };
 
@@ -31,91 +23,19 @@ async function json<T>(page: Page, url: string): Promise<T> {
   return (await res.json()) as T;
 }
 
-/** A WAV of two contacts, one crossing the line and one drifting slowly, uploaded as a dataset. */
-async function uploadRecording(page: Page): Promise<number> {
-  const file = path.join(os.tmpdir(), `btr-e2e-${process.pid}.wav`);
-  await writeSimulatedWav(file, {
-    ...LINE,
-    durationS: 90,
-    sources: [
-      {
-        trajectory: [
-          { tS: 0, bearingDeg: -40 },
-          { tS: 90, bearingDeg: 35 },
-        ],
-        rms: 0.06,
-        bandHz: [300, 2800],
-      },
-      {
-        trajectory: [
-          { tS: 0, bearingDeg: 50 },
-          { tS: 90, bearingDeg: 44 },
-        ],
-        rms: 0.04,
-        bandHz: [300, 2800],
-      },
-    ],
-    noiseRms: 0.02,
-    seed: 14,
-  });
-  try {
-    const res = await page.request.post('/api/v1/datasets', {
-      multipart: {
-        file: { name: 'two-contacts.wav', mimeType: 'audio/wav', buffer: fs.readFileSync(file) },
-        name: RECORDING_NAME,
-        frequencyHz: '1500',
-      },
-      headers: { 'x-csrf-token': await csrf(page) },
-    });
-    expect(res.status(), await res.text()).toBe(201);
-    return ((await res.json()) as { id: number }).id;
-  } finally {
-    fs.rmSync(file, { force: true });
-  }
-}
-
-async function waitDone(page: Page, id: number): Promise<void> {
-  for (let i = 0; i < 240; i++) {
-    const r = await json<{ status: string; error: string | null }>(page, `/api/v1/bearing-time-records/${id}`);
-    if (r.status === 'done') return;
-    if (r.status === 'failed' || r.status === 'cancelled') throw new Error(`record ${id}: ${r.status} ${r.error}`);
-    await page.waitForTimeout(500);
-  }
-  throw new Error(`record ${id} did not finish`);
-}
-
-/** The seeded demo record if there is one, else a record of a recording uploaded here. */
-async function finishedRecord(page: Page): Promise<{ id: number; name: string; datasetId: number }> {
+/** The seeded demo record (lib/demo/bearing-time.ts), finished at seed time. */
+async function demoRecord(page: Page): Promise<{ id: number; name: string; datasetId: number }> {
   const { items } = await json<{ items: ListItem[] }>(page, '/api/v1/bearing-time-records');
-  const seeded = items.find((r) => r.status === 'done' && r.datasetId !== null);
-  if (seeded) return { id: seeded.id, name: seeded.name, datasetId: seeded.datasetId! };
-  const datasetId = await uploadRecording(page);
-  const res = await page.request.post('/api/v1/bearing-time-records', {
-    data: {
-      name: 'Browser check: reference record',
-      datasetId,
-      array: { elements: LINE.elements, spacingM: LINE.spacingM },
-      propagationSpeedMps: LINE.propagationSpeedMps,
-      band: { lowHz: 400, highHz: 2800 },
-      blockSeconds: 1,
-      blockOverlap: 0.5,
-      fftLength: 256,
-      method: 'music',
-      sourceCount: 2,
-    },
-    headers: { 'x-csrf-token': await csrf(page) },
-  });
-  expect(res.status(), await res.text()).toBe(202);
-  const { id } = (await res.json()) as { id: number };
-  await waitDone(page, id);
-  return { id, name: 'Browser check: reference record', datasetId };
+  const demo = items.find((r) => r.name === DEMO_BTR_NAME);
+  expect(demo?.status).toBe('done');
+  return { id: demo!.id, name: demo!.name, datasetId: demo!.datasetId! };
 }
 
 describe('bearing–time records', () => {
   it('engineer: the record with readout and block detail, then a new record with progress', async () => {
     const { context, page } = await open({ width: 1440, height: 1100 });
     await signIn(page, 'engineer@steerwise.test', DEMO_PASSWORD);
-    const record = await finishedRecord(page);
+    const record = await demoRecord(page);
 
     await page.goto(`${baseUrl}/bearing-time-records`);
     await page.getByRole('link', { name: 'Bearing–time', exact: false }).first().waitFor();
@@ -197,16 +117,16 @@ describe('bearing–time records', () => {
     await page.goto(`${baseUrl}/bearing-time-records/new?dataset=${record.datasetId}`);
     await page.getByTestId('btr-form').waitFor();
     await page.locator('#btr-name').fill('Browser check: new record');
-    const recording = await json<{ elements: number }>(page, `/api/v1/datasets/${record.datasetId}`);
-    await page.locator('#btr-array').selectOption('inline');
-    await page.locator('#btr-elements').fill(String(recording.elements));
-    await page.locator('#btr-spacing').fill(String(LINE.spacingM));
-    await page.locator('#btr-speed').fill(String(LINE.propagationSpeedMps));
+    // The recording's own array is chosen by default; finer blocks than the demo's so the progress shows.
+    expect(await page.locator('#btr-dataset').inputValue()).toBe(String(record.datasetId));
+    expect(await page.locator('#btr-array option:checked').innerText()).toContain('Port Alder hydrophone line');
     await page.locator('#btr-low').fill('400');
-    await page.locator('#btr-high').fill('2800');
+    await page.locator('#btr-high').fill('2600');
     await page.locator('#btr-block').fill('0.5');
     await page.locator('#btr-overlap').fill('75');
-    await page.locator('#btr-fft').selectOption('256');
+    await page.locator('#btr-fft').selectOption('128');
+    await page.getByLabel('Sources per block').selectOption('given');
+    await page.locator('#btr-count').fill('2');
     await shot(page, 'btr-form');
     await page.getByTestId('btr-submit').click();
     await page.waitForURL(/\/bearing-time-records\/\d+$/, { timeout: 30_000 });

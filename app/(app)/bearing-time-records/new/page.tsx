@@ -30,6 +30,7 @@ export default async function NewBearingTimeRecordPage({
       name: d.name,
       format: d.format,
       channels: d.elements,
+      arrayId: d.arrayId,
       sampleRate,
       durationS:
         sampleRate && typeof details.samplesPerChannel === 'number' ? details.samplesPerChannel / sampleRate : null,
