@@ -20,7 +20,7 @@ export function BlockDetail({ recordId, index, method }: { recordId: number; ind
   if (error) return <FormMessage tone="error">{error.message}</FormMessage>;
   if (isLoading || !data || !option) return <p className="text-sm text-ink-500">Loading block {index + 1}…</p>;
   return (
-    <div className="grid gap-4 lg:grid-cols-[1fr_16rem]" data-testid="block-detail" data-block={index}>
+    <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_16rem]" data-testid="block-detail" data-block={index}>
       <Chart
         option={option}
         height={260}

@@ -57,7 +57,7 @@ export function RecordView({ id, canEdit }: { id: number; canEdit: boolean }) {
   );
 
   return (
-    <div className="grid gap-6">
+    <div className="grid min-w-0 gap-6">
       <Card aria-labelledby="inputs-title">
         <CardHeader
           id="inputs-title"
@@ -95,7 +95,7 @@ export function RecordView({ id, canEdit }: { id: number; canEdit: boolean }) {
                 ? `${record.inputs.array.name}${record.inputs.array.revision ? ` r${record.inputs.array.revision}` : ''}, `
                 : ''}
               M = {o.elements ?? '—'}, d = {o.spacingM !== undefined ? `${Number(o.spacingM.toPrecision(4))} m` : '—'},
-              c = {o.propagationSpeedMps ?? '—'} m/s
+              c = {o.propagationSpeedMps !== undefined ? Number(o.propagationSpeedMps.toPrecision(5)) : '—'} m/s
             </dd>
           </div>
           <div>

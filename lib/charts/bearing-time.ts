@@ -282,7 +282,8 @@ export function blockAt(blocks: Pick<BearingTimeBlockInput, 'startS' | 'endS'>[]
 export function clockLabel(seconds: number, decimals = 1): string {
   if (!Number.isFinite(seconds)) return '—';
   const sign = seconds < 0 ? '−' : '';
-  const s = Math.abs(seconds);
+  // Round first, so 119.6 s at whole seconds is 2:00, not 1:60.
+  const s = Number(Math.abs(seconds).toFixed(decimals));
   const h = Math.floor(s / 3600);
   const m = Math.floor((s - 3600 * h) / 60);
   const sec = (s - 3600 * h - 60 * m).toFixed(decimals).padStart(decimals ? 3 + decimals : 2, '0');

@@ -147,6 +147,8 @@ describe('readout', () => {
     expect(clockLabel(0)).toBe('0:00.0');
     expect(clockLabel(75.25)).toBe('1:15.3');
     expect(clockLabel(3725, 0)).toBe('1:02:05');
+    expect(clockLabel(119.6, 0)).toBe('2:00');
+    expect(clockLabel(59.96)).toBe('1:00.0');
   });
 });
 
