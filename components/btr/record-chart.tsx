@@ -124,7 +124,9 @@ export function RecordChart({
       const cell = p ? levelAt(grid, p.b, p.t, rs) : null;
       setReadout(cell ? { ...cell, block: blockAt(list, p!.t) } : null);
     });
-    zr.on('globalout', () => setReadout(null));
+    // Cleared when the pointer leaves the box (zrender's own globalout also fires when the drawing is redone under a still pointer).
+    const leave = () => setReadout(null);
+    el.addEventListener('mouseleave', leave);
     zr.on('click', (e) => {
       const p = at(e.offsetX, e.offsetY);
       if (!p) return;
@@ -132,6 +134,7 @@ export function RecordChart({
       if (index >= 0) latest.current.onSelectBlock(index);
     });
     return () => {
+      el.removeEventListener('mouseleave', leave);
       observer.disconnect();
       chart.dispose();
       chartRef.current = null;

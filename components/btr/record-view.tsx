@@ -20,6 +20,8 @@ export function RecordView({ id, canEdit }: { id: number; canEdit: boolean }) {
   const router = useRouter();
   const { data, error, mutate } = useSWR<BtrRecord>(base(id), fetcher, {
     refreshInterval: (d) => (!d || d.status === 'queued' || d.status === 'running' ? 800 : 0),
+    // A finished record does not change: no refetch (and redraw) when the window regains focus.
+    revalidateOnFocus: false,
   });
   const [selected, setSelected] = useState<number | null>(null);
   const [deleteError, setDeleteError] = useState<string | null>(null);

@@ -70,20 +70,23 @@ describe('bearing–time records', () => {
     await page.mouse.move(x, y);
     const readout = page.getByTestId('btr-readout');
     await page.locator('[data-testid="btr-readout"][data-row]:not([data-row=""])').waitFor();
-    const row = Number(await readout.getAttribute('data-row'));
-    const col = Number(await readout.getAttribute('data-col'));
-    const db = Number(await readout.getAttribute('data-db'));
+    // Every value read at once, from one rendering of the readout.
+    const shown = await readout.evaluate((el) => ({ ...(el as HTMLElement).dataset, text: el.textContent ?? '' }));
+    const row = Number(shown.row);
+    const col = Number(shown.col);
+    const db = Number(shown.db);
     expect(api.image.timesS.length).toBeLessThanOrEqual(1600); // shown without further pooling
     expect(db).toBe(api.image.levelsDb[row][col]);
-    expect(Number(await readout.getAttribute('data-bearing'))).toBe(api.image.bearingsDeg[col]);
-    expect(Number(await readout.getAttribute('data-time'))).toBe(api.image.timesS[row]);
-    const text = await readout.innerText();
+    expect(Number(shown.bearing)).toBe(api.image.bearingsDeg[col]);
+    expect(Number(shown.time)).toBe(api.image.timesS[row]);
+    const text = shown.text;
     expect(text).toContain(`θ = ${api.image.bearingsDeg[col].toFixed(2)}°`);
     expect(text).toContain(`${api.image.levelsDb[row][col].toFixed(2)} dB`);
     await shot(page, 'btr-readout');
 
     // Click: that block's spectrum and bearings.
-    const blockIndex = Number(await readout.getAttribute('data-block'));
+    const blockIndex = Number(shown.block);
+    expect(shown.block).not.toBe('');
     expect(blockIndex).toBeGreaterThanOrEqual(0);
     await page.mouse.click(x, y);
     const detail = page.locator(`[data-testid="block-detail"][data-block="${blockIndex}"]`);
