@@ -71,7 +71,18 @@ describe('bearing–time records', () => {
     const readout = page.getByTestId('btr-readout');
     await page.locator('[data-testid="btr-readout"][data-row]:not([data-row=""])').waitFor();
     // Every value read at once, from one rendering of the readout.
-    const shown = await readout.evaluate((el) => ({ ...(el as HTMLElement).dataset, text: el.textContent ?? '' }));
+    const shown = await readout.evaluate((el) => {
+      const d = (el as HTMLElement).dataset;
+      return {
+        row: d.row,
+        col: d.col,
+        db: d.db,
+        bearing: d.bearing,
+        time: d.time,
+        block: d.block,
+        text: el.textContent ?? '',
+      };
+    });
     const row = Number(shown.row);
     const col = Number(shown.col);
     const db = Number(shown.db);
