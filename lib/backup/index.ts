@@ -6,7 +6,7 @@
  * Archive: a zip holding
  *   steerwise-backup.json   {format: "steerwise-backup", version: 1, createdAt, files: [{path, bytes, sha256}]}
  *   db/steerwise.sqlite     a consistent copy taken with `VACUUM INTO` (safe while the server runs)
- *   files/<relative path>   datasets/**, snapshots/** and auth-secret from the data folder
+ *   files/<relative path>   datasets/**, snapshots/**, bearing-time-records/** and auth-secret from the data folder
  *
  * Restore writes into an empty data folder only, after checking the manifest
  * and every SHA-256, and runs `PRAGMA integrity_check` on the database.
@@ -22,7 +22,7 @@ export const BACKUP_FORMAT = 'steerwise-backup';
 export const BACKUP_VERSION = 1;
 const MANIFEST = 'steerwise-backup.json';
 const DB_ENTRY = 'db/steerwise.sqlite';
-const FILE_ROOTS = ['datasets', 'snapshots'];
+const FILE_ROOTS = ['datasets', 'snapshots', 'bearing-time-records'];
 
 export interface BackupManifest {
   format: typeof BACKUP_FORMAT;

@@ -378,6 +378,8 @@ registerJobKind<void>({
         ),
       ),
     );
+    // Stopped or deleted while the last share finished: write nothing.
+    if (signal.aborted) throw signal.reason ?? new Error('aborted');
     const folder = resultFolder(row.teamId as number, row.id);
     const summary = await finishRecord({ parts, inputs, folder: folder.abs, started });
     const [updated] = await BearingTimeRecord.update(
