@@ -1,0 +1,90 @@
+/**
+ * Seeded reference recordings for the calibration tests: sources at bearings θ_k,
+ * optional coherent image sources (a reflection ρ·a(θ'_k) added to a(θ_k), the
+ * image-source model of one reflecting boundary), element gains g_m applied to
+ * the signal only, then white noise (docs/conventions.md §9).
+ * Rows are N × M (the snapshot-file layout).
+ */
+import { SeededRandom, electricalAngle, type ComplexMatrix, type ElementGainState } from '@/lib/doa';
+import { complexGains } from '@/lib/doa/calibration';
+
+export interface ImageSource {
+  bearingDeg: number;
+  /** Complex reflection coefficient (re, im). */
+  re: number;
+  im: number;
+}
+
+export interface SimulatedReference {
+  elements: number;
+  spacingWavelengths: number;
+  bearingsDeg: number[];
+  /** Linear powers (default 1). */
+  powers?: number[];
+  noisePower: number;
+  snapshots: number;
+  seed: number;
+  states?: ElementGainState[];
+  /** One image per source (or null), coherent with it. */
+  images?: (ImageSource | null)[];
+}
+
+export function simulateReference(o: SimulatedReference): ComplexMatrix {
+  const m = o.elements;
+  const n = o.snapshots;
+  const rng = new SeededRandom(o.seed);
+  const g = complexGains(o.states ?? Array.from({ length: m }, () => ({ gainDb: 0, phaseDeg: 0 })));
+  // Effective steering per source (with its image), then gains.
+  const vr: Float64Array[] = [];
+  const vi: Float64Array[] = [];
+  o.bearingsDeg.forEach((b, k) => {
+    const re = new Float64Array(m);
+    const im = new Float64Array(m);
+    const mu = electricalAngle(b, o.spacingWavelengths);
+    const img = o.images?.[k] ?? null;
+    const mu2 = img ? electricalAngle(img.bearingDeg, o.spacingWavelengths) : 0;
+    for (let i = 0; i < m; i++) {
+      let ar = Math.cos(mu * i);
+      let ai = Math.sin(mu * i);
+      if (img) {
+        const c = Math.cos(mu2 * i);
+        const s = Math.sin(mu2 * i);
+        ar += img.re * c - img.im * s;
+        ai += img.re * s + img.im * c;
+      }
+      re[i] = g.re[i] * ar - g.im[i] * ai;
+      im[i] = g.re[i] * ai + g.im[i] * ar;
+    }
+    vr.push(re);
+    vi.push(im);
+  });
+  const powers = o.powers ?? o.bearingsDeg.map(() => 1);
+  const out = { rows: n, cols: m, re: new Float64Array(n * m), im: new Float64Array(n * m) };
+  const ns = Math.sqrt(o.noisePower / 2);
+  for (let t = 0; t < n; t++) {
+    for (let k = 0; k < o.bearingsDeg.length; k++) {
+      const a = Math.sqrt(powers[k] / 2);
+      const sr = a * rng.normal();
+      const si = a * rng.normal();
+      for (let i = 0; i < m; i++) {
+        out.re[t * m + i] += vr[k][i] * sr - vi[k][i] * si;
+        out.im[t * m + i] += vr[k][i] * si + vi[k][i] * sr;
+      }
+    }
+    for (let i = 0; i < m; i++) {
+      out.re[t * m + i] += ns * rng.normal();
+      out.im[t * m + i] += ns * rng.normal();
+    }
+  }
+  return out;
+}
+
+/** Seeded random element errors: gain uniform in ±gainDb, phase uniform in ±phaseDeg; element 1 is 0 dB, 0°. */
+export function randomStates(m: number, seed: number, gainDb = 2, phaseDeg = 20): ElementGainState[] {
+  const rng = new SeededRandom(seed);
+  return Array.from({ length: m }, (_, i) =>
+    i === 0
+      ? { gainDb: 0, phaseDeg: 0 }
+      : { gainDb: (2 * rng.next() - 1) * gainDb, phaseDeg: (2 * rng.next() - 1) * phaseDeg },
+  );
+}
