@@ -5,8 +5,8 @@
  * the signal only, then white noise (docs/conventions.md §9).
  * Rows are N × M (the snapshot-file layout).
  */
-import { SeededRandom, electricalAngle, type ComplexMatrix, type ElementGainState } from '@/lib/doa';
-import { complexGains } from '@/lib/doa/calibration';
+import { SeededRandom, electricalAngle, type ComplexMatrix } from '@/lib/doa';
+import { complexGains, type ElementGainState } from '@/lib/doa/calibration';
 
 export interface ImageSource {
   bearingDeg: number;
@@ -87,4 +87,36 @@ export function randomStates(m: number, seed: number, gainDb = 2, phaseDeg = 20)
       ? { gainDb: 0, phaseDeg: 0 }
       : { gainDb: (2 * rng.next() - 1) * gainDb, phaseDeg: (2 * rng.next() - 1) * phaseDeg },
   );
+}
+
+/** A float32 PCM WAV (format 3) of the given channels, interleaved. */
+export function float32Wav(channels: Float32Array[], sampleRate: number): Buffer {
+  const m = channels.length;
+  const n = channels[0].length;
+  const dataBytes = n * m * 4;
+  const out = Buffer.alloc(44 + dataBytes);
+  out.write('RIFF', 0, 'latin1');
+  out.writeUInt32LE(36 + dataBytes, 4);
+  out.write('WAVEfmt ', 8, 'latin1');
+  out.writeUInt32LE(16, 16);
+  out.writeUInt16LE(3, 20);
+  out.writeUInt16LE(m, 22);
+  out.writeUInt32LE(sampleRate, 24);
+  out.writeUInt32LE(sampleRate * m * 4, 28);
+  out.writeUInt16LE(m * 4, 32);
+  out.writeUInt16LE(32, 34);
+  out.write('data', 36, 'latin1');
+  out.writeUInt32LE(dataBytes, 40);
+  for (let i = 0; i < n; i++) for (let c = 0; c < m; c++) out.writeFloatLE(channels[c][i], 44 + (i * m + c) * 4);
+  return out;
+}
+
+/** Every second channel (elements 2, 4, …) one sample late: y[n] = x[n − 1], the first sample 0. */
+export function oddChannelsLate(channels: Float32Array[]): Float32Array[] {
+  return channels.map((x, c) => {
+    if (c % 2 === 0) return x;
+    const y = new Float32Array(x.length);
+    y.set(x.subarray(0, x.length - 1), 1);
+    return y;
+  });
 }
