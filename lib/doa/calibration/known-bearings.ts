@@ -50,7 +50,10 @@ export const DEFAULT_JACKKNIFE_BLOCKS = 20;
 function assertReference(ref: CalibrationReference, index: number, elements: number): void {
   const where = `reference ${index + 1}`;
   if (ref.rows.cols !== elements)
-    throw new DoaInputError('bad-size', `${where} has ${ref.rows.cols} channels but the array has ${elements} elements`);
+    throw new DoaInputError(
+      'bad-size',
+      `${where} has ${ref.rows.cols} channels but the array has ${elements} elements`,
+    );
   if (ref.rows.rows < elements)
     throw new DoaInputError(
       'bad-size',

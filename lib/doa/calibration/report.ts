@@ -249,7 +249,9 @@ export function calibrate(references: readonly CalibrationReference[], options: 
   checkReferenceSignals(prepared, d);
   const all = prepared.map((_, i) => i);
   const fit = (use: number[]) =>
-    method === 'self-calibration' ? selfCalibrateSubset(prepared, use, { spacingWavelengths: d }) : fitSubset(prepared, use);
+    method === 'self-calibration'
+      ? selfCalibrateSubset(prepared, use, { spacingWavelengths: d })
+      : fitSubset(prepared, use);
   const joint = fit(all);
   const fitted = 'bearingsDeg' in joint ? (joint.bearingsDeg as number[][]) : null;
   report(0.6);
@@ -278,9 +280,7 @@ export function calibrate(references: readonly CalibrationReference[], options: 
   }
   report(1);
   const totalSources = refReports.reduce((s, r) => s + r.bearingsDeg.length, 0);
-  const qAll = sumForms(
-    prepared.map((p, r) => (fitted ? quadraticForm(p.projector, fitted[r], d) : p.form)),
-  );
+  const qAll = sumForms(prepared.map((p, r) => (fitted ? quadraticForm(p.projector, fitted[r], d) : p.form)));
   const residual = normalisedResidual(qAll, joint.gains, totalSources);
   const residualUncalibrated = normalisedResidual(qAll, unit, totalSources);
   const elements: ElementEstimate[] = joint.states.map((s, i) => ({

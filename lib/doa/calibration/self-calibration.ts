@@ -147,9 +147,7 @@ export function alternatingFit(
         ),
       ),
     );
-    g = removePhaseTrend(
-      minimiseWithUnitFirst(sumForms(projectors.map((pn, r) => quadraticForm(pn, next[r], d)))),
-    );
+    g = removePhaseTrend(minimiseWithUnitFirst(sumForms(projectors.map((pn, r) => quadraticForm(pn, next[r], d)))));
     const moved = Math.max(...next.flatMap((list, r) => list.map((b, k) => Math.abs(b - bearings[r][k]))));
     bearings = next;
     if (moved < 1e-4) break;

@@ -5,7 +5,16 @@
  * the signal only, then white noise (docs/conventions.md §9).
  * Rows are N × M (the snapshot-file layout).
  */
-import { SeededRandom, electricalAngle, type ComplexMatrix } from '@/lib/doa';
+import {
+  SeededRandom,
+  conjugateTranspose,
+  electricalAngle,
+  inverse,
+  multiply,
+  multiplyConjugateTransposeLeft,
+  zeros,
+  type ComplexMatrix,
+} from '@/lib/doa';
 import { complexGains, type ElementGainState } from '@/lib/doa/calibration';
 
 export interface ImageSource {
@@ -119,4 +128,69 @@ export function oddChannelsLate(channels: Float32Array[]): Float32Array[] {
     y.set(x.subarray(0, x.length - 1), 1);
     return y;
   });
+}
+
+/**
+ * Stochastic CRB (Stoica & Nehorai 1990, docs/conventions.md §5) of an array whose known
+ * element gains are part of the steering vector, a_m = g_m·exp(j·2π·d·m·sin θ): the bound
+ * of the true array for uncorrelated sources. Degrees, one per source.
+ */
+export function crbWithGains(o: {
+  elements: number;
+  spacingWavelengths: number;
+  bearingsDeg: number[];
+  powers: number[];
+  noisePower: number;
+  snapshots: number;
+  states: ElementGainState[];
+}): number[] {
+  const m = o.elements;
+  const k = o.bearingsDeg.length;
+  const g = complexGains(o.states);
+  const a = zeros(m, k);
+  const dd = zeros(m, k);
+  o.bearingsDeg.forEach((b, c) => {
+    const th = (b * Math.PI) / 180;
+    const mu = 2 * Math.PI * o.spacingWavelengths * Math.sin(th);
+    const dmu = 2 * Math.PI * o.spacingWavelengths * Math.cos(th);
+    for (let i = 0; i < m; i++) {
+      const er = Math.cos(mu * i);
+      const ei = Math.sin(mu * i);
+      const ar = g.re[i] * er - g.im[i] * ei;
+      const ai = g.re[i] * ei + g.im[i] * er;
+      a.re[i * k + c] = ar;
+      a.im[i * k + c] = ai;
+      // ∂a/∂θ = j·dμ·m·a
+      dd.re[i * k + c] = -dmu * i * ai;
+      dd.im[i * k + c] = dmu * i * ar;
+    }
+  });
+  const p = zeros(k, k);
+  o.powers.forEach((v, i) => (p.re[i * k + i] = v));
+  const apah = multiply(multiply(a, p), conjugateTranspose(a));
+  for (let i = 0; i < m; i++) apah.re[i * m + i] += o.noisePower;
+  const rinv = inverse(apah);
+  const aha = multiplyConjugateTransposeLeft(a, a);
+  const proj = multiply(multiply(a, inverse(aha)), conjugateTranspose(a));
+  const perp = zeros(m, m);
+  for (let i = 0; i < m * m; i++) {
+    perp.re[i] = -proj.re[i];
+    perp.im[i] = -proj.im[i];
+  }
+  for (let i = 0; i < m; i++) perp.re[i * m + i] += 1;
+  const left = multiplyConjugateTransposeLeft(dd, multiply(perp, dd));
+  const right = multiply(multiply(p, multiplyConjugateTransposeLeft(a, multiply(rinv, a))), p);
+  // Re[(left) ⊙ (right)ᵀ], K × K real; invert (K ≤ 2 here via the general complex inverse).
+  const h = zeros(k, k);
+  for (let i = 0; i < k; i++)
+    for (let j = 0; j < k; j++) {
+      const lr = left.re[i * k + j];
+      const li = left.im[i * k + j];
+      const rr = right.re[j * k + i];
+      const ri = right.im[j * k + i];
+      h.re[i * k + j] = lr * rr - li * ri;
+    }
+  const hinv = inverse(h);
+  const scale = o.noisePower / (2 * o.snapshots);
+  return o.bearingsDeg.map((_, i) => (Math.sqrt(scale * hinv.re[i * k + i]) * 180) / Math.PI);
 }
