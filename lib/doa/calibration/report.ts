@@ -12,9 +12,10 @@
  * by √(σ_r² + σ_−r²) from the two jackknives, give χ² with 2(M−1) degrees of freedom.
  * A difference is significant above the 0.999 quantile (Wilson–Hilferty approximation,
  * common practice) and matters when it is also larger than 0.2 dB or 2° RMS (a house
- * tolerance, not a published figure). With three or more references, a disagreeing
- * reference whose χ² exceeds 3 × the median χ² of all references is named as the lone
- * outlier: its own position's multipath (or a wrong bearing) is the likely cause.
+ * tolerance, not a published figure). With three or more references, each reference is
+ * also compared with every other one alone; when exactly one reference disagrees even with
+ * the reference closest to it, it is named as the lone outlier: its own position's
+ * multipath (or a wrong bearing) is the likely cause.
  */
 import { DoaInputError } from '../errors';
 import { requireSpacing } from '../checks';
@@ -150,6 +151,8 @@ export interface ReferenceReport {
   residual: number;
   residualUncalibrated: number;
   consistency?: ReferenceConsistency;
+  /** Three or more references: the comparison with the single reference it agrees with best. */
+  closestAgreement?: ReferenceConsistency & { reference: number };
 }
 
 export type VerdictStatus = 'supported' | 'weak' | 'poor-fit' | 'inconsistent';
@@ -228,12 +231,6 @@ export function consistencyOf(one: GainFit, rest: GainFit): ReferenceConsistency
   };
 }
 
-function median(values: number[]): number {
-  const s = values.slice().sort((a, b) => a - b);
-  const h = Math.floor(s.length / 2);
-  return s.length % 2 ? s[h] : (s[h - 1] + s[h]) / 2;
-}
-
 /** Fits, checks and reports. Throws CalibrationInputError / DoaInputError on data that cannot be used. */
 export function calibrate(references: readonly CalibrationReference[], options: CalibrateOptions): CalibrationResult {
   const d = options.spacingWavelengths;
@@ -271,10 +268,19 @@ export function calibrate(references: readonly CalibrationReference[], options: 
     };
   });
   if (prepared.length >= 2) {
+    const singles = prepared.map((_, r) => fit([r]));
     prepared.forEach((_, r) => {
-      const one = fit([r]);
       const rest = fit(all.filter((i) => i !== r));
-      refReports[r].consistency = consistencyOf(one, rest);
+      refReports[r].consistency = consistencyOf(singles[r], rest);
+      if (prepared.length >= 3) {
+        let best: (ReferenceConsistency & { reference: number }) | null = null;
+        for (const o of all) {
+          if (o === r) continue;
+          const c = consistencyOf(singles[r], singles[o]);
+          if (!best || c.chiSquarePerDof < best.chiSquarePerDof) best = { ...c, reference: o };
+        }
+        refReports[r].closestAgreement = best!;
+      }
       report(0.6 + (0.4 * (r + 1)) / prepared.length);
     });
   }
@@ -317,10 +323,8 @@ function verdictOf(refs: ReferenceReport[], elements: ElementEstimate[], residua
   const messages: string[] = [];
   const disagreeing = refs.filter((r) => r.consistency?.disagrees).map((r) => r.index);
   let flaggedReference: number | null = null;
-  if (refs.length >= 3 && disagreeing.length) {
-    const chis = refs.map((r) => r.consistency!.chiSquarePerDof);
-    const med = median(chis);
-    const standOut = disagreeing.filter((i) => chis[i] > 3 * med);
+  if (refs.length >= 3) {
+    const standOut = refs.filter((r) => r.closestAgreement?.disagrees).map((r) => r.index);
     if (standOut.length === 1) flaggedReference = standOut[0];
   }
   const maxG = Math.max(...elements.map((e) => e.gainStdDb));
@@ -328,8 +332,9 @@ function verdictOf(refs: ReferenceReport[], elements: ElementEstimate[], residua
   let status: VerdictStatus = 'supported';
   if (flaggedReference !== null) {
     status = 'inconsistent';
+    const c = refs[flaggedReference].consistency!;
     messages.push(
-      `Reference ${flaggedReference + 1} disagrees with the others (χ²/dof ${refs[flaggedReference].consistency!.chiSquarePerDof.toFixed(1)}, RMS ${refs[flaggedReference].consistency!.rmsGainDiffDb.toFixed(2)} dB, ${refs[flaggedReference].consistency!.rmsPhaseDiffDeg.toFixed(1)}°): multipath at its position or a wrong bearing is likely; fit again without it.`,
+      `Reference ${flaggedReference + 1} disagrees with the others (χ²/dof ${c.chiSquarePerDof.toFixed(1)}, RMS ${c.rmsGainDiffDb.toFixed(2)} dB, ${c.rmsPhaseDiffDeg.toFixed(1)}°) while they agree among themselves: multipath at its position or a wrong bearing is likely; fit again without it.`,
     );
   } else if (disagreeing.length) {
     status = 'inconsistent';

@@ -246,3 +246,129 @@ describe('a WAV whose every second channel is one sample late', () => {
     expect(errRaw).toBeGreaterThan(10 * errCal);
   });
 });
+
+describe('several references with image-source multipath against one reference', () => {
+  const m = 10;
+  const truth = randomStates(m, 33);
+  const refBearings = [-45, -20, 5, 30, 50];
+  // One reflecting boundary: each position sees its image at its own bearing and phase.
+  const images = refBearings.map((b, r) => ({
+    bearingDeg: Math.max(-85, Math.min(85, -0.7 * b + 14)),
+    re: 0.3 * Math.cos(1.3 + 2.1 * r),
+    im: 0.3 * Math.sin(1.3 + 2.1 * r),
+  }));
+  const refs = refBearings.map((b, r) => ({
+    rows: simulateReference({
+      elements: m,
+      spacingWavelengths: D,
+      bearingsDeg: [b],
+      noisePower: 0.001,
+      snapshots: 4000,
+      seed: 700 + r,
+      states: truth,
+      images: [images[r]],
+    }),
+    bearingsDeg: [b],
+  }));
+
+  it('the joint fit gives held-out bearings closer to the truth than the first reference alone', () => {
+    const single = calibrate([refs[0]], { spacingWavelengths: D });
+    const joint = calibrate(refs, { spacingWavelengths: D });
+    const heldOut = [-32, -8, 18, 40];
+    const err = (states: ElementGainState[]) =>
+      heldOut.map((b, i) => {
+        const rows = simulateReference({
+          elements: m,
+          spacingWavelengths: D,
+          bearingsDeg: [b],
+          noisePower: 0.01,
+          snapshots: 2000,
+          seed: 900 + i,
+          states: truth,
+        });
+        const est = estimateBearings({
+          rows: calibrated(rows, states),
+          spacingWavelengths: D,
+          method: 'root-music',
+          sourceCount: 1,
+        });
+        return Math.abs(est.bearingsDeg[0] - b);
+      });
+    const e1 = err(single.states);
+    const eJ = err(joint.states);
+    const mean = (x: number[]) => x.reduce((s, v) => s + v, 0) / x.length;
+    console.log(
+      `held-out |error|: one reference ${e1.map((e) => e.toFixed(3)).join(', ')}° (mean ${mean(e1).toFixed(3)}°); joint ${eJ.map((e) => e.toFixed(3)).join(', ')}° (mean ${mean(eJ).toFixed(3)}°)`,
+    );
+    expect(mean(eJ)).toBeLessThan(0.7 * mean(e1));
+    // One reference absorbs its own multipath: its residual is small, so only the joint fit shows it.
+    expect(single.report.residual).toBeLessThan(joint.report.residual);
+  });
+
+  it('the verdict names a lone reference that disagrees with the others', () => {
+    const clean = [-40, -5, 25].map((b, r) => ({
+      rows: simulateReference({
+        elements: m,
+        spacingWavelengths: D,
+        bearingsDeg: [b],
+        noisePower: 0.001,
+        snapshots: 4000,
+        seed: 800 + r,
+        states: truth,
+      }),
+      bearingsDeg: [b],
+    }));
+    const bad = refs[3]; // 30° with a 0.3 reflection
+    const all = [clean[0], clean[1], bad, clean[2]];
+    const { report } = calibrate(all, { spacingWavelengths: D });
+    console.log(
+      'χ²/dof per reference:',
+      report.references.map((r) => r.consistency!.chiSquarePerDof.toFixed(1)).join(', '),
+      'closest agreement:',
+      report.references.map((r) => r.closestAgreement!.chiSquarePerDof.toFixed(1)).join(', '),
+      report.verdict.messages[0],
+    );
+    expect(report.verdict.status).toBe('inconsistent');
+    expect(report.verdict.flaggedReference).toBe(2);
+    expect(report.verdict.supported).toBe(false);
+    const good = calibrate(clean, { spacingWavelengths: D });
+    expect(good.report.verdict.disagreeing).toEqual([]);
+    expect(good.report.verdict.status).toBe('supported');
+  });
+});
+
+describe('references the data cannot support', () => {
+  const m = 8;
+  it('refuses a bearing with no signal, a noise-only recording, and too few snapshots', () => {
+    const truth = randomStates(m, 2);
+    const rows = simulateReference({
+      elements: m,
+      spacingWavelengths: D,
+      bearingsDeg: [25],
+      noisePower: 0.01,
+      snapshots: 500,
+      seed: 4,
+      states: truth,
+    });
+    expect(() => calibrate([{ rows, bearingsDeg: [-50] }], { spacingWavelengths: D })).toThrow(CalibrationInputError);
+    expect(() => calibrate([{ rows, bearingsDeg: [-50] }], { spacingWavelengths: D })).toThrow(/no signal at -50°/);
+    const noise = simulateReference({
+      elements: m,
+      spacingWavelengths: D,
+      bearingsDeg: [25],
+      powers: [0],
+      noisePower: 1,
+      snapshots: 500,
+      seed: 5,
+    });
+    expect(() => calibrate([{ rows: noise, bearingsDeg: [25] }], { spacingWavelengths: D })).toThrow(
+      /0 signal\(s\) above the noise/,
+    );
+    const short = { ...rows, rows: 5, re: rows.re.subarray(0, 5 * m), im: rows.im.subarray(0, 5 * m) };
+    expect(() => calibrate([{ rows: short, bearingsDeg: [25] }], { spacingWavelengths: D })).toThrow(
+      /5 snapshots, fewer than its 8 elements/,
+    );
+    // The true bearing passes.
+    expect(calibrate([{ rows, bearingsDeg: [25] }], { spacingWavelengths: D }).report.verdict.status).toBe('supported');
+  });
+});
