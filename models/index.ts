@@ -14,6 +14,7 @@ import { Review } from './review';
 import { Handoff } from './handoff';
 import { Study } from './study';
 import { Job } from './job';
+import { Calibration } from './calibration';
 
 export {
   Team,
@@ -31,10 +32,12 @@ export {
   Handoff,
   Study,
   Job,
+  Calibration,
 };
 export type { JobStatus } from './job';
 export { jobStatuses } from './job';
 export type { StudyStatus } from './study';
+export type { CalibrationStatus } from './calibration';
 export type { RunStatus } from './estimate-run';
 export { runStatuses } from './estimate-run';
 export type { ReviewKind } from './review';
@@ -64,6 +67,7 @@ export function initModels(sequelize: Sequelize): void {
   Handoff.initModel(sequelize);
   Study.initModel(sequelize);
   Job.initModel(sequelize);
+  Calibration.initModel(sequelize);
 
   Team.hasMany(User, { foreignKey: 'teamId', as: 'members' });
   User.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });
@@ -102,4 +106,9 @@ export function initModels(sequelize: Sequelize): void {
   Study.belongsTo(ArrayRevision, { foreignKey: 'arrayRevisionId', as: 'arrayRevision' });
   Study.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
   Job.belongsTo(User, { foreignKey: 'ownerId', as: 'owner' });
+  Team.hasMany(Calibration, { foreignKey: 'teamId', as: 'calibrations' });
+  Calibration.belongsTo(ArrayDesign, { foreignKey: 'arrayId', as: 'array' });
+  Calibration.belongsTo(ArrayRevision, { foreignKey: 'baseRevisionId', as: 'baseRevision' });
+  Calibration.belongsTo(ArrayRevision, { foreignKey: 'revisionId', as: 'revision' });
+  Calibration.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
 }

@@ -6,6 +6,7 @@ import { isSnapshotSetReferenced, snapshotsDir } from '../storage/snapshots';
 import '../data/estimates';
 import '../data/studies';
 import '../data/datasets';
+import '../data/calibrations';
 
 /**
  * Server start (instrumentation.ts): remove what a killed server left in the
