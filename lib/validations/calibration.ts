@@ -6,6 +6,7 @@
  * (`bearingsDeg.1`, `references.0.datasetId`).
  */
 import { z } from 'zod';
+import { ApiError, type FieldErrors } from '@/lib/http';
 import { CALIBRATION_METHODS } from '@/lib/doa/calibration/report';
 
 export const MAX_CALIBRATION_REFERENCES = 8;
@@ -93,4 +94,26 @@ export function referencesOf(input: CalibrationRequest): { datasetId: number; be
 /** The dotted field of a reference's member: `datasetId` for the single form, `references.2.datasetId` otherwise. */
 export function referenceField(prefix: string, member: string): string {
   return prefix ? `${prefix}.${member}` : member;
+}
+
+/**
+ * Parses a request body: 422 with `fields` keyed by the dotted path of each problem
+ * (`bearingsDeg.1`, `references.0.datasetId`), the first one named in the message.
+ */
+export function parseCalibrationRequest(raw: unknown): CalibrationRequest {
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw))
+    throw new ApiError('validation_failed', 'body: the body must be a JSON object', {
+      fields: { _: ['the body must be a JSON object'] },
+    });
+  const parsed = calibrationRequestSchema.safeParse(raw);
+  if (parsed.success) return parsed.data;
+  const fields: FieldErrors = {};
+  for (const issue of parsed.error.issues) {
+    const key = issue.path.length ? issue.path.map(String).join('.') : '_';
+    const message = issue.message.replace(/^(references\[\]\.)?(datasetId|bearingsDeg)(\[\])?/, key);
+    (fields[key] ??= []).push(message);
+  }
+  const [field, messages] = Object.entries(fields)[0];
+  const text = messages[0].startsWith(field) ? messages[0] : `${field === '_' ? 'body' : field}: ${messages[0]}`;
+  throw new ApiError('validation_failed', text, { fields });
 }

@@ -372,3 +372,37 @@ describe('references the data cannot support', () => {
     expect(calibrate([{ rows, bearingsDeg: [25] }], { spacingWavelengths: D }).report.verdict.status).toBe('supported');
   });
 });
+
+describe('the jackknife standard deviations are calibrated', () => {
+  it('over 40 seeded arrays and recordings, (estimate − truth)/σ has mean ≈ 0 and std ≈ 1', () => {
+    const m = 8;
+    const zs: number[] = [];
+    for (let s = 0; s < 40; s++) {
+      const truth = randomStates(m, 41 + s);
+      const rows = simulateReference({
+        elements: m,
+        spacingWavelengths: D,
+        bearingsDeg: [20],
+        noisePower: 0.01,
+        snapshots: 1000,
+        seed: 1 + 100 * s,
+        states: truth,
+      });
+      const { report } = calibrate([{ rows, bearingsDeg: [20] }], { spacingWavelengths: D });
+      for (let i = 1; i < m; i++) {
+        const e = report.elements[i];
+        zs.push((e.gainDb - truth[i].gainDb) / e.gainStdDb);
+        zs.push(wrap(e.phaseDeg - truth[i].phaseDeg) / e.phaseStdDeg);
+      }
+    }
+    const mean = zs.reduce((a, b) => a + b, 0) / zs.length;
+    const sd = Math.sqrt(zs.reduce((a, b) => a + (b - mean) ** 2, 0) / zs.length);
+    const beyond3 = zs.filter((z) => Math.abs(z) > 3).length;
+    console.log(`z over ${zs.length} estimates: mean ${mean.toFixed(3)}, std ${sd.toFixed(3)}, beyond 3σ ${beyond3}`);
+    // Consistency check of the jackknife (common practice): std within ±15 %, ≤ 1 % beyond 3σ.
+    expect(Math.abs(mean)).toBeLessThan(0.15);
+    expect(sd).toBeGreaterThan(0.85);
+    expect(sd).toBeLessThan(1.15);
+    expect(beyond3 / zs.length).toBeLessThanOrEqual(0.01);
+  });
+});

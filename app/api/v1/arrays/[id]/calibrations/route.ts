@@ -1,7 +1,7 @@
-import { handle, parseBody, parseId, readJson } from '@/lib/http';
+import { handle, parseId, readJson } from '@/lib/http';
 import { requireApiPermission } from '@/lib/auth';
 import { listCalibrations, submitCalibration } from '@/lib/data/calibrations';
-import { calibrationRequestSchema } from '@/lib/validations/calibration';
+import { parseCalibrationRequest } from '@/lib/validations/calibration';
 
 export const dynamic = 'force-dynamic';
 
@@ -29,7 +29,7 @@ export const POST = handle<Ctx>(async (req, ctx) => {
   const { id } = await ctx.params;
   const caller = await requireApiPermission(req, 'arrays.edit');
   const arrayId = parseId(id, 'array');
-  const input = parseBody(calibrationRequestSchema, await readJson(req));
+  const input = parseCalibrationRequest(await readJson(req));
   const async = wantsAsync(req);
   const { calibration, revision } = await submitCalibration({ caller, arrayId, input, wait: !async });
   const headers = { location: `/api/v1/arrays/${arrayId}/calibrations/${calibration.id}` };
