@@ -11,3 +11,4 @@ export * from './separation';
 export * from './dataset';
 export * from './study';
 export * from './interaction';
+export * from './calibration';
