@@ -10,29 +10,14 @@ import * as calibrationsRoute from '@/app/api/v1/arrays/[id]/calibrations/route'
 import * as calibrationById from '@/app/api/v1/arrays/[id]/calibrations/[calibrationId]/route';
 import * as acceptRoute from '@/app/api/v1/arrays/[id]/calibrations/[calibrationId]/accept/route';
 import { ArrayRevision, AuditEvent, Calibration, Job } from '@/models';
-import type { ComplexMatrix } from '@/lib/doa';
 import { browserHeaders, json, params, req, type Who } from '../helpers/api';
 import { upload } from './datasets.helpers';
-import { randomStates, simulateReference } from '../lib/doa/calibration-helpers';
+import { csvOf, randomStates, simulateReference } from '../lib/doa/calibration-helpers';
 
 const M = 8;
 const D = 0.5;
 // Seeded; the σ themselves are checked over 40 seeds in tests/lib/doa/calibration.test.ts.
 const truth = randomStates(M, 42);
-
-function csvOf(rows: ComplexMatrix): Buffer {
-  const lines: string[] = [];
-  for (let n = 0; n < rows.rows; n++) {
-    const cells: string[] = [];
-    for (let m = 0; m < rows.cols; m++) {
-      const re = rows.re[n * rows.cols + m];
-      const im = rows.im[n * rows.cols + m];
-      cells.push(`${re}${im < 0 ? '-' : '+'}${Math.abs(im)}j`);
-    }
-    lines.push(cells.join(','));
-  }
-  return Buffer.from(lines.join('\n') + '\n');
-}
 
 async function reference(
   name: string,

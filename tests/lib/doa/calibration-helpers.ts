@@ -194,3 +194,18 @@ export function crbWithGains(o: {
   const scale = o.noisePower / (2 * o.snapshots);
   return o.bearingsDeg.map((_, i) => (Math.sqrt(scale * hinv.re[i * k + i]) * 180) / Math.PI);
 }
+
+/** CSV text of N × M rows, one snapshot per line, cells `a+bj` (docs/conventions.md §6), full precision. */
+export function csvOf(rows: ComplexMatrix): Buffer {
+  const lines: string[] = [];
+  for (let n = 0; n < rows.rows; n++) {
+    const cells: string[] = [];
+    for (let m = 0; m < rows.cols; m++) {
+      const re = rows.re[n * rows.cols + m];
+      const im = rows.im[n * rows.cols + m];
+      cells.push(`${re}${im < 0 ? '-' : '+'}${Math.abs(im)}j`);
+    }
+    lines.push(cells.join(','));
+  }
+  return Buffer.from(lines.join('\n') + '\n');
+}
