@@ -14,7 +14,7 @@
  * Processing 9(3), 1990, pp. 271–300, with the bearings held at their known values
  * (their closed form ĝ = Q⁻¹w / (wᵀQ⁻¹w), w = e_1; the equation number is not quoted
  * because it is from memory). Several references are fitted jointly by summing their Q
- * (docs/references.md §16). With the constraint written as g = [1; h], the minimiser
+ * (docs/references.md §12). With the constraint written as g = [1; h], the minimiser
  * solves Q₂₂·h = −Q₂₁, which stays well posed when the data are noise-free (Q singular).
  *
  * Per-element standard deviations come from a delete-one-block jackknife over the

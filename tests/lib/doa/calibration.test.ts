@@ -1,7 +1,7 @@
 /**
  * Calibration from reference recordings (lib/doa/calibration): accuracy against the
  * simulated truth, Monte Carlo bearings after calibration against the stochastic CRB
- * (docs/references.md §9, §16), the one-sample-late wiring fault in a WAV, and several
+ * (docs/references.md §9, §12), the one-sample-late wiring fault in a WAV, and several
  * references with image-source multipath against one.
  */
 import { describe, expect, it } from 'vitest';
