@@ -1,7 +1,7 @@
 'use client';
 import { useMemo, useState } from 'react';
 import { useRouter } from 'next/navigation';
-import useSWR from 'swr';
+import useSWR, { mutate } from 'swr';
 import { Card, CardHeader } from '@/components/ui/card';
 import { Button } from '@/components/ui/button';
 import { Badge } from '@/components/ui/badge';
@@ -10,6 +10,7 @@ import { Chart } from '@/components/charts/chart';
 import { apiSend, ClientApiError, fetcher } from '@/lib/client/fetcher';
 import { cn } from '@/lib/client/cn';
 import { calibrationBarsOption } from '@/lib/charts/calibration';
+import type { ArrayDetailDto } from '@/lib/data/arrays';
 import type { CalibrationDto } from '@/lib/data/calibrations';
 import type { DatasetListItem } from '@/lib/data/datasets';
 
@@ -105,11 +106,13 @@ export function CalibrationPanel({
     setBusy(true);
     setError(null);
     try {
-      const res = await apiSend<{ revision: { revision: number } }>(
+      const res = await apiSend<{ revision: ArrayDetailDto }>(
         'POST',
         `/api/v1/arrays/${arrayId}/calibrations/${calibration.id}/accept`,
       );
       setAccepted(res.revision.revision);
+      // The workspace's copy of the latest revision, then the server page (the designer reopens on it).
+      await mutate(`/api/v1/arrays/${arrayId}`, res.revision, { revalidate: false });
       router.refresh();
     } catch (err) {
       setError({ message: err instanceof ClientApiError ? err.message : 'The calibration could not be accepted.' });
