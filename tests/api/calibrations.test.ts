@@ -12,7 +12,8 @@ import * as acceptRoute from '@/app/api/v1/arrays/[id]/calibrations/[calibration
 import { ArrayRevision, AuditEvent, Calibration, Job } from '@/models';
 import { browserHeaders, json, params, req, type Who } from '../helpers/api';
 import { upload } from './datasets.helpers';
-import { csvOf, randomStates, simulateReference } from '../lib/doa/calibration-helpers';
+import { csvOf, float32Wav, oddChannelsLate, randomStates, simulateReference } from '../lib/doa/calibration-helpers';
+import { simulateBroadband } from '@/lib/doa/wideband/simulate';
 
 const M = 8;
 const D = 0.5;
@@ -228,5 +229,54 @@ describe('bad inputs: 422 naming the field, nothing stored', () => {
       expect(res.status).toBe(403);
     }
     expect(await stored()).toEqual(before);
+  });
+});
+
+describe('a WAV reference with every second channel one sample late', () => {
+  it('frequencyHz re-analyses it there: −45° on elements 2, 4, … at bin 32 of 256', async () => {
+    const fs = 16000;
+    const res = await arraysRoute.POST(
+      req('POST', '/api/v1/arrays', {
+        body: {
+          name: 'Calibration WAV line',
+          elements: 8,
+          spacing: { value: 0.375, unit: 'm' },
+          frequencyHz: 2000,
+          propagationSpeedMps: 1500,
+        },
+        headers: await browserHeaders('engineer'),
+      }),
+      params({}),
+    );
+    expect(res.status).toBe(201);
+    const wavArray = (await json(res)).id as number;
+    const channels = simulateBroadband({
+      elements: 8,
+      spacingM: 0.375,
+      propagationSpeedMps: 1500,
+      sampleRate: fs,
+      durationS: 4,
+      sources: [{ trajectory: [{ tS: 0, bearingDeg: 30 }], rms: 0.1, bandHz: [1000, 3000] }],
+      noiseRms: 0.005,
+      seed: 9,
+      interpolationHalfLength: 8,
+      firTaps: 63,
+    });
+    // Uploaded with another analysis frequency; the calibration names the one it holds for.
+    const up = await upload('engineer', 'late.wav', float32Wav(oddChannelsLate(channels), fs), {
+      frequencyHz: 1500,
+      fftLength: 256,
+    });
+    expect(up.status, JSON.stringify(up.body)).toBe(201);
+    const cal = await post('engineer', wavArray, { datasetId: up.body.id, bearingsDeg: [30], frequencyHz: 2000 });
+    expect(cal.status, JSON.stringify(cal.body)).toBe(201);
+    expect(cal.body.inputs.analysisFrequencyHz).toBe(2000);
+    expect(cal.body.inputs.spacingWavelengths).toBeCloseTo(0.5, 12);
+    cal.body.elementStates.forEach((s: { gainDb: number; phaseDeg: number }, i: number) => {
+      // A one-sample delay at bin k of L is exp(−j·2π·k/L): k = round(2000·256/16000) = 32, so −45° (docs/conventions.md §6).
+      expect(Math.abs(s.phaseDeg - (i % 2 ? -45 : 0))).toBeLessThan(1);
+      expect(Math.abs(s.gainDb)).toBeLessThan(0.2);
+    });
+    expect(cal.body.revision.config.elementStates[1].phaseDeg).toBeCloseTo(cal.body.elementStates[1].phaseDeg, 2);
   });
 });
