@@ -307,8 +307,8 @@ function CalibrationResultView({
         ))}
       </ul>
       <p className="text-sm text-ink-700 tabular" data-testid="calibration-residual">
-        Residual (share of the steering vectors outside the signal subspace): {(100 * report.residual).toFixed(3)} %
-        after, {(100 * report.residualUncalibrated).toFixed(3)} % before calibration.
+        Residual (share of the steering vectors outside the signal subspace): {(100 * report.residual).toPrecision(3)} %
+        after, {(100 * report.residualUncalibrated).toPrecision(3)} % before calibration.
       </p>
       <div className="grid gap-4 lg:grid-cols-2">
         <figure data-testid="calibration-gain-chart">
