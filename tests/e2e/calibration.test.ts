@@ -89,7 +89,18 @@ describe('calibration panel', () => {
     await panel.getByTestId('calibration-accept').click();
     await panel.getByText(/Accepted as revision 2/).waitFor({ timeout: 20_000 });
     await eng.page.getByTestId('revision-status').getByText('revision 2 of 2').waitFor({ timeout: 20_000 });
-    // The designer now holds the calibrated states, and its figures are those of the calibrated line.
+    // The designer reopens on the new revision (after the page refresh) with the calibrated states,
+    // and its figures are those of the calibrated line.
+    const want1 = calibration.report.elements[1].gainDb;
+    await eng.page.waitForFunction(
+      (g) => {
+        const el = document.querySelector('[data-testid="designer-state"]');
+        const s = el && JSON.parse(el.getAttribute('data-json') ?? '{}');
+        return Boolean(s?.elementStates && Math.abs(s.elementStates[1].gainDb - g) < 1e-3);
+      },
+      want1,
+      { timeout: 20_000 },
+    );
     const json = await eng.page.getByTestId('designer-state').getAttribute('data-json');
     const state = JSON.parse(json!) as {
       elementStates: { enabled: boolean; gainDb: number; phaseDeg: number }[];
