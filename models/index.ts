@@ -15,6 +15,7 @@ import { Handoff } from './handoff';
 import { Study } from './study';
 import { Job } from './job';
 import { BearingTimeRecord } from './bearing-time-record';
+import { Calibration } from './calibration';
 
 export {
   Team,
@@ -33,11 +34,13 @@ export {
   Study,
   Job,
   BearingTimeRecord,
+  Calibration,
 };
 export type { JobStatus } from './job';
 export { jobStatuses } from './job';
 export type { StudyStatus } from './study';
 export type { BearingTimeRecordStatus } from './bearing-time-record';
+export type { CalibrationStatus } from './calibration';
 export type { RunStatus } from './estimate-run';
 export { runStatuses } from './estimate-run';
 export type { ReviewKind } from './review';
@@ -68,6 +71,7 @@ export function initModels(sequelize: Sequelize): void {
   Study.initModel(sequelize);
   Job.initModel(sequelize);
   BearingTimeRecord.initModel(sequelize);
+  Calibration.initModel(sequelize);
 
   Team.hasMany(User, { foreignKey: 'teamId', as: 'members' });
   User.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });
@@ -110,4 +114,9 @@ export function initModels(sequelize: Sequelize): void {
   BearingTimeRecord.belongsTo(Dataset, { foreignKey: 'datasetId', as: 'dataset' });
   BearingTimeRecord.belongsTo(ArrayRevision, { foreignKey: 'arrayRevisionId', as: 'arrayRevision' });
   BearingTimeRecord.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
+  Team.hasMany(Calibration, { foreignKey: 'teamId', as: 'calibrations' });
+  Calibration.belongsTo(ArrayDesign, { foreignKey: 'arrayId', as: 'array' });
+  Calibration.belongsTo(ArrayRevision, { foreignKey: 'baseRevisionId', as: 'baseRevision' });
+  Calibration.belongsTo(ArrayRevision, { foreignKey: 'revisionId', as: 'revision' });
+  Calibration.belongsTo(User, { foreignKey: 'createdById', as: 'createdBy' });
 }

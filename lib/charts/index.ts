@@ -12,3 +12,4 @@ export * from './dataset';
 export * from './study';
 export * from './bearing-time';
 export * from './interaction';
+export * from './calibration';

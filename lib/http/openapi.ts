@@ -13,6 +13,7 @@ import {
   bearingTimeRecordRequestSchema,
   bearingTimeRecordSchema,
 } from '../validations/bearing-time-record';
+import { calibrationRequestSchema } from '../validations/calibration';
 import { planAnswerSchema, planRequestSchema } from '../validations/plan';
 import { bundleQuerySchema, handoffSendSchema } from '../validations/handoff';
 import { reviewCreateSchema, reviewQuerySchema } from '../validations/review';
@@ -73,6 +74,12 @@ const ERROR_TEXT: Record<number, string> = {
   429: 'Rate limited',
 };
 const idParam = { name: 'id', in: 'path', required: true, schema: { type: 'integer', minimum: 1 } };
+const calibrationIdParam = {
+  name: 'calibrationId',
+  in: 'path',
+  required: true,
+  schema: { type: 'integer', minimum: 1 },
+};
 const zip = { 'application/zip': { schema: { type: 'string', format: 'binary' } } };
 
 /** Query parameters from the zod object schema a route parses its query with (all optional). */
@@ -80,6 +87,27 @@ function queryParams(s: z.ZodType) {
   const props = (schema(s, 'input').properties ?? {}) as Record<string, Record<string, unknown>>;
   return Object.entries(props).map(([name, p]) => ({ name, in: 'query', required: false, schema: p }));
 }
+
+const calibrationAnswer = {
+  type: 'object',
+  description:
+    'A calibration: revision (the array at the new revision, or null until accepted), report {method, methodLabel, assumptions, elements:[{element, gainDb, gainStdDb, phaseDeg, phaseStdDeg}], residual, residualUncalibrated, references:[{index, bearingsDeg, snapshots, residual, residualUncalibrated, consistency?, closestAgreement?}], jackknifeBlocks, verdict:{status, supported, disagreeing, flaggedReference, messages}}, elementStates [{gainDb, phaseDeg}] relative to element 1, status, progress, error, inputs.',
+  properties: {
+    id: { type: 'integer' },
+    revision: { type: ['object', 'null'] },
+    status: { type: 'string', enum: ['queued', 'running', 'done', 'failed', 'cancelled'] },
+    progress: { type: 'number' },
+    error: { type: ['string', 'null'] },
+    method: { type: 'string', enum: ['known-bearings', 'self-calibration'] },
+    baseRevision: { type: 'integer' },
+    acceptedRevision: { type: ['integer', 'null'] },
+    elementStates: {
+      type: ['array', 'null'],
+      items: { type: 'object', properties: { gainDb: { type: 'number' }, phaseDeg: { type: 'number' } } },
+    },
+    report: { type: ['object', 'null'] },
+  },
+};
 
 const reviewThread = {
   type: 'object',
@@ -188,6 +216,47 @@ export function openApiDocument() {
           description:
             'revision defaults to the latest; datasets and runs are comma-separated ids to include. The SHA-256 of the zip is in the x-bundle-sha256 header.',
           responses: { '200': { description: 'The bundle', content: zip }, ...errors(401, 403, 404, 422) },
+        },
+      },
+      '/api/v1/arrays/{id}/calibrations': {
+        parameters: [idParam],
+        get: {
+          summary: "The array's calibrations, newest first",
+          responses: {
+            '200': {
+              description: '{items: [calibration, …]}',
+              content: { 'application/json': { schema: { type: 'object' } } },
+            },
+            ...errors(401, 404),
+          },
+        },
+        post: {
+          summary: 'Calibrate element gains and phases from reference recordings at known bearings',
+          description:
+            'One reference {datasetId, bearingsDeg} or several fitted jointly {references:[{datasetId, bearingsDeg}]}; frequencyHz re-analyses WAV references at that frequency; method known-bearings (default) or self-calibration. Runs on the job queue and waits: 201 {revision, report, elementStates, …} with the new array revision already created (revision null with accept:false; accept later). With Prefer: respond-async: 202 with the queued calibration (a proposal). 422 names the field: bearings outside ±90°, a dataset whose channel count differs from the array, fewer snapshots than elements, no signal at a bearing given; nothing is stored.',
+          requestBody: { required: true, content: json('CalibrationRequest') },
+          responses: {
+            '201': { description: 'Calibrated; the new revision and the report', content: json('Calibration') },
+            '202': { description: 'Queued (Prefer: respond-async)', content: json('Calibration') },
+            ...errors(400, 401, 403, 404, 422),
+          },
+        },
+      },
+      '/api/v1/arrays/{id}/calibrations/{calibrationId}': {
+        parameters: [idParam, calibrationIdParam],
+        get: {
+          summary: 'One calibration: status, progress, report, proposed element states, accepted revision',
+          responses: { '200': { description: 'OK', content: json('Calibration') }, ...errors(401, 404) },
+        },
+      },
+      '/api/v1/arrays/{id}/calibrations/{calibrationId}/accept': {
+        parameters: [idParam, calibrationIdParam],
+        post: {
+          summary: 'Accept a finished calibration: creates the array revision with its element states',
+          responses: {
+            '201': { description: 'The new revision (revision) and the calibration', content: json('Calibration') },
+            ...errors(401, 403, 404, 409, 422),
+          },
         },
       },
       '/api/v1/bundles': {
@@ -473,6 +542,8 @@ export function openApiDocument() {
         DatasetCreated: schema(datasetCreatedSchema),
         Dataset: schema(datasetSchema),
         EstimateRequest: schema(estimateRequestSchema, 'input'),
+        CalibrationRequest: schema(calibrationRequestSchema, 'input'),
+        Calibration: calibrationAnswer,
         Estimate: schema(estimateAnswerSchema),
         EstimateRun: schema(estimateRunSchema),
         BoundsRequest: schema(boundsRequestSchema, 'input'),

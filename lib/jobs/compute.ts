@@ -21,6 +21,12 @@ import {
 } from '../studies/monte-carlo';
 import { runMethod, usedCovariance, type MethodResult, type RunOptions } from './estimate-run';
 import { computeBtrBlocks, type BtrBlocksInput, type BtrBlocksOutput } from './btr-blocks';
+import {
+  calibrate,
+  CalibrationInputError,
+  type CalibrationMethod,
+  type CalibrationResult,
+} from '../doa/calibration/report';
 
 /** Where an estimate's snapshots come from. */
 export type SnapshotSource =
@@ -61,8 +67,16 @@ export interface DatasetParseOutput {
   summary: DatasetSummary;
 }
 
+/** A calibration's references (stored datasets, parsed at the analysis frequency) and the fit. */
+export interface CalibrationComputeInput {
+  references: { source: SnapshotSource; bearingsDeg: number[] }[];
+  spacingWavelengths: number;
+  method: CalibrationMethod;
+}
+
 export interface ComputeTasks {
   estimate: { input: EstimateComputeInput; output: { results: MethodResult[] } };
+  calibration: { input: CalibrationComputeInput; output: CalibrationResult };
   study: { input: StudySpec; output: StudyResult };
   'dataset.parse': { input: DatasetParseInput; output: DatasetParseOutput };
   'btr.blocks': { input: BtrBlocksInput; output: BtrBlocksOutput };
@@ -123,6 +137,23 @@ export async function computeEstimate(
   return { results };
 }
 
+/** Reads every reference (40 % of the progress), then fits and reports (lib/doa/calibration/report.ts). */
+export async function computeCalibration(input: CalibrationComputeInput, report: Report): Promise<CalibrationResult> {
+  const count = input.references.length;
+  const references = [];
+  for (let i = 0; i < count; i++) {
+    const r = input.references[i];
+    const rows = await loadRows(r.source, (f) => report((0.4 * (i + f)) / count), 1);
+    references.push({ rows, bearingsDeg: r.bearingsDeg });
+  }
+  report(0.4);
+  return calibrate(references, {
+    spacingWavelengths: input.spacingWavelengths,
+    method: input.method,
+    onProgress: (f) => report(0.4 + 0.6 * f),
+  });
+}
+
 /** Parses an uploaded file and computes its page figures (lib/storage/summary.ts); the snapshots stay in the worker. */
 export async function computeDatasetParse(input: DatasetParseInput, report: Report): Promise<DatasetParseOutput> {
   const parsed = await parseSnapshotFile({
@@ -153,6 +184,8 @@ export async function compute<K extends ComputeTaskName>(
   switch (task) {
     case 'estimate':
       return (await computeEstimate(input as EstimateComputeInput, report)) as ComputeTasks[K]['output'];
+    case 'calibration':
+      return (await computeCalibration(input as CalibrationComputeInput, report)) as ComputeTasks[K]['output'];
     case 'study':
       return (await runStudy(input as StudySpec, { onProgress: report })) as ComputeTasks[K]['output'];
     case 'dataset.parse':
@@ -179,6 +212,9 @@ export interface EncodedError {
   cost?: number;
   budget?: number;
   stack?: string;
+  /** CalibrationInputError: which reference and bearing (0-based). */
+  reference?: number;
+  bearing?: number;
 }
 
 export function encodeError(err: unknown): EncodedError {
@@ -194,6 +230,14 @@ export function encodeError(err: unknown): EncodedError {
   if (err instanceof WidebandInputError) return { name: 'WidebandInputError', message: err.message, field: err.field };
   if (err instanceof DoaInputError) return { name: 'DoaInputError', message: err.message, code: err.code };
   if (err instanceof DoaNumericalError) return { name: 'DoaNumericalError', message: err.message, code: err.code };
+  if (err instanceof CalibrationInputError)
+    return {
+      name: 'CalibrationInputError',
+      message: err.message,
+      field: err.what,
+      reference: err.reference,
+      ...(err.bearing !== undefined ? { bearing: err.bearing } : {}),
+    };
   if (err instanceof StudyInputError) return { name: 'StudyInputError', message: err.message, field: err.field };
   if (err instanceof StudyBudgetError)
     return { name: 'StudyBudgetError', message: err.message, cost: err.cost, budget: err.budget };
@@ -217,6 +261,13 @@ export function decodeError(e: EncodedError): Error {
       return new WidebandInputError(e.field ?? 'options', e.message);
     case 'DoaNumericalError':
       return new DoaNumericalError(e.code as ConstructorParameters<typeof DoaNumericalError>[0], e.message);
+    case 'CalibrationInputError':
+      return new CalibrationInputError(
+        e.message,
+        e.reference ?? 0,
+        (e.field ?? 'bearingsDeg') as 'bearingsDeg' | 'datasetId',
+        e.bearing,
+      );
     case 'StudyInputError':
       return new StudyInputError(e.field ?? 'spec', e.message);
     case 'StudyBudgetError':

@@ -7,6 +7,7 @@ import '../data/estimates';
 import '../data/studies';
 import '../data/datasets';
 import { btrFilesDir, isBtrFileReferenced } from '../data/bearing-time-records';
+import '../data/calibrations';
 
 /**
  * Server start (instrumentation.ts): remove what a killed server left in the

@@ -3,6 +3,7 @@ import * as m0001 from './0001-initial';
 import * as m0002 from './0002-arrays-datasets-runs';
 import * as m0003 from './0003-studies';
 import * as m0004 from './0004-jobs';
+import * as m0005 from './0005-calibrations';
 import * as m0006 from './0006-bearing-time-records';
 
 export type Migration = {
@@ -21,5 +22,6 @@ export const migrations: Migration[] = [
   { name: '0002-arrays-datasets-runs', ...m0002 },
   { name: '0003-studies', ...m0003 },
   { name: '0004-jobs', ...m0004 },
+  { name: '0005-calibrations', ...m0005 },
   { name: '0006-bearing-time-records', ...m0006 },
 ];

@@ -146,6 +146,9 @@ const ids = {
   /** A tiny simulated WAV (3 s, 4 channels) of the demo team and a finished bearing–time record of it. */
   wav: 0,
   btr: 0,
+  /** A finished calibration of a 4-element demo-team array (accept: false). */
+  calibrationArray: 0,
+  calibration: 0,
 };
 let handoffToken = '';
 let bundleBytes: Uint8Array = new Uint8Array();
@@ -526,6 +529,45 @@ const MATRIX: Row[] = [
     expect: { ...teamRead(200), viewer: 403 },
     prepare: async () => ({ params: { id: String(ids.array) }, query: `?datasets=${ids.tinyDataset}` }),
   },
+  // The array's calibrations: every member.
+  {
+    route: '/api/v1/arrays/[id]/calibrations',
+    method: 'GET',
+    expect: teamRead(200),
+    prepare: async () => ({ params: { id: String(ids.calibrationArray) } }),
+  },
+  // A calibration from one reference (a fresh 4-element array and a one-source recording): engineers and admins; the 201 holds the new revision.
+  {
+    route: '/api/v1/arrays/[id]/calibrations',
+    method: 'POST',
+    expect: engineersAndAdmins(201, 404),
+    prepare: async () => {
+      const { arrayId, datasetId } = await calibrationFixture();
+      return { params: { id: String(arrayId) }, body: { datasetId, bearingsDeg: [10] } };
+    },
+    check: ({ res, body }) => {
+      if (res.status === 201) expect(body.revision.revision).toBe(2);
+    },
+  },
+  // One calibration of the demo team: every member.
+  {
+    route: '/api/v1/arrays/[id]/calibrations/[calibrationId]',
+    method: 'GET',
+    expect: teamRead(200),
+    prepare: async () => ({
+      params: { id: String(ids.calibrationArray), calibrationId: String(ids.calibration) },
+    }),
+  },
+  // Accepting a fresh finished calibration as a new revision: engineers and admins.
+  {
+    route: '/api/v1/arrays/[id]/calibrations/[calibrationId]/accept',
+    method: 'POST',
+    expect: engineersAndAdmins(201, 404),
+    prepare: async () => {
+      const { arrayId, calibrationId } = await proposedCalibration();
+      return { params: { id: String(arrayId), calibrationId: String(calibrationId) } };
+    },
+  },
   // Revision 1 of the seeded array.
   {
     route: '/api/v1/arrays/[id]/revisions/[rev]',
@@ -801,6 +843,34 @@ const MATRIX: Row[] = [
   },
 ];
 
+/** A fresh 4-element demo-team array and a one-source (10°) recording for it. */
+async function calibrationFixture(): Promise<{ arrayId: number; datasetId: number }> {
+  const engineer = await userOf('engineer');
+  const { array } = await createArray({
+    user: engineer,
+    config: { name: 'Matrix calibration line', elements: 4, spacing: { value: 0.5, unit: 'wavelength' } },
+  });
+  const { dataset } = await createDataset({
+    user: engineer,
+    elements: 4,
+    spacingWavelengths: 0.5,
+    bearingsDeg: [10],
+    snapshots: 64,
+  });
+  return { arrayId: array.id, datasetId: dataset.id };
+}
+
+/** A finished, not yet accepted calibration of a fresh array. */
+async function proposedCalibration(): Promise<{ arrayId: number; calibrationId: number }> {
+  const { arrayId, datasetId } = await calibrationFixture();
+  const res = await callAs('engineer', '/api/v1/arrays/[id]/calibrations', 'POST', {
+    params: { id: String(arrayId) },
+    body: { datasetId, bearingsDeg: [10], accept: false },
+  });
+  expect(res.status).toBe(201);
+  return { arrayId, calibrationId: (await json(res)).id };
+}
+
 // ---- setup -------------------------------------------------------------------
 
 let discovered: Awaited<ReturnType<typeof discoverRoutes>>;
@@ -835,6 +905,9 @@ beforeAll(async () => {
     receivedAt: new Date(),
   });
   ids.mail = mail.id;
+  const proposed = await proposedCalibration();
+  ids.calibrationArray = proposed.arrayId;
+  ids.calibration = proposed.calibrationId;
 
   ids.wav = (await storeSimulatedWav({ user: engineer })).id;
   const btr = await callAs('engineer', '/api/v1/bearing-time-records', 'POST', { body: tinyBtrBody(ids.wav) });

@@ -2,6 +2,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { ArrayWorkspace } from '@/components/arrays/array-workspace';
 import { ArrayHandoffSection } from '@/components/handoff/array-handoff-section';
+import { CalibrationPanel } from '@/components/arrays/calibration-panel';
 import { formatWhen } from '@/components/arrays/format';
 import { PageHeader } from '@/components/ui/page-header';
 import { Refusal } from '@/components/ui/refusal';
@@ -50,6 +51,15 @@ export default async function ArrayPage({ params, searchParams }: Props) {
         canEdit={canEdit}
         readOnlyReason={canEdit ? undefined : refusalMessage(user.role, 'arrays.edit')}
       />
+      {array.revision === array.latestRevision ? (
+        <CalibrationPanel
+          arrayId={array.id}
+          elements={array.elements}
+          currentStates={array.config.elementStates ?? null}
+          canEdit={canEdit}
+          readOnlyReason={canEdit ? undefined : refusalMessage(user.role, 'arrays.edit')}
+        />
+      ) : null}
       <ArrayHandoffSection caller={user} arrayId={array.id} revision={array.revision} />
     </>
   );
