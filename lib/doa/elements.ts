@@ -16,6 +16,7 @@
  */
 import { DoaInputError } from './errors';
 import { SPECTRAL_METHODS, type DoaMethod } from './methods/registry';
+import { stochasticCrb } from './bounds/crb';
 
 export type ElementSelectionKind = 'all' | 'enabled-true-positions' | 'longest-contiguous-run';
 
@@ -144,4 +145,40 @@ export function describeSelection(method: DoaMethod, s: ElementSelection): strin
   if (s.kind === 'longest-contiguous-run')
     return `${method} used the longest contiguous run of enabled elements, ${describeElements(s.indices)} (${s.indices.length} of ${s.lineElements}; ${off}), because it needs a uniform line`;
   return `${method} used all ${s.lineElements} elements`;
+}
+
+export interface SubsetCost {
+  /** Largest ratio over the sources of the CRB std on the enabled elements to that on the full line. */
+  enabledVsFullLine: number;
+  /** The same for the elements the method used against the enabled elements (1 when it used them all). */
+  usedVsEnabled: number;
+}
+
+/**
+ * What a selection costs in the stochastic CRB (Stoica & Nehorai 1990, uncorrelated sources) at
+ * the given bearings, powers and noise: ratios of √CRB, the largest over the sources.
+ */
+export function subsetCrbCost(input: {
+  spacingWavelengths: number;
+  bearingsDeg: readonly number[];
+  sourcePowers: readonly number[];
+  noisePower: number;
+  snapshots: number;
+  selection: ElementSelection;
+}): SubsetCost {
+  const { selection: s, ...rest } = input;
+  const bound = (indices?: readonly number[]) =>
+    stochasticCrb({ ...rest, elements: s.lineElements, ...(indices ? { elementIndices: indices } : {}) }).stdDeg;
+  const worst = (a: Float64Array, b: Float64Array) => a.reduce((w, v, i) => Math.max(w, v / b[i]), 0);
+  const full = bound();
+  const enabled = s.enabled.length === s.lineElements ? full : bound(s.enabled);
+  const used = s.indices.length === s.enabled.length ? enabled : bound(s.indices);
+  return { enabledVsFullLine: worst(enabled, full), usedVsEnabled: worst(used, enabled) };
+}
+
+/** The cost as a sentence for the 'element-subset' warning. */
+export function describeSubsetCost(s: ElementSelection, cost: SubsetCost): string {
+  const e = `At the estimated bearings and powers the CRB on the ${s.enabled.length} enabled elements is ${cost.enabledVsFullLine.toFixed(2)}× that of the full ${s.lineElements}-element line`;
+  if (s.kind !== 'longest-contiguous-run') return `${e}.`;
+  return `${e}, and on the ${s.indices.length}-element run ${cost.usedVsEnabled.toFixed(2)}× that of the enabled elements (standard deviations, worst source).`;
 }
