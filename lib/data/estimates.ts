@@ -1,4 +1,5 @@
 import 'server-only';
+import { Op } from 'sequelize';
 import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, Job, User } from '@/models';
 import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
@@ -547,7 +548,11 @@ registerJobKind<void>({
   },
   async onState({ inputRef, status, progress, error }) {
     if (status === 'done') return;
-    await EstimateRun.update({ status, progress, error }, { where: { id: Number(inputRef) } });
+    // A late heartbeat ('running') must not overwrite the 'done' that run() wrote with the result.
+    await EstimateRun.update(
+      { status, progress, error },
+      { where: { id: Number(inputRef), status: { [Op.ne]: 'done' } } },
+    );
   },
   describeError(err) {
     const mapped = engineToApi(err);
