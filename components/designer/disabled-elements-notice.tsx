@@ -1,11 +1,11 @@
 'use client';
 
 /**
- * Explains what disabled elements mean for estimation, as lib/data/estimates.ts
- * enforces it: ESPRIT-family methods and root-MUSIC need the full uniform array
- * (shift invariance / a polynomial in z over every element), and the spectral
- * methods are evaluated for contiguous elements too, so an estimate on a
- * revision with disabled elements is refused with the elements named.
+ * Explains what disabled elements mean for estimation, as lib/doa/elements.ts
+ * selects them: MUSIC, Bartlett and MVDR use every enabled element at its true
+ * position; ESPRIT-family methods and root-MUSIC (shift invariance / a polynomial
+ * in z) use the longest run of enabled neighbours; each run says so in a warning
+ * with what it costs in the Cramér–Rao bound.
  */
 import type { enabledSummary } from '@/lib/designer/state';
 
@@ -39,17 +39,15 @@ export function DisabledElementsNotice({ summary, elements }: DisabledElementsNo
         shift-invariant: every element present, equally spaced. With a gap they do not apply.
       </p>
       <p className="mt-1">
-        <strong className="font-semibold">What an estimate will do:</strong> it refuses to run on this revision and
-        names the disabled elements, because every method here assumes a full, evenly spaced line (a gap would bias the
-        spectra, not just widen them). The beam figures above already leave the disabled elements out, so you can still
-        judge the damaged pattern.
+        <strong className="font-semibold">What an estimate will do:</strong> MUSIC, Bartlett and MVDR use the{' '}
+        {enabledCount} enabled elements at their true positions. ESPRIT and root-MUSIC (and any run with smoothing,
+        forward–backward averaging or the single-snapshot option) use only{' '}
+        {longestRun.length >= 2
+          ? `elements ${longestRun.start + 1}–${longestRun.start + longestRun.length}, the longest run of enabled neighbours (${longestRun.length} elements)`
+          : 'the longest run of enabled neighbours, and there is none of two or more here, so they cannot run'}
+        . Each run warns which elements it used and what that costs in the Cramér–Rao bound. The beam figures above
+        already leave the disabled elements out.
       </p>
-      {longestRun.length >= 2 && longestRun.length < elements ? (
-        <p className="mt-1 text-xs">
-          To estimate bearings, re-enable the elements or save a variant with only elements {longestRun.start + 1}–
-          {longestRun.start + longestRun.length} (the longest run of enabled neighbours, {longestRun.length} elements).
-        </p>
-      ) : null}
     </div>
   );
 }

@@ -37,6 +37,7 @@ type EstimateFormValues = {
   smoothingSubarray: string;
   singleSnapshot: boolean;
   singleSnapshotSubarray: string;
+  applyCalibration: boolean;
 };
 
 const keyOf = (a: ArrayChoice) => `${a.id}:${a.revision}`;
@@ -51,6 +52,22 @@ function arrayChoice(arrays: ArrayChoice[], dataset: DatasetOption | undefined, 
   return { matching, chosen };
 }
 
+/** The longest run of enabled neighbours, 1-based, as "a–b (n elements)" (lib/doa/elements.ts picks the same one). */
+function longestRunText(elements: number, disabled: number[]): string {
+  const off = new Set(disabled);
+  let best = { start: 0, length: 0 };
+  let start = -1;
+  for (let m = 1; m <= elements; m++) {
+    if (off.has(m)) {
+      start = -1;
+      continue;
+    }
+    if (start < 0) start = m;
+    if (m - start + 1 > best.length) best = { start, length: m - start + 1 };
+  }
+  return `${best.start}–${best.start + best.length - 1} (${best.length} elements)`;
+}
+
 /** The POST /api/v1/estimates body the inputs describe (validated by estimateRequestSchema afterwards). */
 function estimateRequestFromForm(v: EstimateFormValues, arrays: ArrayChoice[], datasets: DatasetOption[]): unknown {
   const dataset = datasets.find((d) => String(d.id) === v.datasetId);
@@ -60,6 +77,7 @@ function estimateRequestFromForm(v: EstimateFormValues, arrays: ArrayChoice[], d
     if (chosen) {
       body.arrayId = chosen.id;
       body.arrayRevision = chosen.revision;
+      if (chosen.calibrated) body.applyCalibration = v.applyCalibration;
     }
   } else body.array = { elements: dataset?.elements ?? 0, spacingWavelengths: num(v.array.spacingWavelengths) };
   if (v.sourceCountRule === 'given') body.sourceCount = num(v.sourceCount);
@@ -110,6 +128,7 @@ export function EstimateForm({
       smoothingSubarray: '',
       singleSnapshot: false,
       singleSnapshotSubarray: '',
+      applyCalibration: true,
     },
   });
   const { register, handleSubmit, setError, control, formState } = form;
@@ -232,6 +251,21 @@ export function EstimateForm({
                   ? `The array has ${chosenArray!.elements} elements but the dataset has ${elements} columns.`
                   : 'Only arrays whose element count equals the dataset’s columns are listed; each saved revision is a choice, and the run keeps the one you pick.')}
             </p>
+            {geometry === 'array' && chosenArray?.calibrated ? (
+              <label className="mt-2 flex items-center gap-1.5 text-sm">
+                <input type="checkbox" {...register('applyCalibration')} /> Apply the calibration of revision{' '}
+                {chosenArray.revision} (divide each element by its gain and phase)
+              </label>
+            ) : null}
+            {geometry === 'array' && chosenArray?.disabledElements.length ? (
+              <p className="mt-1 text-xs text-amber-800" data-testid="elements-used">
+                Element{chosenArray.disabledElements.length === 1 ? '' : 's'} {chosenArray.disabledElements.join(', ')}{' '}
+                disabled. MUSIC, Bartlett and MVDR will use the{' '}
+                {chosenArray.elements - chosenArray.disabledElements.length} enabled elements at their true positions;
+                ESPRIT and root-MUSIC (and any run with smoothing, forward–backward or single-snapshot) will use
+                elements {longestRunText(chosenArray.elements, chosenArray.disabledElements)}.
+              </p>
+            ) : null}
           </fieldset>
         </div>
 

@@ -56,9 +56,16 @@ export type RunDto = {
   inputs: {
     methods: string[];
     options: Record<string, unknown>;
-    array: { elements: number; spacingWavelengths: number; name?: string; revision?: number };
+    array: {
+      elements: number;
+      spacingWavelengths: number;
+      name?: string;
+      revision?: number;
+      disabledElements?: number[];
+    };
     dataset?: { id: number; name: string; sha256: string };
     rerunOf?: number;
+    calibration?: { applied: boolean; revision?: number; note?: string };
   };
   results: MethodResult[];
 };
@@ -199,6 +206,21 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
           ) : null}
           {run.error ? <FormMessage tone="error">{run.error}</FormMessage> : null}
           {rerun.error ? <FormMessage tone="error">{rerun.error}</FormMessage> : null}
+          <p className="text-sm text-ink-600" data-testid="run-calibration">
+            {run.inputs.calibration?.applied
+              ? `Calibration of revision ${run.inputs.calibration.revision} applied: the snapshots were divided by its element gains and phases before the covariance.`
+              : run.inputs.calibration?.note
+                ? `No calibration applied. ${run.inputs.calibration.note}`
+                : 'No calibration applied.'}
+          </p>
+          {run.inputs.array.disabledElements?.length ? (
+            <p className="text-sm text-amber-800" data-testid="run-disabled-elements">
+              Element{run.inputs.array.disabledElements.length === 1 ? '' : 's'}{' '}
+              {run.inputs.array.disabledElements.join(', ')} disabled: MUSIC, Bartlett and MVDR used the enabled
+              elements at their true positions, ESPRIT and root-MUSIC the longest contiguous run (see the warnings for
+              what each used and its cost in the Cramér–Rao bound).
+            </p>
+          ) : null}
           {run.inputs.rerunOf ? (
             <p className="text-sm text-ink-600">
               A re-run of run {run.inputs.rerunOf} with the same array revision, dataset checksum and options.

@@ -62,6 +62,42 @@ export const bundleDatasetOptionsSchema = z
   .partial();
 
 /**
+ * The element calibration a run applied (inputs.calibration, lib/data/estimates.ts RunCalibration):
+ * gains in dB and phases in degrees per element relative to element 1 (docs/conventions.md §9).
+ * A re-run divides the snapshots by these gains when `applied` is true.
+ */
+export const bundleRunCalibrationSchema = z.object({
+  applied: z.boolean({ error: 'inputs.calibration.applied must be true or false' }),
+  revision: z.number().int().min(1).optional(),
+  arrayRevisionId: z.number().int().optional(),
+  gains: z
+    .array(
+      z.object({
+        gainDb: z.number({ error: 'inputs.calibration.gains[].gainDb must be a number' }).min(-200).max(200),
+        phaseDeg: z.number({ error: 'inputs.calibration.gains[].phaseDeg must be a number' }).min(-3600).max(3600),
+      }),
+    )
+    .max(4096)
+    .optional(),
+  note: z.string().max(400).optional(),
+});
+export type BundleRunCalibration = z.infer<typeof bundleRunCalibrationSchema>;
+
+/** inputs.array.disabledElements of a run: 1-based element numbers, ascending. */
+export const bundleRunDisabledElementsSchema = z
+  .array(z.number().int().min(1), { error: 'inputs.array.disabledElements must be a list of element numbers' })
+  .max(4096)
+  .refine((v) => v.every((x, i) => i === 0 || x > v[i - 1]), {
+    error: 'inputs.array.disabledElements must be strictly ascending',
+  });
+
+/** The parts of a run's inputs the re-run reads besides the options: calibration and disabled elements. */
+export const bundleRunImperfectionsSchema = z.object({
+  calibration: bundleRunCalibrationSchema.optional(),
+  array: z.object({ disabledElements: bundleRunDisabledElementsSchema.optional() }).loose().optional(),
+});
+
+/**
  * runs/<id>.json: one finished estimate run. `dataset` is the folder of its
  * dataset inside the bundle (datasets/<id>), or null when the data is not
  * included; `inputs` and `result` are stored as lib/data/estimates.ts wrote them.
@@ -73,7 +109,12 @@ export const bundleRunSchema = z.object({
   softwareVersion: z.string().max(40),
   datasetSha256: z.string().nullable(),
   dataset: z.string().nullable(),
-  inputs: z.record(z.string(), z.unknown()),
+  inputs: z.record(z.string(), z.unknown()).superRefine((inputs, ctx) => {
+    const parsed = bundleRunImperfectionsSchema.safeParse(inputs);
+    if (!parsed.success)
+      for (const issue of parsed.error.issues)
+        ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message });
+  }),
   result: z.record(z.string(), z.unknown()),
 });
 export type BundleRunJson = z.infer<typeof bundleRunSchema>;

@@ -376,6 +376,8 @@ export interface ArrayChoice {
   elements: number;
   spacingWavelengths: number;
   disabledElements: number[];
+  /** Some element has a gain or phase other than 0 dB, 0° (the estimate form offers to apply it). */
+  calibrated: boolean;
 }
 
 /** The team's arrays at their latest revision (or every revision, newest first, with `allRevisions`), for the upload, estimate and study forms. */
@@ -400,10 +402,12 @@ export async function listArrayChoices({
 }
 
 function arrayChoiceOf(a: ArrayDesign, r: ArrayRevision): ArrayChoice {
-  const states = (r.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
+  const states = (r.config as { elementStates?: { enabled?: boolean; gainDb?: number; phaseDeg?: number }[] })
+    .elementStates;
   const disabledElements = Array.isArray(states)
     ? states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : []))
     : [];
+  const calibrated = Array.isArray(states) && states.some((s) => s && (Number(s.gainDb) || Number(s.phaseDeg)));
   return {
     id: a.id,
     name: a.name,
@@ -412,5 +416,6 @@ function arrayChoiceOf(a: ArrayDesign, r: ArrayRevision): ArrayChoice {
     elements: r.elements,
     spacingWavelengths: r.spacingWavelengths,
     disabledElements,
+    calibrated,
   };
 }

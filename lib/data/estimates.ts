@@ -1,4 +1,5 @@
 import 'server-only';
+import { Op } from 'sequelize';
 import { ArrayDesign, ArrayRevision, Dataset, EstimateRun, Job, User } from '@/models';
 import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
@@ -10,9 +11,11 @@ import {
   defaultSingleSnapshotSubarray,
   DoaInputError,
   DoaNumericalError,
+  selectElements,
   type ComplexMatrix,
   type DoaMethod,
 } from '../doa';
+import { isUnitGain, type ElementGainState } from '../doa/calibration';
 import { enqueueJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
 import type { MethodResult, RunOptions } from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
@@ -33,6 +36,22 @@ export interface RunArray {
   arrayRevisionId?: number;
   revision?: number;
   name?: string;
+  /** Disabled elements of the revision, 1-based (absent or empty: all enabled). */
+  disabledElements?: number[];
+}
+
+/**
+ * The element calibration a run applied (docs/conventions.md §9). `applied` with the
+ * revision it came from and its gains (dB, deg per element, relative to element 1), or not
+ * applied with the reason.
+ */
+export interface RunCalibration {
+  applied: boolean;
+  revision?: number;
+  arrayRevisionId?: number;
+  gains?: ElementGainState[];
+  /** Why nothing was applied, for people. */
+  note?: string;
 }
 
 /** What a run stores as `inputs`: the request as validated plus what it resolved to. */
@@ -45,6 +64,8 @@ export interface RunInputs {
   /** Inline snapshots, stored once by content (lib/storage/snapshots.ts); `request.snapshots` is then left out. */
   snapshotSet?: SnapshotSetRef;
   rerunOf?: number;
+  /** Absent in runs stored before calibrations were applied (nothing was). */
+  calibration?: RunCalibration;
 }
 
 export interface EstimateRunDto {
@@ -116,11 +137,78 @@ export function v1RunBody(run: EstimateRunDto) {
   return { ...v1Answer(run), ...run };
 }
 
+type StoredElementState = { enabled?: boolean; gainDb?: number; phaseDeg?: number };
+
+function elementStatesOf(revision: ArrayRevision): StoredElementState[] {
+  const states = (revision.config as { elementStates?: StoredElementState[] }).elementStates;
+  return Array.isArray(states) ? states : [];
+}
+
 /** An array revision's disabled elements (from the designer's elementStates), 1-based. */
 function disabledElements(revision: ArrayRevision): number[] {
-  const states = (revision.config as { elementStates?: { enabled?: boolean }[] }).elementStates;
-  if (!Array.isArray(states)) return [];
-  return states.flatMap((s, i) => (s && s.enabled === false ? [i + 1] : []));
+  return elementStatesOf(revision).flatMap((s, i) => (s && s.enabled === false ? [i + 1] : []));
+}
+
+/** The revision's gains (every element, 0 dB and 0° where a state is missing), or null when none differs from 1. */
+function revisionGains(revision: ArrayRevision): ElementGainState[] | null {
+  const states = elementStatesOf(revision);
+  const gains = Array.from({ length: revision.elements }, (_, i) => ({
+    gainDb: Number(states[i]?.gainDb ?? 0) || 0,
+    phaseDeg: Number(states[i]?.phaseDeg ?? 0) || 0,
+  }));
+  return isUnitGain(gains) ? null : gains;
+}
+
+/** 0-based enabled elements of a run's line (all when none is disabled). */
+export function enabledIndicesOf(array: RunArray): number[] {
+  const off = new Set(array.disabledElements ?? []);
+  return Array.from({ length: array.elements }, (_, i) => i).filter((i) => !off.has(i + 1));
+}
+
+/**
+ * The smallest element count the methods of a run use on a line with disabled elements
+ * (lib/doa selectElements), for the size checks; 422 naming arrayId when a method cannot run.
+ */
+function usableElements(array: RunArray, methods: DoaMethod[], options: RunOptions): number {
+  if (!array.disabledElements?.length) return array.elements;
+  const enabled = enabledIndicesOf(array);
+  let least = array.elements;
+  for (const method of methods) {
+    try {
+      least = Math.min(least, selectElements(method, enabled, array.elements, options).indices.length);
+    } catch (err) {
+      if (err instanceof DoaInputError)
+        throw new ApiError(
+          'validation_failed',
+          `Array "${array.name}" (revision ${array.revision}): ${err.message} (disabled elements ${array.disabledElements.join(', ')}).`,
+          { fields: { arrayId: [err.message] } },
+        );
+      throw err;
+    }
+  }
+  return least;
+}
+
+/** What a run applies: the revision's calibration unless switched off or there is none. */
+function calibrationFor(input: EstimateRequest, array: RunArray, gains: ElementGainState[] | null): RunCalibration {
+  if (array.arrayRevisionId === undefined)
+    return { applied: false, note: 'The array was given inline; it carries no calibration.' };
+  if (!gains)
+    return {
+      applied: false,
+      revision: array.revision,
+      arrayRevisionId: array.arrayRevisionId,
+      note: `Revision ${array.revision} has no calibration (every element at 0 dB, 0°).`,
+    };
+  if (input.applyCalibration === false)
+    return {
+      applied: false,
+      revision: array.revision,
+      arrayRevisionId: array.arrayRevisionId,
+      gains,
+      note: `The calibration of revision ${array.revision} was switched off for this run.`,
+    };
+  return { applied: true, revision: array.revision, arrayRevisionId: array.arrayRevisionId, gains };
 }
 
 /**
@@ -175,7 +263,7 @@ async function resolveArray({
   input: EstimateRequest;
   dataset: Dataset | null;
   pinnedRevisionId?: number;
-}): Promise<RunArray> {
+}): Promise<{ array: RunArray; gains: ElementGainState[] | null }> {
   let revision: ArrayRevision | null = null;
   let design: ArrayDesign | null = null;
   if (pinnedRevisionId !== undefined) {
@@ -189,7 +277,10 @@ async function resolveArray({
         `The array revision this run used (id ${pinnedRevisionId}) no longer exists; start a new run.`,
       );
   } else if (input.array) {
-    return { elements: input.array.elements, spacingWavelengths: input.array.spacingWavelengths };
+    return {
+      array: { elements: input.array.elements, spacingWavelengths: input.array.spacingWavelengths },
+      gains: null,
+    };
   } else {
     const arrayId = input.arrayId ?? (dataset?.arrayId as number | null) ?? undefined;
     if (arrayId === undefined) {
@@ -208,20 +299,17 @@ async function resolveArray({
     }));
   }
   const disabled = disabledElements(revision);
-  if (disabled.length) {
-    throw new ApiError(
-      'validation_failed',
-      `Array "${design.name}" (revision ${revision.revision}) has disabled element(s) ${disabled.join(', ')}. The estimators assume a full uniform line (ESPRIT and root-MUSIC need the shift invariance, and the spectra are computed for contiguous elements), so runs on an array with disabled elements are refused; enable them in the designer or use an array without gaps.`,
-      { fields: { arrayId: [`elements ${disabled.join(', ')} are disabled`] } },
-    );
-  }
   return {
-    elements: revision.elements,
-    spacingWavelengths: revision.spacingWavelengths,
-    arrayId: design.id,
-    arrayRevisionId: revision.id,
-    revision: revision.revision,
-    name: design.name,
+    array: {
+      elements: revision.elements,
+      spacingWavelengths: revision.spacingWavelengths,
+      arrayId: design.id,
+      arrayRevisionId: revision.id,
+      revision: revision.revision,
+      name: design.name,
+      ...(disabled.length ? { disabledElements: disabled } : {}),
+    },
+    gains: revisionGains(revision),
   };
 }
 
@@ -260,8 +348,8 @@ function engineToApi(err: unknown): unknown {
 
 /**
  * Validates and stores a run, queues it, and (when `wait`) resolves once it
- * is done. Size problems (K ≥ L, a mismatched element count, disabled
- * elements) are 422 before anything is stored; a run the engine refuses when
+ * is done. Size problems (K ≥ L of the elements a method uses, a mismatched
+ * element count, no usable run of enabled elements) are 422 before anything is stored; a run the engine refuses when
  * waited on is removed and answered with 422.
  */
 export async function submitEstimate({
@@ -291,7 +379,7 @@ export async function submitEstimate({
     m = input.snapshots!.re[0].length;
     n = input.snapshots!.re.length;
   }
-  const array = await resolveArray({ caller, input, dataset, pinnedRevisionId });
+  const { array, gains } = await resolveArray({ caller, input, dataset, pinnedRevisionId });
   if (array.elements !== m) {
     const what = dataset
       ? `dataset "${dataset.name}" has ${m} columns (elements)`
@@ -306,8 +394,9 @@ export async function submitEstimate({
     );
   }
   const options = optionsOf(input);
-  checkSizes(m, options, n);
   const methods: DoaMethod[] = input.methods ?? [input.method!];
+  checkSizes(usableElements(array, methods, options), options, n);
+  const calibration = calibrationFor(input, array, gains);
   let request = input;
   let snapshotSet: SnapshotSetRef | undefined;
   if (input.snapshots) {
@@ -334,6 +423,7 @@ export async function submitEstimate({
         }
       : {}),
     ...(rerunOf !== undefined ? { rerunOf } : {}),
+    calibration,
   };
   const { run, job } = await db.transaction(async (transaction) => {
     const created = await EstimateRun.create(
@@ -442,6 +532,8 @@ registerJobKind<void>({
       spacingWavelengths: inputs.array.spacingWavelengths,
       methods: inputs.methods,
       options: inputs.options,
+      ...(inputs.calibration?.applied && inputs.calibration.gains ? { calibration: inputs.calibration.gains } : {}),
+      ...(inputs.array.disabledElements?.length ? { enabledIndices: enabledIndicesOf(inputs.array) } : {}),
     };
     const { results } = await runCompute('estimate', input, {
       signal,
@@ -456,7 +548,11 @@ registerJobKind<void>({
   },
   async onState({ inputRef, status, progress, error }) {
     if (status === 'done') return;
-    await EstimateRun.update({ status, progress, error }, { where: { id: Number(inputRef) } });
+    // A late heartbeat ('running') must not overwrite the 'done' that run() wrote with the result.
+    await EstimateRun.update(
+      { status, progress, error },
+      { where: { id: Number(inputRef), status: { [Op.ne]: 'done' } } },
+    );
   },
   describeError(err) {
     const mapped = engineToApi(err);

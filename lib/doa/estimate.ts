@@ -39,6 +39,7 @@ import { musicSpectrumValues } from './methods/music';
 import { SourceCountRule, sourceCountCriteria } from './methods/source-count';
 import { AngleGrid, DEFAULT_GRID, gridAngles, toDecibels, validateGrid } from './methods/spectrum';
 import { DoaWarning } from './warnings';
+import { describeSelection, selectElements, type ElementSelectionKind } from './elements';
 
 export interface EstimateBearingsOptions {
   /** M × N snapshot matrix (one snapshot per column). Give this or `rows`. */
@@ -64,6 +65,14 @@ export interface EstimateBearingsOptions {
   includeSpectrum?: boolean;
   /** Spectral grid. Default DEFAULT_GRID. */
   grid?: AngleGrid;
+  /**
+   * The enabled elements of the line, 0-based indices into the data's M elements, strictly
+   * ascending (docs/conventions.md §9: element m stays at m·d). Default: all M. With gaps, the
+   * method uses the elements lib/doa/elements.ts selectElements picks (spectral methods: all
+   * enabled at their true positions; ESPRIT, root-MUSIC and any smoothing, single-snapshot or
+   * forward–backward step: the longest contiguous run), and an 'element-subset' warning says so.
+   */
+  elementIndices?: readonly number[];
 }
 
 export interface EstimateBearingsResult {
@@ -80,6 +89,8 @@ export interface EstimateBearingsResult {
   effectiveElements: number;
   /** MDL/AIC curves on those eigenvalues (k = 0 … L−1), with the N used. */
   criteria: { logLikelihood: number[]; mdl: number[]; aic: number[]; snapshotsUsed: number };
+  /** Present when `elementIndices` was given: which elements were used (0-based on the full line). */
+  elementSelection?: { kind: ElementSelectionKind; indices: number[]; lineElements: number };
 }
 
 /** Warn about a source count this close to the effective element count: L − K ≤ 2. */
@@ -90,6 +101,58 @@ export const ESPRIT_EFFICIENCY_ELEMENTS = 12;
 export function estimateBearings(options: EstimateBearingsOptions): EstimateBearingsResult {
   if (options === null || typeof options !== 'object')
     throw new DoaInputError('bad-option', 'estimateBearings: options must be an object');
+  if (options.elementIndices === undefined) return estimateOnPositions(options, undefined);
+  const { elementIndices, snapshots, rows, ...rest } = options;
+  if (!isDoaMethod(options.method)) {
+    throw new DoaInputError('bad-option', `method "${String(options.method)}" is not one of ${DOA_METHODS.join(', ')}`);
+  }
+  if ((snapshots === undefined) === (rows === undefined)) {
+    throw new DoaInputError('bad-option', 'give exactly one of `snapshots` (M × N) and `rows` (N × M)');
+  }
+  const data = (snapshots ?? rows) as ComplexMatrix;
+  checkMatrixShape(data, snapshots ? 'snapshots' : 'rows');
+  const m = snapshots ? data.rows : data.cols;
+  const selection = selectElements(options.method, elementIndices, m, options);
+  const summary = { kind: selection.kind, indices: selection.indices, lineElements: m };
+  if (selection.kind === 'all')
+    return { ...estimateOnPositions({ ...options, elementIndices: undefined }, undefined), elementSelection: summary };
+  const picked = snapshots ? pickRows(data, selection.indices) : pickColumns(data, selection.indices);
+  const first = selection.indices[0];
+  const positions =
+    selection.kind === 'enabled-true-positions' ? Int32Array.from(selection.indices, (i) => i - first) : undefined;
+  const res = estimateOnPositions({ ...rest, ...(snapshots ? { snapshots: picked } : { rows: picked }) }, positions);
+  res.warnings.unshift({ code: 'element-subset', message: `${describeSelection(options.method, selection)}.` });
+  return { ...res, elementSelection: summary };
+}
+
+function pickRows(a: ComplexMatrix, indices: readonly number[]): ComplexMatrix {
+  const re = new Float64Array(indices.length * a.cols);
+  const im = new Float64Array(indices.length * a.cols);
+  indices.forEach((r, i) => {
+    re.set(a.re.subarray(r * a.cols, (r + 1) * a.cols), i * a.cols);
+    im.set(a.im.subarray(r * a.cols, (r + 1) * a.cols), i * a.cols);
+  });
+  return { rows: indices.length, cols: a.cols, re, im };
+}
+
+function pickColumns(a: ComplexMatrix, indices: readonly number[]): ComplexMatrix {
+  const l = indices.length;
+  const re = new Float64Array(a.rows * l);
+  const im = new Float64Array(a.rows * l);
+  for (let r = 0; r < a.rows; r++) {
+    for (let i = 0; i < l; i++) {
+      re[r * l + i] = a.re[r * a.cols + indices[i]];
+      im[r * l + i] = a.im[r * a.cols + indices[i]];
+    }
+  }
+  return { rows: a.rows, cols: l, re, im };
+}
+
+/** The pipeline on one set of elements; `positions` (units of d, from 0) only for spectral methods on a line with gaps. */
+function estimateOnPositions(
+  options: EstimateBearingsOptions,
+  positions: Int32Array | undefined,
+): EstimateBearingsResult {
   const method = options.method;
   if (!isDoaMethod(method)) {
     throw new DoaInputError('bad-option', `method "${String(method)}" is not one of ${DOA_METHODS.join(', ')}`);
@@ -172,6 +235,7 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
     sourceCount: k,
     spacingWavelengths: d,
     grid,
+    ...(positions ? { positions } : {}),
   });
 
   const warnings: DoaWarning[] = [];
@@ -201,7 +265,7 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
       message: `ESPRIT with maximal-overlap subarrays on ${m} elements loses efficiency as M grows (error ∝ M^−1 instead of M^−1.5); set smoothingSubarray to about 2M/3 = ${advice}`,
     });
   }
-  if (!single && smoothL === undefined && m >= 4) {
+  if (!single && smoothL === undefined && m >= 4 && !positions) {
     const coherent = coherenceCheck(sample, fb, n, crit.mdlChoice, m);
     if (coherent) warnings.push(coherent);
   }
@@ -209,7 +273,7 @@ export function estimateBearings(options: EstimateBearingsOptions): EstimateBear
 
   let spectrum: EstimateBearingsResult['spectrum'];
   if (includeSpectrum) {
-    const values = out.spectrum?.values ?? musicSpectrumValues(eig.vectors, k, d, gridAngles(grid));
+    const values = out.spectrum?.values ?? musicSpectrumValues(eig.vectors, k, d, gridAngles(grid), positions);
     spectrum = {
       kind: out.spectrum?.kind ?? 'music',
       startDeg: grid.startDeg,

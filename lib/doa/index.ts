@@ -28,6 +28,7 @@ export * from './methods/music';
 export * from './methods/root-music';
 export * from './methods/beamformers';
 export * from './estimate';
+export * from './elements';
 // Simulation and metrics:
 export * from './sim/simulate';
 export * from './design/metrics';

@@ -18,7 +18,9 @@ export type DoaWarningCode =
   /** A spectral method found fewer peaks than the source count. */
   | 'fewer-peaks-than-sources'
   /** Root-MUSIC found fewer admissible roots than the source count. */
-  | 'fewer-roots-than-sources';
+  | 'fewer-roots-than-sources'
+  /** Disabled elements: the method used a subset of the line (lib/doa/elements.ts says which). */
+  | 'element-subset';
 
 export interface DoaWarning {
   readonly code: DoaWarningCode;

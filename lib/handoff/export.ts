@@ -34,6 +34,21 @@ const iso = (d: Date | string) => new Date(d).toISOString();
 const parseJson = <T>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
 
 /** A file name: lower-case letters, digits and hyphens. */
+/** One line on what a run applied: the calibration and the disabled elements (read from its inputs). */
+export function runConditions(inputs: Record<string, unknown>): string {
+  const cal = inputs.calibration as { applied?: boolean; revision?: number; note?: string } | undefined;
+  const disabled = (inputs.array as { disabledElements?: number[] } | undefined)?.disabledElements ?? [];
+  const calText = !cal
+    ? 'calibration: none recorded (run stored before calibrations were applied)'
+    : cal.applied
+      ? `calibration of revision ${cal.revision} applied (gains in the run file; a re-run divides by them again)`
+      : `calibration not applied${cal.note ? `: ${cal.note}` : ''}`;
+  const elText = disabled.length
+    ? `disabled elements ${disabled.join(', ')} left out (see the run's element-subset warnings)`
+    : 'all elements used';
+  return `${calText}; ${elText}.`;
+}
+
 export function slug(text: string, fallback = 'array'): string {
   const s = text
     .normalize('NFKD')
@@ -154,7 +169,7 @@ export function summaryText({
     );
   if (disabled.length)
     cautions.push(
-      `${disabled.length} element(s) are disabled: the array is no longer uniform, so ESPRIT-family methods (which need shift invariance) and root-MUSIC cannot use it as is.`,
+      `${disabled.length} element(s) are disabled: the array is no longer uniform. MUSIC, Bartlett and MVDR use the enabled elements at their true positions; ESPRIT-family methods (which need shift invariance) and root-MUSIC use the longest run of enabled neighbours, with a larger Cramér–Rao bound.`,
     );
   for (const w of fig.geometry.warnings) if (w.code !== 'no-frequency') cautions.push(w.message);
   for (const p of pairs)
@@ -203,6 +218,7 @@ export function summaryText({
     L.push(
       `  - run ${r.originalId} (${r.createdAt}, ${r.softwareVersion})${r.dataset ? ` on ${r.dataset}` : ''}: ${results}`,
     );
+    L.push(`    ${runConditions(r.inputs)}`);
   }
   L.push('');
   L.push('CHECKING THE FILES WITHOUT STEERWISE');

@@ -13,6 +13,8 @@
  * (lib/runs/compare.ts: the one definition of "reproduced").
  */
 import { estimateBearings, type ComplexMatrix } from '@/lib/doa';
+import { applyElementGains, complexGains, type ElementGainState } from '@/lib/doa/calibration';
+import { bundleRunImperfectionsSchema } from '@/lib/bundle/contents';
 import { DOA_METHODS, type DoaMethod } from '@/lib/doa/methods/registry';
 import type { RunOptions } from '@/lib/jobs/estimate-run';
 import { compareBearings, type MethodComparison } from '@/lib/runs/compare';
@@ -116,7 +118,42 @@ export function inlineSnapshots(inputs: unknown): ComplexMatrix | null {
   return out;
 }
 
-/** Re-executes every method of a run on `rows` (N × M, one snapshot per row) and compares with what it stored. */
+/**
+ * The calibration a run applied (gains, or null) and its enabled elements (0-based, or null when
+ * none is disabled), from `inputs.calibration` and `inputs.array.disabledElements`; throws a plain
+ * Error naming the bad field or a count that does not fit the data's `elements`.
+ */
+export function runImperfections(
+  inputs: unknown,
+  elements: number,
+): { gains: ElementGainState[] | null; enabledIndices: number[] | null } {
+  const parsed = bundleRunImperfectionsSchema.safeParse(inputs ?? {});
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    throw new Error(`inputs.${issue.path.join('.')}: ${issue.message}`);
+  }
+  const cal = parsed.data.calibration;
+  let gains: ElementGainState[] | null = null;
+  if (cal?.applied) {
+    if (!cal.gains) throw new Error('inputs.calibration says applied but holds no gains');
+    if (cal.gains.length !== elements)
+      throw new Error(`inputs.calibration.gains has ${cal.gains.length} entries but the data has ${elements} elements`);
+    gains = cal.gains;
+  }
+  const disabled = parsed.data.array?.disabledElements ?? [];
+  if (disabled.some((e) => e > elements))
+    throw new Error(`inputs.array.disabledElements names an element above ${elements}`);
+  const off = new Set(disabled);
+  const enabledIndices = disabled.length
+    ? Array.from({ length: elements }, (_, i) => i).filter((i) => !off.has(i + 1))
+    : null;
+  return { gains, enabledIndices };
+}
+
+/**
+ * Re-executes every method of a run on `rows` (N × M, one snapshot per row) and compares with what
+ * it stored, dividing by the calibration the run applied and keeping its disabled elements off.
+ */
 export function reproduceRun({
   rows,
   spacingWavelengths,
@@ -130,18 +167,29 @@ export function reproduceRun({
 }): RunComparison {
   let options: RerunOptions;
   let stored: StoredMethodResult[];
+  let imperfections: ReturnType<typeof runImperfections>;
   try {
     options = rerunOptions(inputs);
     stored = storedResults(result);
+    imperfections = runImperfections(inputs, rows.cols);
   } catch (err) {
     return { reproduced: false, methods: [], error: (err as Error).message };
   }
+  const data = imperfections.gains
+    ? applyElementGains(rows, complexGains(imperfections.gains), 'snapshots-by-elements')
+    : rows;
   const methods: MethodComparison[] = [];
   for (const s of stored) {
     try {
       const { methods: _all, ...rest } = options;
       void _all;
-      const answer = estimateBearings({ rows, spacingWavelengths, method: s.method, ...rest });
+      const answer = estimateBearings({
+        rows: data,
+        spacingWavelengths,
+        method: s.method,
+        ...rest,
+        ...(imperfections.enabledIndices ? { elementIndices: imperfections.enabledIndices } : {}),
+      });
       methods.push(compareBearings(s.method, s.bearingsDeg, answer.bearingsDeg));
     } catch (err) {
       methods.push({
@@ -174,6 +222,7 @@ export function remapRunInputs(
   fix(out);
   fix(out.request as Record<string, unknown>);
   fix(out.array as Record<string, unknown>);
+  fix(out.calibration as Record<string, unknown>);
   const ds = out.dataset as Record<string, unknown> | undefined;
   if (ds && typeof ds === 'object') {
     if (ids.datasetId === null) delete out.dataset;

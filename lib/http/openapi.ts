@@ -372,7 +372,7 @@ export function openApiDocument() {
         post: {
           summary: 'Estimate bearings',
           description:
-            'Waits for the run and answers 201. With `Prefer: respond-async` it answers 202 with the queued run; poll GET /api/v1/estimates/{id}. K ≥ M (or ≥ the smoothed L), mismatched element counts and arrays with disabled elements are 422.',
+            'Waits for the run and answers 201. With `Prefer: respond-async` it answers 202 with the queued run; poll GET /api/v1/estimates/{id}. The array revision’s element calibration is applied unless `applyCalibration` is false, and the run stores what it applied (`inputs.calibration`). On a revision with disabled elements MUSIC, Bartlett and MVDR use the enabled elements at their true positions, ESPRIT and root-MUSIC the longest contiguous run, with an `element-subset` warning. K ≥ the elements a method uses (or ≥ the smoothed L) and mismatched element counts are 422.',
           parameters: [
             { name: 'Prefer', in: 'header', required: false, schema: { type: 'string', enum: ['respond-async'] } },
           ],

@@ -10,6 +10,7 @@
 import { DatasetError, parseSnapshotFile, type ParseOptions, type SnapshotFormat } from '../datasets';
 import { DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
 import { WidebandInputError } from '../doa/wideband/plan';
+import { applyElementGains, complexGains, type ElementGainState } from '../doa/calibration';
 import { summarise, type DatasetSummary } from '../storage/summary';
 import {
   runStudy,
@@ -48,6 +49,10 @@ export interface EstimateComputeInput {
   spacingWavelengths: number;
   methods: DoaMethod[];
   options: RunOptions;
+  /** Element gain and phase to divide out before the covariance (docs/conventions.md §9); absent: none. */
+  calibration?: ElementGainState[];
+  /** Enabled elements, 0-based, ascending, on a line with disabled elements; absent: all. */
+  enabledIndices?: number[];
 }
 
 export interface DatasetParseInput {
@@ -117,9 +122,14 @@ export async function computeEstimate(
   input: EstimateComputeInput,
   report: Report,
 ): Promise<{ results: MethodResult[] }> {
-  const rows = await loadRows(input.source, report, 0.3);
+  const loaded = await loadRows(input.source, report, 0.3);
+  const rows = input.calibration
+    ? applyElementGains(loaded, complexGains(input.calibration), 'snapshots-by-elements')
+    : loaded;
   report(0.3);
-  const covariance = usedCovariance(rows, input.options);
+  const subset =
+    input.enabledIndices && input.enabledIndices.length < input.elements ? input.enabledIndices : undefined;
+  const covariance = subset ? undefined : usedCovariance(rows, input.options);
   const results: MethodResult[] = [];
   for (let i = 0; i < input.methods.length; i++) {
     results.push(
@@ -129,7 +139,8 @@ export async function computeEstimate(
         spacingWavelengths: input.spacingWavelengths,
         method: input.methods[i],
         options: input.options,
-        covariance,
+        ...(covariance ? { covariance } : {}),
+        ...(subset ? { enabledIndices: subset } : {}),
       }),
     );
     report(0.3 + (0.7 * (i + 1)) / input.methods.length);

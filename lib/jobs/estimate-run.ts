@@ -39,6 +39,10 @@ import {
   type EstimateBearingsResult,
   type PairResolvability,
   type ReportedBound,
+  describeSubsetCost,
+  selectElements,
+  subsetCrbCost,
+  type ElementSelectionKind,
 } from '../doa';
 
 export interface RunOptions {
@@ -84,6 +88,22 @@ export interface MethodResult {
   uncertaintyNote?: string;
   pairs: PairFlag[];
   elapsedMs: number;
+  /** Which elements the method used on a line with disabled elements (0-based on the full line). */
+  elementSelection?: { kind: ElementSelectionKind; indices: number[]; lineElements: number };
+}
+
+/** The columns `indices` of an N × M matrix (file layout). */
+export function pickColumns(rows: ComplexMatrix, indices: readonly number[]): ComplexMatrix {
+  const l = indices.length;
+  const re = new Float64Array(rows.rows * l);
+  const im = new Float64Array(rows.rows * l);
+  for (let r = 0; r < rows.rows; r++) {
+    for (let i = 0; i < l; i++) {
+      re[r * l + i] = rows.re[r * rows.cols + indices[i]];
+      im[r * l + i] = rows.im[r * rows.cols + indices[i]];
+    }
+  }
+  return { rows: rows.rows, cols: l, re, im };
 }
 
 export const CI95_FACTOR = 1.96;
@@ -118,6 +138,7 @@ export function runMethod({
   options,
   covariance,
   sampleCovariance,
+  enabledIndices,
 }: {
   rows: ComplexMatrix;
   elements: number;
@@ -127,9 +148,24 @@ export function runMethod({
   covariance?: ComplexMatrix;
   /** The unprocessed M × M sample covariance (computed here when a processed run needs it and it is absent). */
   sampleCovariance?: ComplexMatrix;
+  /**
+   * The enabled elements (0-based, ascending) of a line with disabled elements; default all.
+   * `covariance` and `sampleCovariance` are then ignored (each method has its own elements).
+   */
+  enabledIndices?: readonly number[];
 }): MethodResult {
   const t0 = performance.now();
-  const res = estimateBearings({ rows, spacingWavelengths, method, ...options });
+  const selection =
+    enabledIndices && enabledIndices.length < elements
+      ? selectElements(method, enabledIndices, elements, options)
+      : undefined;
+  const res = estimateBearings({
+    rows,
+    spacingWavelengths,
+    method,
+    ...options,
+    ...(selection ? { elementIndices: selection.enabled } : {}),
+  });
   const out: MethodResult = {
     method: res.method,
     sourceCount: res.sourceCount,
@@ -142,6 +178,7 @@ export function runMethod({
     uncertainty: null,
     pairs: [],
     elapsedMs: 0,
+    ...(res.elementSelection ? { elementSelection: res.elementSelection } : {}),
   };
   if (res.spectrum) {
     out.spectrum = {
@@ -162,19 +199,56 @@ export function runMethod({
       : 'A bearing at ±90° (end-fire) has no finite bound.';
   } else {
     try {
-      const r = covariance ?? usedCovariance(rows, options);
       const processed = options.forwardBackward || options.smoothingSubarray !== undefined;
-      const u = uncertaintyFromCovariance({
-        elements,
-        spacingWavelengths,
-        snapshots: rows.rows,
-        bearingsDeg: b,
-        usedCovariance: r,
-        usedEigenvalues: res.eigenvalues,
-        sampleCovariance:
-          processed && !options.singleSnapshot ? (sampleCovariance ?? sampleCovarianceFromRows(rows)) : undefined,
-        processing: options,
-      });
+      let u: ReturnType<typeof uncertaintyFromCovariance>;
+      if (selection) {
+        // A line with disabled elements: the bound is that of the enabled elements at their true
+        // positions (docs/conventions.md §9); σ² and the powers come from the elements the method used.
+        const enabledRows = pickColumns(rows, selection.enabled);
+        const usedRows =
+          selection.kind === 'longest-contiguous-run' ? pickColumns(rows, selection.indices) : enabledRows;
+        const first = selection.indices[0];
+        u = uncertaintyFromCovariance({
+          elements,
+          spacingWavelengths,
+          snapshots: rows.rows,
+          bearingsDeg: b,
+          usedCovariance: usedCovariance(usedRows, options),
+          usedEigenvalues: res.eigenvalues,
+          ...(selection.kind === 'enabled-true-positions'
+            ? { usedPositions: selection.indices.map((i) => i - first) }
+            : {}),
+          elementIndices: selection.enabled,
+          sampleCovariance:
+            options.singleSnapshot || (!processed && selection.kind === 'enabled-true-positions')
+              ? undefined
+              : sampleCovarianceFromRows(enabledRows),
+          processing: options,
+        });
+        const cost = subsetCrbCost({
+          spacingWavelengths,
+          bearingsDeg: b,
+          sourcePowers: u.sourcePowers,
+          noisePower: u.noisePower,
+          snapshots: rows.rows,
+          selection,
+        });
+        const note = out.warnings.find((w) => w.code === 'element-subset');
+        if (note) note.message = `${note.message} ${describeSubsetCost(selection, cost)}`;
+      } else {
+        const r = covariance ?? usedCovariance(rows, options);
+        u = uncertaintyFromCovariance({
+          elements,
+          spacingWavelengths,
+          snapshots: rows.rows,
+          bearingsDeg: b,
+          usedCovariance: r,
+          usedEigenvalues: res.eigenvalues,
+          sampleCovariance:
+            processed && !options.singleSnapshot ? (sampleCovariance ?? sampleCovarianceFromRows(rows)) : undefined,
+          processing: options,
+        });
+      }
       const input = u.boundsInput;
       const std = Array.from(u.crb.stdDeg);
       out.uncertainty = {

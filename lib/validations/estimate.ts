@@ -115,6 +115,10 @@ export const estimateRequestSchema = z
     singleSnapshot: z.boolean({ error: 'singleSnapshot must be true or false' }).optional(),
     singleSnapshotSubarray: positiveInt('singleSnapshotSubarray', 2).optional(),
     includeSpectrum: z.boolean({ error: 'includeSpectrum must be true or false' }).optional(),
+    applyCalibration: z.boolean({ error: 'applyCalibration must be true or false' }).optional().meta({
+      description:
+        "Extension: divide the snapshots by the array revision's complex element gains before the covariance (default true; only with arrayId or a dataset's array)",
+    }),
   })
   .superRefine((v, ctx) => {
     if ((v.datasetId === undefined) === (v.snapshots === undefined)) {

@@ -16,6 +16,8 @@ import { renderChartSvg } from '@/lib/charts/ssr';
 import type { ChartOption } from '@/lib/charts';
 import * as bundleRoute from '@/app/api/v1/arrays/[id]/bundle/route';
 import * as bundlesRoute from '@/app/api/v1/bundles/route';
+import * as rerunRoute from '@/app/api/v1/estimates/[id]/rerun/route';
+import { estimate } from './datasets.helpers';
 import { browserHeaders, json, params, req, userOf, ORIGIN, type Who } from '../helpers/api';
 import { buildZip, type RawEntry } from '../lib/bundle/zip-builder';
 import { baseConfig, createArray, createDataset, createRun, storedFiles } from '../lib/handoff/fixtures';
@@ -239,6 +241,85 @@ describe('import', () => {
     // Importing again makes another new array: nothing is overwritten.
     const again = await json(await upload('otherAdmin', bytes));
     expect(again.arrayId).not.toBe(body.arrayId);
+  });
+
+  it('a run on a calibrated revision with a disabled element carries its calibration and reproduces after import', async () => {
+    const engineer = await userOf('engineer');
+    const states = Array.from({ length: 8 }, (_, i) => ({
+      enabled: i !== 6,
+      gainDb: [0, 1.2, -0.8, 0.4, 1.9, -1.5, 0.7, -0.3][i],
+      phaseDeg: [0, 14, -9, -2.5, 18, -17, 6, 11][i],
+    }));
+    const created = await createArray({ user: engineer, config: { ...baseConfig, elementStates: states } });
+    const { dataset } = await createDataset({
+      user: engineer,
+      elements: 8,
+      spacingWavelengths: created.spacingWavelengths,
+      arrayId: created.array.id,
+      seed: 11,
+    });
+    const submitted = await estimate('engineer', {
+      datasetId: dataset.id,
+      arrayId: created.array.id,
+      methods: ['esprit-ls', 'music', 'mvdr'],
+      sourceCount: 2,
+    });
+    expect(submitted.status, JSON.stringify(submitted.body)).toBe(201);
+    const stored = (await EstimateRun.findByPk(submitted.body.id))!;
+    expect(stored.status, String(stored.error)).toBe('done');
+    const res = await bundleRoute.GET(
+      req('GET', `/api/v1/arrays/${created.array.id}/bundle?runs=${submitted.body.id}`, {
+        headers: await browserHeaders('engineer'),
+      }),
+      params({ id: String(created.array.id) }),
+    );
+    expect(res.status, res.status === 200 ? '' : JSON.stringify(await res.clone().json())).toBe(200);
+    const bytes = new Uint8Array(await res.arrayBuffer());
+    const files = safeUnzip(bytes);
+    const runJson = JSON.parse(Buffer.from(files.get(`runs/${submitted.body.id}.json`)!).toString());
+    expect(runJson.inputs.calibration).toMatchObject({ applied: true, revision: 1 });
+    expect(runJson.inputs.calibration.gains).toEqual(states.map(({ gainDb, phaseDeg }) => ({ gainDb, phaseDeg })));
+    expect(runJson.inputs.array.disabledElements).toEqual([7]);
+    const summary = Buffer.from(files.get('summary.txt')!).toString();
+    expect(summary).toContain('calibration of revision 1 applied');
+    expect(summary).toContain('disabled elements 7 left out');
+    // Without the calibration the stored bearings are not reproduced: the bundle's gains matter.
+    const { reproduceRun } = await import('@/lib/handoff/runs');
+    const { parseSnapshotFile } = await import('@/lib/datasets');
+    const { resolveStoragePath } = await import('@/lib/storage/files');
+    const parsed = await parseSnapshotFile({
+      path: resolveStoragePath(dataset.storagePath),
+      format: 'csv',
+      fileName: 'trial-3.csv',
+      maxBytes: 1e8,
+    });
+    const rows = { rows: parsed.snapshots, cols: parsed.elements, re: parsed.re, im: parsed.im };
+    const { calibration: _c, ...uncalibrated } = runJson.inputs;
+    void _c;
+    const args = { rows, spacingWavelengths: created.spacingWavelengths, result: runJson.result };
+    expect(reproduceRun({ ...args, inputs: runJson.inputs }).reproduced).toBe(true);
+    expect(reproduceRun({ ...args, inputs: uncalibrated }).reproduced).toBe(false);
+
+    const imported = await upload('otherAdmin', bytes);
+    const body = await json(imported);
+    expect(imported.status, JSON.stringify(body)).toBe(201);
+    expect(body.reproduced).toBe(true);
+    for (const m of body.runs[0].comparison.methods) expect(m.maxAbsDifferenceDeg).toBeLessThanOrEqual(1e-9);
+    const newRun = (await EstimateRun.findByPk(body.runs[0].id))!;
+    const newRev = (await ArrayRevision.findOne({ where: { arrayId: body.arrayId } }))!;
+    expect((newRun.inputs as { calibration: unknown }).calibration).toMatchObject({
+      applied: true,
+      revision: 1,
+      arrayRevisionId: newRev.id,
+    });
+    // A re-run of the imported run in the new team applies the imported revision's calibration again.
+    const rr = await rerunRoute.POST(
+      req('POST', `/api/v1/estimates/${newRun.id}/rerun`, { headers: await browserHeaders('otherAdmin') }),
+      params({ id: String(newRun.id) }),
+    );
+    const again = await json(rr);
+    expect(rr.status, JSON.stringify(again)).toBe(201);
+    for (const c of again.comparison) expect(c.identical).toBe(true);
   });
 
   it('shows the exact differences when a stored bearing does not match the re-run', async () => {

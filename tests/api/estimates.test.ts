@@ -309,14 +309,15 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
     expect(Math.abs(u.noisePower / 0.1 - 1)).toBeLessThan(0.2);
   });
 
-  it('arrays with disabled elements are refused with the elements named', async () => {
+  it('arrays with disabled elements are estimated on the enabled elements, with a warning naming them', async () => {
     const res = await estimate('engineer', {
       snapshots: inlineOf(methodsFixture.scenarios[0]),
       arrayId: disabledArrayId,
       method: 'music',
     });
-    expect(res.status).toBe(422);
-    expect(res.body.error.message).toMatch(/disabled element\(s\) 4/);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.warnings[0].code).toBe('element-subset');
+    expect(res.body.warnings[0].message).toMatch(/7 enabled elements at their true positions \(element 4 disabled/);
   });
 
   it('arrayRevision pins an older revision: the run uses and stores it; unknown or orphan pins are refused', async () => {
@@ -346,8 +347,10 @@ describe('arrays, runs, re-runs and asynchronous runs', () => {
       spacingWavelengths: 0.5,
     } as never);
     const snapshots = inlineOf(methodsFixture.scenarios[0]);
+    // The latest revision runs ESPRIT on the longest run of enabled elements (5–8).
     const latest = await estimate('engineer', { snapshots, arrayId: a.id, method: 'esprit-ls' });
-    expect(latest.status).toBe(422);
+    expect(latest.status, JSON.stringify(latest.body)).toBe(201);
+    expect(latest.body.warnings[0].message).toContain('longest contiguous run of enabled elements, 5–8');
     const pinned = await estimate('engineer', { snapshots, arrayId: a.id, arrayRevision: 1, method: 'esprit-ls' });
     expect(pinned.status, JSON.stringify(pinned.body)).toBe(201);
     expect((await EstimateRun.findByPk(pinned.body.id))!.arrayRevisionId).toBe(r1.id);

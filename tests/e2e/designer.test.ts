@@ -154,7 +154,7 @@ describe('an engineer designs an array in the browser', () => {
       expect(s.elementStates![2].enabled).toBe(false);
       await expect(page.getByTestId('disabled-notice').isVisible()).resolves.toBe(true);
       await expect(page.getByTestId('disabled-notice').textContent()).resolves.toMatch(
-        /ESPRIT[\s\S]*refuses to run on this revision/,
+        /ESPRIT[\s\S]*longest run of enabled neighbours/,
       );
 
       // 4. Drag source 1's arrow to a new bearing.

@@ -44,6 +44,11 @@ export interface BoundsInput {
   noisePower: number;
   /** Number of snapshots N ≥ 1. */
   snapshots: number;
+  /**
+   * The elements that receive, 0-based indices on the line of `elements`, strictly ascending
+   * (a line with disabled elements, docs/conventions.md §9: element m at m·d). Default: all.
+   */
+  elementIndices?: ArrayLike<number>;
 }
 
 export interface CrbResult {
@@ -64,6 +69,8 @@ export interface Checked {
   sourceCovariance?: ComplexMatrix;
   noise: number;
   n: number;
+  /** Element positions in units of d (the enabled elements); absent: 0 … m−1. */
+  positions?: Float64Array;
 }
 
 export function checkBoundsInput(input: BoundsInput): Checked {
@@ -74,10 +81,29 @@ export function checkBoundsInput(input: BoundsInput): Checked {
   const bearings = requireFiniteArray(input.bearingsDeg, 'bearingsDeg');
   const k = bearings.length;
   if (k < 1) throw new DoaInputError('bad-source-count', 'bearingsDeg must hold at least one bearing');
-  if (k >= m)
+  let positions: Float64Array | undefined;
+  if (input.elementIndices !== undefined) {
+    positions = requireFiniteArray(input.elementIndices, 'elementIndices');
+    for (let i = 0; i < positions.length; i++) {
+      const v = positions[i];
+      if (!Number.isInteger(v) || v < 0 || v >= m || (i > 0 && v <= positions[i - 1]))
+        throw new DoaInputError(
+          'bad-option',
+          `elementIndices[${i}] = ${v} must be an element index from 0 to ${m - 1}, strictly ascending`,
+        );
+    }
+    if (positions.length < 2)
+      throw new DoaInputError(
+        'too-few-elements',
+        `elementIndices keeps ${positions.length} element(s); at least 2 are needed`,
+      );
+    if (positions.length === m) positions = undefined;
+  }
+  const receiving = positions ? positions.length : m;
+  if (k >= receiving)
     throw new DoaInputError(
       'bad-source-count',
-      `bearingsDeg has ${k} sources; the bound needs fewer sources than elements (${m})`,
+      `bearingsDeg has ${k} sources; the bound needs fewer sources than elements (${receiving}${positions ? ' enabled' : ''})`,
     );
   const powers = requireFiniteArray(input.sourcePowers, 'sourcePowers', k);
   for (let i = 0; i < k; i++)
@@ -109,7 +135,7 @@ export function checkBoundsInput(input: BoundsInput): Checked {
       }
     }
   }
-  return { m, d, theta, powers, noise, n };
+  return { m, d, theta, powers, noise, n, ...(positions ? { positions } : {}) };
 }
 
 /**
@@ -121,6 +147,8 @@ export function ulaGramProducts(
   elements: number,
   spacingWavelengths: number,
   thetaRad: ArrayLike<number>,
+  /** Positions in units of d of the receiving elements (a line with gaps); default 0 … elements−1. */
+  positions?: ArrayLike<number>,
 ): { g: ComplexMatrix; ad: ComplexMatrix; dd: ComplexMatrix } {
   const k = thetaRad.length;
   const g = zeros(k, k);
@@ -141,7 +169,9 @@ export function ulaGramProducts(
       let s1i = 0;
       let s2r = 0;
       let s2i = 0;
-      for (let m = 0; m < elements; m++) {
+      const count = positions ? positions.length : elements;
+      for (let e = 0; e < count; e++) {
+        const m = positions ? positions[e] : e;
         const cr = Math.cos(m * delta);
         const ci = Math.sin(m * delta);
         s0r += cr;
@@ -169,7 +199,7 @@ export function ulaGramProducts(
 
 export function crbFromChecked(c: Checked, kind: BoundKind): CrbResult {
   const k = c.theta.length;
-  const { g, ad, dd } = ulaGramProducts(c.m, c.d, c.theta);
+  const { g, ad, dd } = ulaGramProducts(c.m, c.d, c.theta, c.positions);
   // H = DᴴD − (AᴴD)ᴴ·G⁻¹·AᴴD
   const gInvAd = solve(g, ad);
   const h = zeros(k, k);
@@ -287,6 +317,8 @@ export interface FullCovarianceBoundsInput {
   noisePower: number;
   /** Number of snapshots N ≥ 1. */
   snapshots: number;
+  /** As BoundsInput.elementIndices: the receiving elements on the line; default all. */
+  elementIndices?: ArrayLike<number>;
 }
 
 /** Relative tolerance of the Hermitian and positive-semi-definite checks on P. */

@@ -53,14 +53,20 @@ export interface SourceCovarianceFit {
   maxCorrelation: number;
 }
 
-function steeringMatrix(l: number, d: number, bearingsDeg: ArrayLike<number>): ComplexMatrix {
+function steeringMatrix(
+  l: number,
+  d: number,
+  bearingsDeg: ArrayLike<number>,
+  positions?: ArrayLike<number>,
+): ComplexMatrix {
   const k = bearingsDeg.length;
   const a = zeros(l, k);
   for (let c = 0; c < k; c++) {
     const mu = 2 * Math.PI * d * Math.sin(bearingsDeg[c] * RAD_PER_DEG);
     for (let m = 0; m < l; m++) {
-      a.re[m * k + c] = Math.cos(mu * m);
-      a.im[m * k + c] = Math.sin(mu * m);
+      const p = positions ? positions[m] : m;
+      a.re[m * k + c] = Math.cos(mu * p);
+      a.im[m * k + c] = Math.sin(mu * p);
     }
   }
   return a;
@@ -74,11 +80,18 @@ export function fitSourceCovariance(
   r: ComplexMatrix,
   bearingsDeg: ArrayLike<number>,
   spacingWavelengths: number,
-  options: { eigenvalues?: ArrayLike<number>; noisePower?: number } = {},
+  options: {
+    eigenvalues?: ArrayLike<number>;
+    noisePower?: number;
+    /** Positions of the rows of R in units of d (a line with gaps); default 0 … L−1. */
+    positions?: ArrayLike<number>;
+  } = {},
 ): SourceCovarianceFit {
   const l = r.rows;
   const k = bearingsDeg.length;
   if (r.cols !== l) throw new DoaInputError('bad-size', `covariance is ${r.rows} × ${r.cols}, not square`);
+  if (options.positions && options.positions.length !== l)
+    throw new DoaInputError('bad-size', `positions has ${options.positions.length} entries for a ${l}-row covariance`);
   if (k < 1 || k >= l)
     throw new DoaInputError('bad-source-count', `${k} bearing(s) for a ${l}-element covariance: need 1 ≤ K < L`);
   let trace = 0;
@@ -92,7 +105,7 @@ export function fitSourceCovariance(
     noisePower = sum / Math.max(1, l - k);
   }
   if (!(noisePower > floor)) noisePower = floor;
-  const ap = pseudoInverse(steeringMatrix(l, spacingWavelengths, bearingsDeg)); // K × L
+  const ap = pseudoInverse(steeringMatrix(l, spacingWavelengths, bearingsDeg, options.positions)); // K × L
   // T = (R − σ²I)·A⁺ᴴ (L × K), then Ŝ = A⁺·T.
   const t = zeros(l, k);
   for (let i = 0; i < l; i++) {
@@ -213,6 +226,13 @@ export interface UncertaintyInput {
   processing?: { forwardBackward?: boolean; smoothingSubarray?: number; singleSnapshot?: boolean };
   /** Default CORRELATED_SOURCES_THRESHOLD. */
   correlationThreshold?: number;
+  /**
+   * A line with disabled elements: the elements of the bound (0-based on the line of `elements`,
+   * docs/conventions.md §9). `sampleCovariance` is then that of these elements. Default: all.
+   */
+  elementIndices?: readonly number[];
+  /** Positions (units of d) of the rows of `usedCovariance`; default 0 … L−1 (a contiguous run or the full line). */
+  usedPositions?: readonly number[];
 }
 
 export interface RunUncertainty {
@@ -240,7 +260,11 @@ export function uncertaintyFromCovariance(input: UncertaintyInput): RunUncertain
   if (!(threshold >= 0 && threshold <= 1))
     throw new DoaInputError('bad-option', `correlationThreshold must lie in [0, 1], got ${threshold}`);
   const proc = input.processing ?? {};
-  const used = fitSourceCovariance(input.usedCovariance, bearingsDeg, d, { eigenvalues: input.usedEigenvalues });
+  const used = fitSourceCovariance(input.usedCovariance, bearingsDeg, d, {
+    eigenvalues: input.usedEigenvalues,
+    ...(input.usedPositions ? { positions: input.usedPositions } : {}),
+  });
+  const indices = input.elementIndices && input.elementIndices.length < elements ? input.elementIndices : undefined;
   const boundsInput: BoundsInput = {
     elements,
     spacingWavelengths: d,
@@ -248,7 +272,11 @@ export function uncertaintyFromCovariance(input: UncertaintyInput): RunUncertain
     sourcePowers: used.sourcePowers,
     noisePower: used.noisePower,
     snapshots,
+    ...(indices ? { elementIndices: indices.slice() } : {}),
   };
+  const receivers = indices
+    ? `the ${indices.length} enabled elements of a ${elements}-element line at their true positions`
+    : `${elements} elements`;
   const steps: string[] = [];
   if (proc.singleSnapshot) steps.push('the single-snapshot arrangement');
   if (proc.smoothingSubarray !== undefined) steps.push(`spatial smoothing (L = ${proc.smoothingSubarray})`);
@@ -265,7 +293,12 @@ export function uncertaintyFromCovariance(input: UncertaintyInput): RunUncertain
     const raw = input.sampleCovariance ?? (processed ? null : input.usedCovariance);
     if (raw) {
       const rawFit =
-        raw === input.usedCovariance ? used : fitSourceCovariance(raw, bearingsDeg, d, { noisePower: used.noisePower });
+        raw === input.usedCovariance
+          ? used
+          : fitSourceCovariance(raw, bearingsDeg, d, {
+              noisePower: used.noisePower,
+              ...(indices ? { positions: indices } : {}),
+            });
       maxSourceCorrelation = rawFit.maxCorrelation;
       if (rawFit.maxCorrelation > threshold) {
         let trace = 0;
@@ -282,6 +315,7 @@ export function uncertaintyFromCovariance(input: UncertaintyInput): RunUncertain
       sourceCovariance: fullP,
       noisePower: used.noisePower,
       snapshots,
+      ...(indices ? { elementIndices: indices } : {}),
     });
     return {
       crb,
@@ -293,7 +327,7 @@ export function uncertaintyFromCovariance(input: UncertaintyInput): RunUncertain
       sourceCovariance: fullP,
       boundsInput,
       basis:
-        `stochastic CRB with the full source covariance (Stoica & Nehorai 1990) for ${elements} elements and ${snapshots} snapshot(s) at the estimated bearings: ` +
+        `stochastic CRB with the full source covariance (Stoica & Nehorai 1990) for ${receivers} and ${snapshots} snapshot(s) at the estimated bearings: ` +
         `the fitted sources are correlated (largest |ρ| = ${maxSourceCorrelation!.toFixed(2)} > ${threshold}), P fitted by least squares on the unprocessed covariance; ${fitText}.` +
         noteProcessing,
     };
@@ -317,7 +351,7 @@ export function uncertaintyFromCovariance(input: UncertaintyInput): RunUncertain
     sourceCovariance: null,
     boundsInput,
     basis:
-      `stochastic CRB for uncorrelated sources${why} for ${elements} elements and ${snapshots} snapshot(s) at the estimated bearings; ${fitText}.` +
+      `stochastic CRB for uncorrelated sources${why} for ${receivers} and ${snapshots} snapshot(s) at the estimated bearings; ${fitText}.` +
       noteProcessing,
   };
 }

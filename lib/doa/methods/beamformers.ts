@@ -13,17 +13,27 @@
 import { ComplexMatrix, zeros } from '../linalg/complex';
 import { MethodInput, MethodOutput } from './types';
 import { SPECTRUM_DENOMINATOR_FLOOR, peakBearings } from './music';
-import { diagonalSums, gridAngles, gridPhasors, hermitianFormFromDiagonalSums } from './spectrum';
+import {
+  diagonalSums,
+  embedOnPositions,
+  gridAngles,
+  gridPhasors,
+  hermitianFormFromDiagonalSums,
+  isUniformPositions,
+} from './spectrum';
 import { DoaWarning } from '../warnings';
 
 export const MVDR_CONDITION_LIMIT = 1e13;
 
+/** `positions` (units of d, from 0) places the rows of R on a line with gaps; L is then the element count, not the span. */
 export function bartlettSpectrumValues(
   r: ComplexMatrix,
   spacingWavelengths: number,
   anglesDeg: Float64Array,
+  positions?: Int32Array,
 ): Float64Array {
-  const values = hermitianFormFromDiagonalSums(diagonalSums(r), gridPhasors(anglesDeg, spacingWavelengths));
+  const placed = isUniformPositions(positions) ? r : embedOnPositions(r, positions!);
+  const values = hermitianFormFromDiagonalSums(diagonalSums(placed), gridPhasors(anglesDeg, spacingWavelengths));
   const inv = 1 / (r.rows * r.rows);
   for (let i = 0; i < values.length; i++) values[i] *= inv;
   return values;
@@ -71,10 +81,12 @@ export function mvdrSpectrumValues(
   vectors: ComplexMatrix,
   spacingWavelengths: number,
   anglesDeg: Float64Array,
+  positions?: Int32Array,
 ): { values: Float64Array; pseudoInverse: boolean; condition: number } {
   const condition = conditionNumber(values);
   const pseudo = !(condition <= MVDR_CONDITION_LIMIT);
-  const rinv = inverseFromEigen(values, vectors, pseudo);
+  const inv = inverseFromEigen(values, vectors, pseudo);
+  const rinv = isUniformPositions(positions) ? inv : embedOnPositions(inv, positions!);
   const den = hermitianFormFromDiagonalSums(diagonalSums(rinv), gridPhasors(anglesDeg, spacingWavelengths));
   const p = new Float64Array(den.length);
   for (let i = 0; i < den.length; i++) p[i] = 1 / Math.max(den[i], SPECTRUM_DENOMINATOR_FLOOR);
@@ -83,14 +95,20 @@ export function mvdrSpectrumValues(
 
 export function runBartlett(input: MethodInput): MethodOutput {
   const angles = gridAngles(input.grid);
-  const values = bartlettSpectrumValues(input.covariance, input.spacingWavelengths, angles);
+  const values = bartlettSpectrumValues(input.covariance, input.spacingWavelengths, angles, input.positions);
   const { bearingsDeg, warnings } = peakBearings(values, angles, input.sourceCount, 'bartlett');
   return { bearingsDeg, warnings, spectrum: { kind: 'bartlett', values } };
 }
 
 export function runMvdr(input: MethodInput): MethodOutput {
   const angles = gridAngles(input.grid);
-  const r = mvdrSpectrumValues(input.eigenvalues, input.eigenvectors, input.spacingWavelengths, angles);
+  const r = mvdrSpectrumValues(
+    input.eigenvalues,
+    input.eigenvectors,
+    input.spacingWavelengths,
+    angles,
+    input.positions,
+  );
   const peaks = peakBearings(r.values, angles, input.sourceCount, 'mvdr');
   const warnings: DoaWarning[] = [...peaks.warnings];
   if (r.pseudoInverse) {

@@ -13,7 +13,15 @@
  */
 import { ComplexMatrix, zeros } from '../linalg/complex';
 import { MethodInput, MethodOutput } from './types';
-import { diagonalSums, gridAngles, gridPhasors, hermitianFormFromDiagonalSums, pickPeaks } from './spectrum';
+import {
+  diagonalSums,
+  embedOnPositions,
+  gridAngles,
+  gridPhasors,
+  hermitianFormFromDiagonalSums,
+  isUniformPositions,
+  pickPeaks,
+} from './spectrum';
 import { DoaWarning } from '../warnings';
 
 export const SPECTRUM_DENOMINATOR_FLOOR = 1e-300;
@@ -49,22 +57,27 @@ export function musicDenominator(
   sourceCount: number,
   spacingWavelengths: number,
   anglesDeg: Float64Array,
+  positions?: Int32Array,
 ): Float64Array {
-  return musicDenominatorFromPhasors(vectors, sourceCount, gridPhasors(anglesDeg, spacingWavelengths));
+  return musicDenominatorFromPhasors(vectors, sourceCount, gridPhasors(anglesDeg, spacingWavelengths), positions);
 }
 
 /**
  * The same denominator on precomputed phasors cos μ_i, sin μ_i (gridPhasors), so a
  * caller that evaluates many covariances at one spacing (the bins of a wideband
- * record) computes the trigonometry once.
+ * record) computes the trigonometry once. `positions` (units of d, from 0) places
+ * the rows of the eigenvectors on a line with gaps (spectrum.ts embedOnPositions).
  */
 export function musicDenominatorFromPhasors(
   vectors: ComplexMatrix,
   sourceCount: number,
   phasors: { cos: Float64Array; sin: Float64Array },
+  positions?: Int32Array,
 ): Float64Array {
   const l = vectors.rows;
-  const c = diagonalSums(noiseProjector(vectors, sourceCount));
+  const uniform = isUniformPositions(positions);
+  const projector = noiseProjector(vectors, sourceCount);
+  const c = diagonalSums(uniform ? projector : embedOnPositions(projector, positions!));
   const den = hermitianFormFromDiagonalSums(c, phasors);
   const threshold = 1e-6 * l * c.re[0];
   const ar = new Float64Array(l);
@@ -75,8 +88,9 @@ export function musicDenominatorFromPhasors(
     // use cos/sin of m·μ for exactness instead.
     const mu = Math.atan2(phasors.sin[i], phasors.cos[i]);
     for (let m = 0; m < l; m++) {
-      ar[m] = Math.cos(mu * m);
-      ai[m] = Math.sin(mu * m);
+      const p = uniform ? m : positions![m];
+      ar[m] = Math.cos(mu * p);
+      ai[m] = Math.sin(mu * p);
     }
     let total = 0;
     for (let j = sourceCount; j < l; j++) {
@@ -101,8 +115,9 @@ export function musicSpectrumValues(
   sourceCount: number,
   spacingWavelengths: number,
   anglesDeg: Float64Array,
+  positions?: Int32Array,
 ): Float64Array {
-  const den = musicDenominator(vectors, sourceCount, spacingWavelengths, anglesDeg);
+  const den = musicDenominator(vectors, sourceCount, spacingWavelengths, anglesDeg, positions);
   const p = new Float64Array(den.length);
   for (let i = 0; i < den.length; i++) p[i] = 1 / Math.max(den[i], SPECTRUM_DENOMINATOR_FLOOR);
   return p;
@@ -127,7 +142,13 @@ export function peakBearings(
 
 export function runMusic(input: MethodInput): MethodOutput {
   const angles = gridAngles(input.grid);
-  const values = musicSpectrumValues(input.eigenvectors, input.sourceCount, input.spacingWavelengths, angles);
+  const values = musicSpectrumValues(
+    input.eigenvectors,
+    input.sourceCount,
+    input.spacingWavelengths,
+    angles,
+    input.positions,
+  );
   const { bearingsDeg, warnings } = peakBearings(values, angles, input.sourceCount, 'music');
   return { bearingsDeg, warnings, spectrum: { kind: 'music', values } };
 }

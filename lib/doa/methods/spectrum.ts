@@ -80,6 +80,44 @@ export function diagonalSums(c: ComplexMatrix): ComplexVector {
   return { re, im };
 }
 
+/**
+ * A Hermitian form on element positions with gaps, as one on the full line: C (L × L, rows at
+ * integer positions p_0 = 0 < p_1 < … < p_{L−1}, in units of d) placed into a P × P matrix with
+ * P = p_{L−1} + 1 and zeros at the missing positions. Since a_{p}(θ) = z^p, aᴴ·C·a on the
+ * positions equals aᴴ·C_P·a on the full line, so the diagonal-sum evaluation applies unchanged.
+ */
+export function embedOnPositions(c: ComplexMatrix, positions: Int32Array): ComplexMatrix {
+  requireSquare(c, 'embedOnPositions');
+  const l = c.rows;
+  if (positions.length !== l)
+    throw new DoaInputError('bad-size', `positions has ${positions.length} entries for a ${l} × ${l} matrix`);
+  for (let i = 0; i < l; i++) {
+    if (!Number.isInteger(positions[i]) || positions[i] < 0 || (i > 0 && positions[i] <= positions[i - 1]))
+      throw new DoaInputError(
+        'bad-option',
+        `positions must be ascending integers ≥ 0; positions[${i}] = ${positions[i]}`,
+      );
+  }
+  const p = l === 0 ? 0 : positions[l - 1] + 1;
+  const re = new Float64Array(p * p);
+  const im = new Float64Array(p * p);
+  for (let i = 0; i < l; i++) {
+    const row = positions[i] * p;
+    for (let k = 0; k < l; k++) {
+      re[row + positions[k]] = c.re[i * l + k];
+      im[row + positions[k]] = c.im[i * l + k];
+    }
+  }
+  return { rows: p, cols: p, re, im };
+}
+
+/** True when positions are absent or exactly 0 … L−1. */
+export function isUniformPositions(positions: Int32Array | undefined): boolean {
+  if (!positions) return true;
+  for (let i = 0; i < positions.length; i++) if (positions[i] !== i) return false;
+  return true;
+}
+
 /** cos μ_i and sin μ_i for the grid angles, μ = 2π·d·sin θ. */
 export function gridPhasors(
   anglesDeg: Float64Array,

@@ -18,6 +18,12 @@ export interface MethodInput {
   readonly sourceCount: number;
   readonly spacingWavelengths: number;
   readonly grid: AngleGrid;
+  /**
+   * Element positions in units of d, ascending integers starting at 0, one per covariance row
+   * (a line with disabled elements, docs/conventions.md §9). Absent: 0 … L−1 (a uniform line).
+   * Only the spectral methods (MUSIC, Bartlett, MVDR) accept positions with gaps.
+   */
+  readonly positions?: Int32Array;
 }
 
 export type SpectrumKind = 'music' | 'bartlett' | 'mvdr';
