@@ -16,7 +16,7 @@ import {
 import { enqueueJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
 import type { MethodResult, RunOptions } from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
-import { runCompute } from '../jobs/pool';
+import { runEstimateCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
 import { resolveStoragePath } from '../storage/files';
 import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
@@ -443,7 +443,7 @@ registerJobKind<void>({
       methods: inputs.methods,
       options: inputs.options,
     };
-    const { results } = await runCompute('estimate', input, {
+    const { results } = await runEstimateCompute(input, {
       signal,
       onProgress: setProgress,
       ...(transferList ? { transferList } : {}),

@@ -9,6 +9,7 @@
  */
 import { DatasetError, parseSnapshotFile, type ParseOptions, type SnapshotFormat } from '../datasets';
 import { DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
+import { covarianceChunkSums, sampleCovarianceFromRows } from '../doa/covariance';
 import { summarise, type DatasetSummary } from '../storage/summary';
 import {
   runStudy,
@@ -40,6 +41,20 @@ export interface EstimateComputeInput {
   spacingWavelengths: number;
   methods: DoaMethod[];
   options: RunOptions;
+  /** X·Xᴴ/N of the source's snapshots when computed beforehand over the pool (lib/jobs/pooled-covariance.ts). */
+  sampleCovariance?: ComplexMatrix;
+}
+
+/** Raw sums of a range of covariance chunks (lib/doa covarianceChunkSums) of snapshots in shared memory. */
+export interface CovarianceChunksInput {
+  layout: 'rows' | 'snapshots';
+  rows: number;
+  cols: number;
+  /** Usually views of SharedArrayBuffers, so no copy is made per task. */
+  re: Float64Array;
+  im: Float64Array;
+  firstChunk: number;
+  chunkCount: number;
 }
 
 export interface DatasetParseInput {
@@ -63,6 +78,7 @@ export interface ComputeTasks {
   estimate: { input: EstimateComputeInput; output: { results: MethodResult[] } };
   study: { input: StudySpec; output: StudyResult };
   'dataset.parse': { input: DatasetParseInput; output: DatasetParseOutput };
+  'covariance.chunks': { input: CovarianceChunksInput; output: { sums: Float64Array } };
 }
 export type ComputeTaskName = keyof ComputeTasks;
 
@@ -102,7 +118,9 @@ export async function computeEstimate(
 ): Promise<{ results: MethodResult[] }> {
   const rows = await loadRows(input.source, report, 0.3);
   report(0.3);
-  const covariance = usedCovariance(rows, input.options);
+  // X·Xᴴ/N once for every method (given when the pool computed it; the same value bit for bit).
+  const sample = input.sampleCovariance ?? sampleCovarianceFromRows(rows);
+  const covariance = usedCovariance(rows, input.options, sample);
   const results: MethodResult[] = [];
   for (let i = 0; i < input.methods.length; i++) {
     results.push(
@@ -113,6 +131,7 @@ export async function computeEstimate(
         method: input.methods[i],
         options: input.options,
         covariance,
+        sampleCovariance: sample,
       }),
     );
     report(0.3 + (0.7 * (i + 1)) / input.methods.length);
@@ -154,6 +173,11 @@ export async function compute<K extends ComputeTaskName>(
       return (await runStudy(input as StudySpec, { onProgress: report })) as ComputeTasks[K]['output'];
     case 'dataset.parse':
       return (await computeDatasetParse(input as DatasetParseInput, report)) as ComputeTasks[K]['output'];
+    case 'covariance.chunks': {
+      const c = input as CovarianceChunksInput;
+      const x = { rows: c.rows, cols: c.cols, re: c.re, im: c.im };
+      return { sums: covarianceChunkSums(x, c.layout, c.firstChunk, c.chunkCount) } as ComputeTasks[K]['output'];
+    }
     default:
       throw new Error(`unknown compute task ${String(task)}`);
   }

@@ -88,9 +88,9 @@ export interface MethodResult {
 
 export const CI95_FACTOR = 1.96;
 
-/** The covariance the engine uses for these options (L × L). */
-export function usedCovariance(rows: ComplexMatrix, options: RunOptions): ComplexMatrix {
-  let r = sampleCovarianceFromRows(rows);
+/** The covariance the engine uses for these options (L × L); `sample` is X·Xᴴ/N when already known. */
+export function usedCovariance(rows: ComplexMatrix, options: RunOptions, sample?: ComplexMatrix): ComplexMatrix {
+  let r = sample ?? sampleCovarianceFromRows(rows);
   if (options.singleSnapshot)
     r = spatialSmoothing(r, options.singleSnapshotSubarray ?? defaultSingleSnapshotSubarray(rows.cols));
   if (options.smoothingSubarray !== undefined) r = spatialSmoothing(r, options.smoothingSubarray);
@@ -129,7 +129,13 @@ export function runMethod({
   sampleCovariance?: ComplexMatrix;
 }): MethodResult {
   const t0 = performance.now();
-  const res = estimateBearings({ rows, spacingWavelengths, method, ...options });
+  const res = estimateBearings({
+    rows,
+    spacingWavelengths,
+    method,
+    ...options,
+    ...(sampleCovariance ? { sampleCovariance } : {}),
+  });
   const out: MethodResult = {
     method: res.method,
     sourceCount: res.sourceCount,
