@@ -10,7 +10,14 @@
  *   music-64-18001  Hermitian EVD + MUSIC spectrum on the default 18001-point
  *                   grid, M = 64, K = 2;
  *   root-music-64x10000  sample covariance + Hermitian EVD + root-MUSIC (K = 2;
- *                   a degree-126 polynomial), against numpy's np.roots.
+ *                   a degree-126 polynomial), against numpy's np.roots;
+ *   pipeline-pool-MxN  the same pipeline with the covariance's chunk sums split over
+ *                   a Piscina pool of `--threads` worker threads (default 2) running the
+ *                   app's bundled compute worker (lib/jobs/pooled-covariance.ts, the way an
+ *                   estimate job with M·N ≥ 2^18 runs), for 64x10000 and 128x20000; the
+ *                   snapshots are put in shared memory outside the timed region (the job
+ *                   reads them straight into it); numpy runs its usual pipeline. Its JSON
+ *                   lines carry "threads"; the plain pipeline cases are single-threaded.
  * When python3 with numpy is available, scripts/bench_numpy.py times the same
  * algorithms in numpy in the same run, each case right after ours (so both see
  * about the same load on a shared machine); the script then prints
@@ -30,9 +37,13 @@ import { rootMusicElectricalAngles } from '../lib/doa/methods/root-music';
 import { DEFAULT_GRID, gridAngles } from '../lib/doa/methods/spectrum';
 import { simulateSnapshots } from '../lib/doa/sim/simulate';
 import { ComplexMatrix } from '../lib/doa/linalg/complex';
+import { pooledSampleCovariance, sharedMatrix } from '../lib/jobs/pooled-covariance';
+import type { CovarianceChunksInput } from '../lib/jobs/compute';
 
 const json = process.argv.includes('--json');
 const skipNumpy = process.argv.includes('--no-numpy');
+const threadsArg = process.argv.indexOf('--threads');
+const poolThreads = threadsArg >= 0 ? Number(process.argv[threadsArg + 1]) : 2;
 
 function median(values: number[]): number {
   const s = [...values].sort((a, b) => a - b);
@@ -40,12 +51,12 @@ function median(values: number[]): number {
   return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
-function time(fn: () => unknown, reps: number): number {
-  for (let i = 0; i < 5; i++) fn(); // JIT warm-up
+async function time(fn: () => unknown, reps: number): Promise<number> {
+  for (let i = 0; i < 5; i++) await fn(); // JIT warm-up
   const t: number[] = [];
   for (let i = 0; i < reps; i++) {
     const t0 = performance.now();
-    fn();
+    await fn();
     t.push(performance.now() - t0);
   }
   return median(t);
@@ -60,6 +71,41 @@ interface Case {
   name: string;
   run: () => unknown;
   reps: number;
+  threads?: number;
+}
+
+type ChunkRunner = (input: CovarianceChunksInput) => Promise<{ sums: Float64Array }>;
+let chunkRunner: ChunkRunner | null = null;
+let closePool: (() => Promise<void>) | null = null;
+
+/** A Piscina pool on the app's compute worker (scripts/build-worker.mjs), as lib/jobs/pool.ts builds it. */
+async function startPool(threads: number): Promise<void> {
+  const fs = await import('node:fs');
+  const { pathToFileURL } = await import('node:url');
+  const { Piscina } = await import('piscina');
+  // Inside the repository, so that the bundle's external packages resolve from node_modules.
+  const dir = fs.mkdtempSync(path.join(__dirname, '..', 'node_modules', '.cache', 'bench-worker-'));
+  const { buildWorker } = (await import(pathToFileURL(path.join(__dirname, 'build-worker.mjs')).href)) as {
+    buildWorker: (file: string, options: { inlineSourceMap: boolean }) => Promise<string>;
+  };
+  const filename = await buildWorker(path.join(dir, 'jobs-worker.cjs'), { inlineSourceMap: false });
+  const pool = new Piscina({ filename, minThreads: threads, maxThreads: threads });
+  chunkRunner = async (input) => {
+    const answer = (await pool.run({ task: 'covariance.chunks', input })) as
+      { ok: true; value: { sums: Float64Array } } | { ok: false; error: { message: string } };
+    if (!answer.ok) throw new Error(answer.error.message);
+    return answer.value;
+  };
+  closePool = async () => {
+    await pool.destroy();
+    fs.rmSync(dir, { recursive: true, force: true });
+  };
+}
+
+async function pooledPipeline(x: ComplexMatrix, threads: number): Promise<number[]> {
+  const r = await pooledSampleCovariance(x, 'snapshots', threads, chunkRunner!);
+  const eig = hermitianEigen(r);
+  return bearingsFromElectricalAngles(espritLsElectricalAngles(signalSubspace(eig.vectors, 2)), 0.5).bearingsDeg;
 }
 
 const cases: Case[] = [];
@@ -113,6 +159,28 @@ for (const [m, n] of [
   });
 }
 
+for (const [m, n] of [
+  [64, 10000],
+  [128, 20000],
+] as const) {
+  const x = sharedMatrix(
+    simulateSnapshots({
+      elements: m,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-20, 15],
+      noisePower: 1,
+      snapshots: n,
+      seed: 1,
+    }),
+  );
+  cases.push({
+    name: `pipeline-pool-${m}x${n}`,
+    run: () => pooledPipeline(x, poolThreads),
+    reps: 9,
+    threads: poolThreads,
+  });
+}
+
 /** numpy's median for one case (scripts/bench_numpy.py), or the reason it is missing. */
 function numpyMedian(name: string): { ms: number } | { skipped: string } {
   const script = path.join(__dirname, 'bench_numpy.py');
@@ -127,30 +195,43 @@ function numpyMedian(name: string): { ms: number } | { skipped: string } {
 
 // Each case is timed here and then in numpy right after it, so that both see about the same
 // load on a shared machine (the ratio lines still come last, as before).
-const rows: { case: string; medianMs: number; numpyMedianMs?: number }[] = [];
-let skippedWhy: string | null = null;
-for (const c of cases) {
-  const ms = time(c.run, c.reps);
-  const row: { case: string; medianMs: number; numpyMedianMs?: number } = { case: c.name, medianMs: ms };
-  if (!skipNumpy && skippedWhy === null) {
-    const np = numpyMedian(c.name);
-    if ('ms' in np) row.numpyMedianMs = np.ms;
-    else skippedWhy = np.skipped;
+async function main(): Promise<void> {
+  const rows: { case: string; medianMs: number; numpyMedianMs?: number }[] = [];
+  let skippedWhy: string | null = null;
+  await startPool(poolThreads);
+  for (const c of cases) {
+    const ms = await time(c.run, c.reps);
+    const row: { case: string; medianMs: number; numpyMedianMs?: number } = { case: c.name, medianMs: ms };
+    if (!skipNumpy && skippedWhy === null) {
+      const np = numpyMedian(c.name);
+      if ('ms' in np) row.numpyMedianMs = np.ms;
+      else skippedWhy = np.skipped;
+    }
+    rows.push(row);
+    if (json)
+      console.log(
+        JSON.stringify({ case: c.name, medianMs: Number(ms.toFixed(3)), ...(c.threads ? { threads: c.threads } : {}) }),
+      );
+    else
+      console.log(`${c.name.padEnd(24)} ${ms.toFixed(2).padStart(10)} ms${c.threads ? ` (${c.threads} threads)` : ''}`);
   }
-  rows.push(row);
-  if (json) console.log(JSON.stringify({ case: c.name, medianMs: Number(ms.toFixed(3)) }));
-  else console.log(`${c.name.padEnd(20)} ${ms.toFixed(2).padStart(10)} ms`);
-}
-if (skippedWhy !== null && !json) console.log(`numpy comparison skipped (${skippedWhy})`);
-for (const row of rows) {
-  if (row.numpyMedianMs === undefined) continue;
-  const ratio = Number((row.medianMs / row.numpyMedianMs).toFixed(3));
-  if (json) {
-    console.log(JSON.stringify({ case: row.case, numpyMedianMs: row.numpyMedianMs }));
-    console.log(JSON.stringify({ case: row.case, ratio }));
-  } else {
-    console.log(
-      `${row.case.padEnd(20)} numpy ${row.numpyMedianMs.toFixed(2).padStart(10)} ms   ratio ${ratio.toFixed(2)}×`,
-    );
+  await closePool?.();
+  if (skippedWhy !== null && !json) console.log(`numpy comparison skipped (${skippedWhy})`);
+  for (const row of rows) {
+    if (row.numpyMedianMs === undefined) continue;
+    const ratio = Number((row.medianMs / row.numpyMedianMs).toFixed(3));
+    if (json) {
+      console.log(JSON.stringify({ case: row.case, numpyMedianMs: row.numpyMedianMs }));
+      console.log(JSON.stringify({ case: row.case, ratio }));
+    } else {
+      console.log(
+        `${row.case.padEnd(20)} numpy ${row.numpyMedianMs.toFixed(2).padStart(10)} ms   ratio ${ratio.toFixed(2)}×`,
+      );
+    }
   }
 }
+
+main().catch((error: unknown) => {
+  console.error(error);
+  process.exit(1);
+});

@@ -19,7 +19,7 @@ import { isUnitGain, type ElementGainState } from '../doa/calibration';
 import { enqueueJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
 import type { MethodResult, RunOptions } from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
-import { runCompute } from '../jobs/pool';
+import { runEstimateCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
 import { resolveStoragePath } from '../storage/files';
 import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
@@ -535,7 +535,7 @@ registerJobKind<void>({
       ...(inputs.calibration?.applied && inputs.calibration.gains ? { calibration: inputs.calibration.gains } : {}),
       ...(inputs.array.disabledElements?.length ? { enabledIndices: enabledIndicesOf(inputs.array) } : {}),
     };
-    const { results } = await runCompute('estimate', input, {
+    const { results } = await runEstimateCompute(input, {
       signal,
       onProgress: setProgress,
       ...(transferList ? { transferList } : {}),

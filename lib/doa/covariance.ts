@@ -15,10 +15,20 @@
  * and accumulates only the upper triangle i ≤ k with a 2 × 2 register tile:
  * four complex products per eight loads. The lower triangle is the conjugate,
  * so R is Hermitian by construction, which is exactly (R + Rᴴ)/2.
+ *
+ * Fixed summation order, whatever the threading: the snapshots fall into chunks of
+ * COVARIANCE_CHUNK (4096) consecutive snapshots; each chunk's sum starts from zero
+ * (blocks never straddle a chunk boundary), and the chunk sums are added to the total in
+ * chunk order. `covarianceChunkSums` computes the sums of a range of chunks on its own and
+ * `covarianceFromChunkSums` adds them in order, so splitting the chunks over worker
+ * threads (lib/jobs/pooled-covariance.ts) gives R bit for bit equal to the accumulator's.
  */
 import { requireSquare } from './checks';
 import { ComplexMatrix, zeros } from './linalg/complex';
 import { DoaInputError } from './errors';
+
+/** Snapshots per chunk of the fixed summation order (see the header). */
+export const COVARIANCE_CHUNK = 4096;
 
 export interface CovarianceAccumulatorOptions {
   /** Snapshots per block (default 256). */
@@ -32,6 +42,11 @@ export class CovarianceAccumulator {
   /** Block buffer, element-major, re and im interleaved: element i, snapshot t at 2·(i·b + t). */
   private readonly buf: Float64Array;
   private fill = 0;
+  /** Sums of the current chunk (upper triangle, padded p × p). */
+  private readonly chunkRe: Float64Array;
+  private readonly chunkIm: Float64Array;
+  private chunkFill = 0;
+  /** Completed chunks, added in order. */
   private readonly sumRe: Float64Array;
   private readonly sumIm: Float64Array;
   private total = 0;
@@ -50,15 +65,25 @@ export class CovarianceAccumulator {
     this.buf = new Float64Array(2 * this.padded * blockSize);
     this.sumRe = new Float64Array(this.padded * this.padded);
     this.sumIm = new Float64Array(this.padded * this.padded);
+    this.chunkRe = new Float64Array(this.padded * this.padded);
+    this.chunkIm = new Float64Array(this.padded * this.padded);
+  }
+
+  /** Room left in the current block before a flush is due (block full or chunk complete). */
+  private room(): number {
+    return Math.min(this.blockSize - this.fill, COVARIANCE_CHUNK - this.chunkFill - this.fill);
   }
 
   /** Snapshots accumulated so far. */
   get snapshotCount(): number {
-    return this.total + this.fill;
+    return this.total + this.chunkFill + this.fill;
   }
 
-  /** Adds N_b snapshots given in file layout: an N_b × M matrix, one snapshot per row. */
-  addRows(rows: ComplexMatrix): void {
+  /**
+   * Adds N_b snapshots given in file layout: an N_b × M matrix, one snapshot per row.
+   * `range` limits it to rows [start, end) (error messages keep the matrix's row numbers).
+   */
+  addRows(rows: ComplexMatrix, range?: { start: number; end: number }): void {
     if (rows.cols !== this.elements) {
       throw new DoaInputError(
         'bad-size',
@@ -70,7 +95,9 @@ export class CovarianceAccumulator {
     const buf = this.buf;
     const re = rows.re;
     const im = rows.im;
-    for (let n = 0; n < rows.rows; n++) {
+    const first = range?.start ?? 0;
+    const last = range?.end ?? rows.rows;
+    for (let n = first; n < last; n++) {
       const src = n * m;
       const col2 = 2 * this.fill;
       // v·0 is 0 for finite v and NaN otherwise: one cheap test per row, the slow scan only on failure
@@ -94,12 +121,16 @@ export class CovarianceAccumulator {
           }
         }
       }
-      if (++this.fill === b) this.flush();
+      this.fill++;
+      if (this.room() === 0) this.flush();
     }
   }
 
-  /** Adds the N snapshots of an M × N snapshot matrix (one snapshot per column). */
-  addSnapshots(x: ComplexMatrix): void {
+  /**
+   * Adds the N snapshots of an M × N snapshot matrix (one snapshot per column); `range`
+   * limits it to columns [start, end).
+   */
+  addSnapshots(x: ComplexMatrix, range?: { start: number; end: number }): void {
     if (x.rows !== this.elements) {
       throw new DoaInputError(
         'bad-size',
@@ -107,13 +138,14 @@ export class CovarianceAccumulator {
       );
     }
     const m = this.elements;
-    const n = x.cols;
+    const n = range?.end ?? x.cols;
     const b = this.blockSize;
-    let start = 0;
+    const stride = x.cols;
+    let start = range?.start ?? 0;
     while (start < n) {
-      const take = Math.min(b - this.fill, n - start);
+      const take = Math.min(this.room(), n - start);
       for (let i = 0; i < m; i++) {
-        const src = i * n + start;
+        const src = i * stride + start;
         const dst = 2 * (i * b + this.fill);
         const buf = this.buf;
         const re = x.re;
@@ -141,31 +173,34 @@ export class CovarianceAccumulator {
       }
       this.fill += take;
       start += take;
-      if (this.fill === b) this.flush();
+      if (this.room() === 0) this.flush();
     }
   }
 
   /** R = X·Xᴴ / N over everything added so far (the accumulator stays usable). */
   covariance(): ComplexMatrix {
     this.flush();
-    if (this.total === 0)
-      throw new DoaInputError('bad-size', 'no snapshots were given: the covariance needs at least one');
-    const m = this.elements;
-    const p = this.padded;
-    const out = zeros(m, m);
-    const inv = 1 / this.total;
-    for (let i = 0; i < m; i++) {
-      out.re[i * m + i] = this.sumRe[i * p + i] * inv;
-      for (let k = i + 1; k < m; k++) {
-        const re = this.sumRe[i * p + k] * inv;
-        const im = this.sumIm[i * p + k] * inv;
-        out.re[i * m + k] = re;
-        out.im[i * m + k] = im;
-        out.re[k * m + i] = re;
-        out.im[k * m + i] = -im;
-      }
-    }
-    return out;
+    const count = this.total + this.chunkFill;
+    if (count === 0) throw new DoaInputError('bad-size', 'no snapshots were given: the covariance needs at least one');
+    if (this.chunkFill === 0) return normalisedCovariance(this.sumRe, this.sumIm, this.elements, count);
+    // The partial last chunk is added as a complete one would be, without closing it.
+    const re = this.sumRe.slice();
+    const im = this.sumIm.slice();
+    addInto(re, this.chunkRe);
+    addInto(im, this.chunkIm);
+    return normalisedCovariance(re, im, this.elements, count);
+  }
+
+  /**
+   * The raw (unnormalised, padded, upper-triangle) sums of an accumulator that holds at most
+   * one chunk (covarianceChunkSums gives each chunk its own accumulator). A completed chunk
+   * has already been added to the (zero) total, which holds it exactly.
+   */
+  singleChunkSums(): { re: Float64Array; im: Float64Array } {
+    this.flush();
+    if (this.total > 0 && this.chunkFill > 0)
+      throw new Error('singleChunkSums: the accumulator holds more than one chunk');
+    return this.total > 0 ? { re: this.sumRe, im: this.sumIm } : { re: this.chunkRe, im: this.chunkIm };
   }
 
   private flush(): void {
@@ -174,8 +209,8 @@ export class CovarianceAccumulator {
     const b = this.blockSize;
     const p = this.padded;
     const buf = this.buf;
-    const sr = this.sumRe;
-    const si = this.sumIm;
+    const sr = this.chunkRe;
+    const si = this.chunkIm;
     const b2 = 2 * b;
     if (p !== this.elements) {
       // Zero the padding row so its products vanish.
@@ -225,9 +260,102 @@ export class CovarianceAccumulator {
         si[(i + 1) * p + k + 1] += j11;
       }
     }
-    this.total += count;
+    this.chunkFill += count;
     this.fill = 0;
+    if (this.chunkFill === COVARIANCE_CHUNK) {
+      addInto(this.sumRe, this.chunkRe);
+      addInto(this.sumIm, this.chunkIm);
+      this.chunkRe.fill(0);
+      this.chunkIm.fill(0);
+      this.total += this.chunkFill;
+      this.chunkFill = 0;
+    }
   }
+}
+
+function addInto(to: Float64Array, from: Float64Array): void {
+  for (let i = 0; i < to.length; i++) to[i] += from[i];
+}
+
+/** Hermitian M × M covariance from padded upper-triangle sums over `count` snapshots. */
+function normalisedCovariance(sumRe: Float64Array, sumIm: Float64Array, m: number, count: number): ComplexMatrix {
+  const p = m + (m % 2);
+  const out = zeros(m, m);
+  const inv = 1 / count;
+  for (let i = 0; i < m; i++) {
+    out.re[i * m + i] = sumRe[i * p + i] * inv;
+    for (let k = i + 1; k < m; k++) {
+      const re = sumRe[i * p + k] * inv;
+      const im = sumIm[i * p + k] * inv;
+      out.re[i * m + k] = re;
+      out.im[i * m + k] = im;
+      out.re[k * m + i] = re;
+      out.im[k * m + i] = -im;
+    }
+  }
+  return out;
+}
+
+/** Number of chunks (COVARIANCE_CHUNK snapshots each, the last possibly shorter) of N snapshots. */
+export function covarianceChunkCount(snapshots: number): number {
+  return Math.ceil(snapshots / COVARIANCE_CHUNK);
+}
+
+/**
+ * The raw sums of chunks [firstChunk, firstChunk + chunkCount) of a snapshot matrix:
+ * for each chunk, the padded p × p (p = M rounded up to even) upper-triangle sums
+ * Σ x_i·conj(x_k), real parts then imaginary parts, concatenated chunk after chunk
+ * (2·p² values per chunk). `layout` 'rows' is N × M (file layout), 'snapshots' M × N.
+ */
+export function covarianceChunkSums(
+  x: ComplexMatrix,
+  layout: 'rows' | 'snapshots',
+  firstChunk: number,
+  chunkCount: number,
+): Float64Array {
+  const m = layout === 'rows' ? x.cols : x.rows;
+  const n = layout === 'rows' ? x.rows : x.cols;
+  const p = m + (m % 2);
+  const out = new Float64Array(chunkCount * 2 * p * p);
+  for (let c = 0; c < chunkCount; c++) {
+    const start = (firstChunk + c) * COVARIANCE_CHUNK;
+    const end = Math.min(n, start + COVARIANCE_CHUNK);
+    if (start >= end)
+      throw new DoaInputError('bad-size', `covariance chunk ${firstChunk + c} is beyond the ${n} snapshots`);
+    const one = new CovarianceAccumulator(m);
+    if (layout === 'rows') one.addRows(x, { start, end });
+    else one.addSnapshots(x, { start, end });
+    const sums = one.singleChunkSums();
+    out.set(sums.re, c * 2 * p * p);
+    out.set(sums.im, c * 2 * p * p + p * p);
+  }
+  return out;
+}
+
+/**
+ * R = X·Xᴴ/N from the chunk sums of all chunks, in chunk order (`parts` are consecutive
+ * outputs of covarianceChunkSums covering chunks 0 … C−1): the additions of the
+ * accumulator, so the result equals sampleCovariance bit for bit.
+ */
+export function covarianceFromChunkSums(elements: number, snapshots: number, parts: Float64Array[]): ComplexMatrix {
+  const p = elements + (elements % 2);
+  const size = 2 * p * p;
+  const expected = covarianceChunkCount(snapshots);
+  const got = parts.reduce((s, part) => s + part.length / size, 0);
+  if (got !== expected) {
+    throw new DoaInputError('bad-size', `covarianceFromChunkSums: ${got} chunk sums given, ${expected} needed`);
+  }
+  if (snapshots === 0)
+    throw new DoaInputError('bad-size', 'no snapshots were given: the covariance needs at least one');
+  const re = new Float64Array(p * p);
+  const im = new Float64Array(p * p);
+  for (const part of parts) {
+    for (let at = 0; at < part.length; at += size) {
+      for (let i = 0; i < p * p; i++) re[i] += part[at + i];
+      for (let i = 0; i < p * p; i++) im[i] += part[at + p * p + i];
+    }
+  }
+  return normalisedCovariance(re, im, elements, snapshots);
 }
 
 /** R = X·Xᴴ/N for an M × N snapshot matrix. */

@@ -73,6 +73,12 @@ export interface EstimateBearingsOptions {
    * forward–backward step: the longest contiguous run), and an 'element-subset' warning says so.
    */
   elementIndices?: readonly number[];
+  /**
+   * The M × M sample covariance X·Xᴴ/N of these snapshots when the caller already has it
+   * (several methods on one run, or computed over worker threads by lib/jobs); it must
+   * equal sampleCovariance of the data (the data then still give N and the sizes).
+   */
+  sampleCovariance?: ComplexMatrix;
 }
 
 export interface EstimateBearingsResult {
@@ -210,10 +216,17 @@ function estimateOnPositions(
   }
 
   // Covariance chain.
-  const acc = new CovarianceAccumulator(m);
-  if (snapshots) acc.addSnapshots(snapshots);
-  else acc.addRows(data);
-  const sample = acc.covariance();
+  let sample: ComplexMatrix;
+  if (options.sampleCovariance !== undefined) {
+    sample = options.sampleCovariance;
+    if (sample.rows !== m || sample.cols !== m || sample.re.length !== m * m || sample.im.length !== m * m)
+      throw new DoaInputError('bad-size', `sampleCovariance is ${sample.rows} × ${sample.cols}, not ${m} × ${m}`);
+  } else {
+    const acc = new CovarianceAccumulator(m);
+    if (snapshots) acc.addSnapshots(snapshots);
+    else acc.addRows(data);
+    sample = acc.covariance();
+  }
   let trace = 0;
   for (let i = 0; i < m; i++) trace += sample.re[i * m + i];
   if (!(trace > 0))

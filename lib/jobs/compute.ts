@@ -11,6 +11,7 @@ import { DatasetError, parseSnapshotFile, type ParseOptions, type SnapshotFormat
 import { DoaInputError, DoaNumericalError, type ComplexMatrix, type DoaMethod } from '../doa';
 import { WidebandInputError } from '../doa/wideband/plan';
 import { applyElementGains, complexGains, type ElementGainState } from '../doa/calibration';
+import { covarianceChunkSums, sampleCovarianceFromRows } from '../doa/covariance';
 import { summarise, type DatasetSummary } from '../storage/summary';
 import {
   runStudy,
@@ -53,6 +54,20 @@ export interface EstimateComputeInput {
   calibration?: ElementGainState[];
   /** Enabled elements, 0-based, ascending, on a line with disabled elements; absent: all. */
   enabledIndices?: number[];
+  /** X·Xᴴ/N of the source's snapshots when computed beforehand over the pool (lib/jobs/pooled-covariance.ts). */
+  sampleCovariance?: ComplexMatrix;
+}
+
+/** Raw sums of a range of covariance chunks (lib/doa covarianceChunkSums) of snapshots in shared memory. */
+export interface CovarianceChunksInput {
+  layout: 'rows' | 'snapshots';
+  rows: number;
+  cols: number;
+  /** Usually views of SharedArrayBuffers, so no copy is made per task. */
+  re: Float64Array;
+  im: Float64Array;
+  firstChunk: number;
+  chunkCount: number;
 }
 
 export interface DatasetParseInput {
@@ -85,6 +100,7 @@ export interface ComputeTasks {
   study: { input: StudySpec; output: StudyResult };
   'dataset.parse': { input: DatasetParseInput; output: DatasetParseOutput };
   'btr.blocks': { input: BtrBlocksInput; output: BtrBlocksOutput };
+  'covariance.chunks': { input: CovarianceChunksInput; output: { sums: Float64Array } };
 }
 export type ComputeTaskName = keyof ComputeTasks;
 
@@ -129,7 +145,12 @@ export async function computeEstimate(
   report(0.3);
   const subset =
     input.enabledIndices && input.enabledIndices.length < input.elements ? input.enabledIndices : undefined;
-  const covariance = subset ? undefined : usedCovariance(rows, input.options);
+  // X·Xᴴ/N once for every method (given when the pool computed it; the same value bit for bit). The
+  // pooled sum is of the stored snapshots, so it applies only when no calibration divides them first;
+  // a line with disabled elements gives each method its own elements instead.
+  const pooled = input.calibration ? undefined : input.sampleCovariance;
+  const sample = subset ? undefined : (pooled ?? sampleCovarianceFromRows(rows));
+  const covariance = sample ? usedCovariance(rows, input.options, sample) : undefined;
   const results: MethodResult[] = [];
   for (let i = 0; i < input.methods.length; i++) {
     results.push(
@@ -140,6 +161,7 @@ export async function computeEstimate(
         method: input.methods[i],
         options: input.options,
         ...(covariance ? { covariance } : {}),
+        ...(sample ? { sampleCovariance: sample } : {}),
         ...(subset ? { enabledIndices: subset } : {}),
       }),
     );
@@ -203,6 +225,11 @@ export async function compute<K extends ComputeTaskName>(
       return (await computeDatasetParse(input as DatasetParseInput, report)) as ComputeTasks[K]['output'];
     case 'btr.blocks':
       return (await computeBtrBlocks(input as BtrBlocksInput, report)) as ComputeTasks[K]['output'];
+    case 'covariance.chunks': {
+      const c = input as CovarianceChunksInput;
+      const x = { rows: c.rows, cols: c.cols, re: c.re, im: c.im };
+      return { sums: covarianceChunkSums(x, c.layout, c.firstChunk, c.chunkCount) } as ComputeTasks[K]['output'];
+    }
     default:
       throw new Error(`unknown compute task ${String(task)}`);
   }

@@ -108,9 +108,9 @@ export function pickColumns(rows: ComplexMatrix, indices: readonly number[]): Co
 
 export const CI95_FACTOR = 1.96;
 
-/** The covariance the engine uses for these options (L × L). */
-export function usedCovariance(rows: ComplexMatrix, options: RunOptions): ComplexMatrix {
-  let r = sampleCovarianceFromRows(rows);
+/** The covariance the engine uses for these options (L × L); `sample` is X·Xᴴ/N when already known. */
+export function usedCovariance(rows: ComplexMatrix, options: RunOptions, sample?: ComplexMatrix): ComplexMatrix {
+  let r = sample ?? sampleCovarianceFromRows(rows);
   if (options.singleSnapshot)
     r = spatialSmoothing(r, options.singleSnapshotSubarray ?? defaultSingleSnapshotSubarray(rows.cols));
   if (options.smoothingSubarray !== undefined) r = spatialSmoothing(r, options.smoothingSubarray);
@@ -164,7 +164,8 @@ export function runMethod({
     spacingWavelengths,
     method,
     ...options,
-    ...(selection ? { elementIndices: selection.enabled } : {}),
+    // The full line's sample covariance does not apply to a subset of its elements.
+    ...(selection ? { elementIndices: selection.enabled } : sampleCovariance ? { sampleCovariance } : {}),
   });
   const out: MethodResult = {
     method: res.method,

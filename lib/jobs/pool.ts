@@ -4,7 +4,10 @@ import os from 'node:os';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { Piscina } from 'piscina';
-import { decodeError, type ComputeTaskName, type ComputeTasks } from './compute';
+import { DatasetError } from '../datasets';
+import { covarianceChunkCount } from '../doa/covariance';
+import { decodeError, type ComputeTaskName, type ComputeTasks, type EstimateComputeInput } from './compute';
+import { POOLED_COVARIANCE_MIN_VALUES, pooledSampleCovariance, sharedMatrix } from './pooled-covariance';
 import type { WorkerAnswer, WorkerTask } from './worker';
 
 /**
@@ -115,6 +118,70 @@ export async function runCompute<K extends ComputeTaskName>(
   } finally {
     if (poll) clearInterval(poll);
   }
+}
+
+/**
+ * The estimate task. Large inline or stored snapshot sets (M·N ≥ 2^18 values, more than
+ * one 4096-snapshot chunk, a pool of two or more threads) first get their sample
+ * covariance from every pool thread at once (lib/jobs/pooled-covariance.ts, the same R bit
+ * for bit as the sequential sum); the estimate then runs on it. Dataset files are parsed
+ * inside the estimate task as before (the parse dominates there).
+ */
+export async function runEstimateCompute(
+  input: EstimateComputeInput,
+  options: ComputeOptions = {},
+): Promise<ComputeTasks['estimate']['output']> {
+  const src = input.source;
+  const threads = poolSize();
+  if (
+    threads > 1 &&
+    // The pooled sum is of the stored snapshots: not for a run that divides them by element gains
+    // first, nor for one whose methods each take their own elements.
+    !input.calibration &&
+    !input.enabledIndices &&
+    (src.kind === 'matrix' || src.kind === 'raw') &&
+    src.rows * src.cols >= POOLED_COVARIANCE_MIN_VALUES &&
+    covarianceChunkCount(src.rows) > 1
+  ) {
+    const rows = src.kind === 'matrix' ? sharedMatrix(src) : await sharedRawSnapshots(src);
+    const sample = await pooledSampleCovariance(rows, 'rows', threads, (chunk) =>
+      runCompute('covariance.chunks', chunk, options.signal ? { signal: options.signal } : {}),
+    );
+    options.onProgress?.(0.3);
+    return runCompute(
+      'estimate',
+      { ...input, source: { kind: 'matrix', ...rows }, sampleCovariance: sample },
+      {
+        ...(options.signal ? { signal: options.signal } : {}),
+        ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+      },
+    );
+  }
+  return runCompute('estimate', input, options);
+}
+
+/** A stored snapshot set (N·M re values, then N·M im values, float64 LE) read straight into shared memory. */
+async function sharedRawSnapshots(src: { path: string; rows: number; cols: number }) {
+  const n = src.rows * src.cols;
+  const stat = await fs.promises.stat(src.path);
+  if (stat.size !== 16 * n) {
+    throw new DatasetError(422, 'corrupt', `the stored snapshot file holds ${stat.size} bytes, expected ${16 * n}`);
+  }
+  const shared = new SharedArrayBuffer(16 * n);
+  const handle = await fs.promises.open(src.path, 'r');
+  try {
+    const bytes = new Uint8Array(shared);
+    let at = 0;
+    while (at < bytes.length) {
+      const { bytesRead } = await handle.read(bytes, at, bytes.length - at, at);
+      if (bytesRead === 0) throw new DatasetError(422, 'corrupt', `the stored snapshot file ended after ${at} bytes`);
+      at += bytesRead;
+    }
+  } finally {
+    await handle.close();
+  }
+  const all = new Float64Array(shared);
+  return { rows: src.rows, cols: src.cols, re: all.subarray(0, n), im: all.subarray(n) };
 }
 
 /** Stops the pool's threads (tests, shutdown). */

@@ -13,12 +13,19 @@
  */
 import { DoaNumericalError } from '../errors';
 
-export function tridiagonalQlInPlace(diagonal: Float64Array, offDiagonal: Float64Array, zt: Float64Array | null): void {
+export function tridiagonalQlInPlace(
+  diagonal: Float64Array,
+  offDiagonal: Float64Array,
+  zt: Float64Array | null,
+  /** Optional scratch of at least n entries (a caller that decomposes many matrices reuses it). */
+  scratch?: Float64Array,
+): void {
   const n = diagonal.length;
   if (n <= 1) return;
   const d = diagonal;
   // e[i] = T[i, i+1], e[n−1] = 0.
-  const e = new Float64Array(n);
+  const e = scratch && scratch.length >= n ? scratch : new Float64Array(n);
+  e[n - 1] = 0;
   for (let i = 0; i < n - 1; i++) e[i] = offDiagonal[i];
   const eps = Number.EPSILON;
   let f = 0;

@@ -43,8 +43,9 @@
  */
 import FFT from 'fft.js';
 import { RAD_PER_DEG } from '../angles';
+import { requireFiniteEntries } from '../checks';
 import { inverse as inverseMatrix, zeros, type ComplexMatrix } from '../linalg/complex';
-import { hermitianEigen } from '../linalg/hermitian-eigen';
+import { HermitianEigenWorkspace } from '../linalg/hermitian-eigen';
 import { inverseFromEigen, conditionNumber, MVDR_CONDITION_LIMIT } from '../methods/beamformers';
 import { musicDenominatorFromPhasors, noiseProjector, SPECTRUM_DENOMINATOR_FLOOR } from '../methods/music';
 import { rootMusicElectricalAngles } from '../methods/root-music';
@@ -128,13 +129,16 @@ export class BlockAnalyzer {
   private readonly fft: FFT;
   private readonly fftIn: Float64Array;
   private readonly fftOut: number[];
-  private readonly xRe: Float64Array; // [bin][frame][element]
+  private readonly xRe: Float64Array; // [bin][element][frame]
   private readonly xIm: Float64Array;
   private readonly phasors: { cos: Float64Array; sin: Float64Array }[];
   private readonly formRe: Float64Array; // [bin][lag] diagonal sums of the spectrum's matrix
   private readonly formIm: Float64Array;
   private readonly normaliser: Float64Array; // per bin: max over the grid of P_k
-  private readonly cov: ComplexMatrix;
+  /** Per bin: R_b (covs[b], views into one buffer) and its EVD, reused from block to block. */
+  private readonly covs: ComplexMatrix[];
+  private readonly eigs: { values: Float64Array; vectors: ComplexMatrix }[];
+  private readonly eigen: HermitianEigenWorkspace;
 
   constructor(plan: WidebandPlan) {
     this.plan = plan;
@@ -152,7 +156,28 @@ export class BlockAnalyzer {
     this.formRe = new Float64Array(nb * m);
     this.formIm = new Float64Array(nb * m);
     this.normaliser = new Float64Array(nb);
-    this.cov = zeros(m, m);
+    const mm = m * m;
+    const covRe = new Float64Array(nb * mm);
+    const covIm = new Float64Array(nb * mm);
+    const vecRe = new Float64Array(nb * mm);
+    const vecIm = new Float64Array(nb * mm);
+    const values = new Float64Array(nb * m);
+    this.covs = [];
+    this.eigs = [];
+    for (let b = 0; b < nb; b++) {
+      const at = b * mm;
+      this.covs.push({
+        rows: m,
+        cols: m,
+        re: covRe.subarray(at, at + mm),
+        im: covIm.subarray(at, at + mm),
+      });
+      this.eigs.push({
+        values: values.subarray(b * m, (b + 1) * m),
+        vectors: { rows: m, cols: m, re: vecRe.subarray(at, at + mm), im: vecIm.subarray(at, at + mm) },
+      });
+    }
+    this.eigen = new HermitianEigenWorkspace(m);
   }
 
   /** STFT of the block's frames into the per-bin snapshot arrays. */
@@ -170,7 +195,7 @@ export class BlockAnalyzer {
         this.fft.realTransform(out, input);
         for (let b = 0; b < nb; b++) {
           const k = bins[b];
-          const at = (b * T + t) * m + c;
+          const at = (b * m + c) * T + t;
           this.xRe[at] = out[2 * k];
           this.xIm[at] = out[2 * k + 1];
         }
@@ -178,43 +203,73 @@ export class BlockAnalyzer {
     }
   }
 
-  /** R_b = X_b·X_bᴴ/T into this.cov (exactly Hermitian). */
+  /**
+   * R_b = X_b·X_bᴴ/T into this.covs[b] (exactly Hermitian). Each entry is summed over the
+   * frames in order in a register (the same additions, in the same order, as accumulating
+   * frame by frame), two columns k at a time.
+   */
   private covariance(b: number): ComplexMatrix {
     const { framesPerBlock: T, elements: m } = this.plan;
-    const re = this.cov.re;
-    const im = this.cov.im;
-    re.fill(0);
-    im.fill(0);
+    const out = this.covs[b];
+    const re = out.re;
+    const im = out.im;
     const xr = this.xRe;
     const xi = this.xIm;
-    const base = b * T * m;
-    for (let t = 0; t < T; t++) {
-      const o = base + t * m;
-      for (let i = 0; i < m; i++) {
-        const ar = xr[o + i];
-        const ai = xi[o + i];
-        const row = i * m;
-        re[row + i] += ar * ar + ai * ai;
-        for (let k = i + 1; k < m; k++) {
-          const br = xr[o + k];
-          const bi = xi[o + k];
-          // x_i·conj(x_k)
-          re[row + k] += ar * br + ai * bi;
-          im[row + k] += ai * br - ar * bi;
-        }
-      }
-    }
+    const base = b * m * T;
     const inv = 1 / T;
     for (let i = 0; i < m; i++) {
-      re[i * m + i] *= inv;
-      for (let k = i + 1; k < m; k++) {
-        re[i * m + k] *= inv;
-        im[i * m + k] *= inv;
+      const oi = base + i * T;
+      let d = 0;
+      for (let t = 0; t < T; t++) d += xr[oi + t] * xr[oi + t] + xi[oi + t] * xi[oi + t];
+      re[i * m + i] = d * inv;
+      im[i * m + i] = 0;
+      let k = i + 1;
+      for (; k + 1 < m; k += 2) {
+        const o0 = base + k * T;
+        const o1 = o0 + T;
+        let r0 = 0;
+        let j0 = 0;
+        let r1 = 0;
+        let j1 = 0;
+        for (let t = 0; t < T; t++) {
+          const ar = xr[oi + t];
+          const ai = xi[oi + t];
+          const b0r = xr[o0 + t];
+          const b0i = xi[o0 + t];
+          const b1r = xr[o1 + t];
+          const b1i = xi[o1 + t];
+          // x_i·conj(x_k)
+          r0 += ar * b0r + ai * b0i;
+          j0 += ai * b0r - ar * b0i;
+          r1 += ar * b1r + ai * b1i;
+          j1 += ai * b1r - ar * b1i;
+        }
+        re[i * m + k] = r0 * inv;
+        im[i * m + k] = j0 * inv;
+        re[i * m + k + 1] = r1 * inv;
+        im[i * m + k + 1] = j1 * inv;
+      }
+      for (; k < m; k++) {
+        const o0 = base + k * T;
+        let r0 = 0;
+        let j0 = 0;
+        for (let t = 0; t < T; t++) {
+          const ar = xr[oi + t];
+          const ai = xi[oi + t];
+          const b0r = xr[o0 + t];
+          const b0i = xi[o0 + t];
+          r0 += ar * b0r + ai * b0i;
+          j0 += ai * b0r - ar * b0i;
+        }
+        re[i * m + k] = r0 * inv;
+        im[i * m + k] = j0 * inv;
+      }
+      for (k = i + 1; k < m; k++) {
         re[k * m + i] = re[i * m + k];
         im[k * m + i] = -im[i * m + k];
       }
     }
-    return this.cov;
+    return out;
   }
 
   /** Analyses one block; `channels[c]` holds at least plan.blockSamples samples of channel c. */
@@ -225,14 +280,15 @@ export class BlockAnalyzer {
     const g = this.angles.length;
     this.transform(channels);
 
-    const covs: ComplexMatrix[] = new Array(nb);
-    const eigs: { values: Float64Array; vectors: ComplexMatrix }[] = new Array(nb);
+    const covs = this.covs;
+    const eigs = this.eigs;
     const counts = new Int32Array(nb);
     for (let b = 0; b < nb; b++) {
       const r = this.covariance(b);
-      covs[b] = { rows: m, cols: m, re: r.re.slice(), im: r.im.slice() };
-      const e = hermitianEigen(covs[b]);
-      eigs[b] = e;
+      const e = eigs[b];
+      requireFiniteEntries(r.re, 'hermitianEigen: real part');
+      requireFiniteEntries(r.im, 'hermitianEigen: imaginary part');
+      this.eigen.decompose(r.re, r.im, e.values, e.vectors);
       if (plan.sourceCount === null) counts[b] = estimateSourceCount(e.values, T, plan.sourceCountRule);
     }
     let k: number;

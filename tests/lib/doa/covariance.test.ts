@@ -4,7 +4,11 @@ import { describe, expect, it } from 'vitest';
 import fixtures from '@/fixtures/doa/methods.json';
 import { ComplexMatrix, clone, conjugateTranspose, multiply, scale, zeros } from '@/lib/doa/linalg/complex';
 import {
+  COVARIANCE_CHUNK,
   CovarianceAccumulator,
+  covarianceChunkCount,
+  covarianceChunkSums,
+  covarianceFromChunkSums,
   forwardBackward,
   sampleCovariance,
   sampleCovarianceFromRows,
@@ -108,6 +112,74 @@ describe('sample covariance', () => {
     expect(() => sampleCovarianceFromRows(bad)).toThrow(/row 3 \(0-based\), element 4/);
     expect(() => new CovarianceAccumulator(3).covariance()).toThrow(/no snapshots/);
     expect(() => new CovarianceAccumulator(3).addRows(rows)).toThrow(/7 columns but the array has 3/);
+  });
+});
+
+describe('fixed summation order: chunk sums (bit for bit, whatever the split)', () => {
+  // N = 10 000 snapshots: chunks of 4096, 4096 and 1808; M = 7 (odd, padded) and 16.
+  for (const m of [7, 16]) {
+    const x = simulateSnapshots({
+      elements: m,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-20, 15],
+      noisePower: 1,
+      snapshots: 10000,
+      seed: 11,
+    });
+    const rows = transpose(x);
+    const reference = sampleCovariance(x);
+
+    it(`M = ${m}: the accumulator's result does not depend on how the snapshots are fed`, () => {
+      const acc = new CovarianceAccumulator(m); // the default block size (blocks are part of the order)
+      for (const [start, end] of [
+        [0, 1],
+        [1, 4095],
+        [4095, 4097],
+        [4097, 9999],
+        [9999, 10000],
+      ])
+        acc.addRows(rows, { start, end });
+      const r = acc.covariance();
+      expect(r.re).toEqual(reference.re);
+      expect(r.im).toEqual(reference.im);
+      expect(sampleCovarianceFromRows(rows).re).toEqual(reference.re);
+    });
+
+    it(`M = ${m}: chunk sums split over 1, 2 or 3 parts combine to the sequential result exactly`, () => {
+      const chunks = covarianceChunkCount(10000);
+      expect(chunks).toBe(3);
+      expect(COVARIANCE_CHUNK).toBe(4096);
+      for (const split of [[3], [1, 2], [2, 1], [1, 1, 1]]) {
+        const parts: Float64Array[] = [];
+        let first = 0;
+        for (const count of split) {
+          parts.push(
+            covarianceChunkSums(split.length === 2 ? x : rows, split.length === 2 ? 'snapshots' : 'rows', first, count),
+          );
+          first += count;
+        }
+        const r = covarianceFromChunkSums(m, 10000, parts);
+        expect(r.re).toEqual(reference.re);
+        expect(r.im).toEqual(reference.im);
+      }
+      expect(() => covarianceFromChunkSums(m, 10000, [covarianceChunkSums(x, 'snapshots', 0, 2)])).toThrow(
+        /2 chunk sums given, 3 needed/,
+      );
+    });
+  }
+
+  it('keeps the row numbers of the whole matrix in error messages', () => {
+    const x = simulateSnapshots({
+      elements: 3,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [0],
+      noisePower: 1,
+      snapshots: 5000,
+      seed: 2,
+    });
+    const rows = transpose(x);
+    rows.re[4500 * 3 + 1] = Infinity;
+    expect(() => covarianceChunkSums(rows, 'rows', 1, 1)).toThrow(/row 4500 \(0-based\), element 1/);
   });
 });
 
