@@ -84,7 +84,9 @@ async function startPool(threads: number): Promise<void> {
   const { pathToFileURL } = await import('node:url');
   const { Piscina } = await import('piscina');
   // Inside the repository, so that the bundle's external packages resolve from node_modules.
-  const dir = fs.mkdtempSync(path.join(__dirname, '..', 'node_modules', '.cache', 'bench-worker-'));
+  const cache = path.join(__dirname, '..', 'node_modules', '.cache');
+  fs.mkdirSync(cache, { recursive: true });
+  const dir = fs.mkdtempSync(path.join(cache, 'bench-worker-'));
   const { buildWorker } = (await import(pathToFileURL(path.join(__dirname, 'build-worker.mjs')).href)) as {
     buildWorker: (file: string, options: { inlineSourceMap: boolean }) => Promise<string>;
   };
