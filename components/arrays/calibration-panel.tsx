@@ -6,6 +6,7 @@ import { Card, CardHeader } from '@/components/ui/card';
 import { Button } from '@/components/ui/button';
 import { Badge } from '@/components/ui/badge';
 import { FormMessage, inputClass } from '@/components/ui/field';
+import { ProgressBar } from '@/components/ui/progress-bar';
 import { Chart } from '@/components/charts/chart';
 import { apiSend, ClientApiError, fetcher } from '@/lib/client/fetcher';
 import { cn } from '@/lib/client/cn';
@@ -222,19 +223,7 @@ export function CalibrationPanel({
         ) : null}
         {active ? (
           <div data-testid="calibration-progress">
-            <div
-              role="progressbar"
-              aria-label="Calibration progress"
-              aria-valuemin={0}
-              aria-valuemax={100}
-              aria-valuenow={Math.round(calibration.progress * 100)}
-              className="h-2 overflow-hidden rounded bg-ink-100"
-            >
-              <div
-                className="h-full bg-glass-500 transition-[width]"
-                style={{ width: `${Math.max(3, calibration.progress * 100)}%` }}
-              />
-            </div>
+            <ProgressBar fraction={calibration.progress} label="Calibration progress" />
             <p className="mt-1 text-sm text-ink-600 tabular">
               {calibration.status === 'queued' ? 'Queued' : 'Fitting'} · {Math.round(calibration.progress * 100)} %
             </p>

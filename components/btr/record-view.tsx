@@ -5,6 +5,7 @@ import useSWR from 'swr';
 import { Card, CardHeader } from '@/components/ui/card';
 import { Button, buttonClass } from '@/components/ui/button';
 import { FormMessage } from '@/components/ui/field';
+import { ProgressBar } from '@/components/ui/progress-bar';
 import { StopButton } from '@/components/jobs/stop-button';
 import { apiSend, ClientApiError, fetcher } from '@/lib/client/fetcher';
 import { clockLabel } from '@/lib/charts/bearing-time';
@@ -157,19 +158,7 @@ export function RecordView({ id, canEdit }: { id: number; canEdit: boolean }) {
             }
           />
           <div className="px-5 py-4">
-            <div
-              role="progressbar"
-              aria-label="Record progress"
-              aria-valuemin={0}
-              aria-valuemax={100}
-              aria-valuenow={Math.round(record.progress * 100)}
-              className="h-2 overflow-hidden rounded bg-ink-100"
-            >
-              <div
-                className="h-full bg-glass-500 transition-[width]"
-                style={{ width: `${Math.max(3, record.progress * 100)}%` }}
-              />
-            </div>
+            <ProgressBar fraction={record.progress} label="Record progress" />
             <p className="mt-2 text-sm text-ink-600 tabular">{Math.round(record.progress * 100)} %</p>
           </div>
         </Card>

@@ -4,6 +4,7 @@ import { useRouter } from 'next/navigation';
 import { getCsrfToken } from 'next-auth/react';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage, inputClass } from '@/components/ui/field';
+import { ProgressBar } from '@/components/ui/progress-bar';
 import { cn } from '@/lib/client/cn';
 
 export type ArrayOption = {
@@ -172,19 +173,13 @@ export function UploadForm({ arrays, maxBytes }: { arrays: ArrayOption[]; maxByt
             <span>{phase === 'checking' ? 'Checking and storing the file…' : `Uploading ${fileName}`}</span>
             <span className="tabular">{Math.round(progress * 100)}%</span>
           </div>
-          <div
-            role="progressbar"
-            aria-label="Upload progress"
-            aria-valuemin={0}
-            aria-valuemax={100}
-            aria-valuenow={Math.round(progress * 100)}
-            className="mt-1 h-2 overflow-hidden rounded bg-ink-100"
-          >
-            <div
-              className={cn('h-full bg-glass-500 transition-[width]', phase === 'checking' && 'animate-pulse')}
-              style={{ width: `${progress * 100}%` }}
-            />
-          </div>
+          <ProgressBar
+            fraction={progress}
+            label="Upload progress"
+            minPercent={0}
+            pulse={phase === 'checking'}
+            className="mt-1"
+          />
         </div>
       ) : null}
       {error ? (

@@ -7,6 +7,7 @@ import { Card, CardHeader } from '@/components/ui/card';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { FormMessage } from '@/components/ui/field';
+import { ProgressBar } from '@/components/ui/progress-bar';
 import { EigenvalueChart } from '@/components/datasets/figures';
 import { SpectrumChart } from './spectrum-chart';
 import { METHOD_LABELS } from './labels';
@@ -189,21 +190,7 @@ export function RunView({ id, initial, canRun }: { id: number; initial: RunDto; 
           }
         />
         <div className="px-5 py-4">
-          {active ? (
-            <div
-              role="progressbar"
-              aria-label="Run progress"
-              aria-valuemin={0}
-              aria-valuemax={100}
-              aria-valuenow={Math.round(run.progress * 100)}
-              className="h-2 overflow-hidden rounded bg-ink-100"
-            >
-              <div
-                className="h-full bg-glass-500 transition-[width]"
-                style={{ width: `${Math.max(3, run.progress * 100)}%` }}
-              />
-            </div>
-          ) : null}
+          {active ? <ProgressBar fraction={run.progress} label="Run progress" /> : null}
           {run.error ? <FormMessage tone="error">{run.error}</FormMessage> : null}
           {rerun.error ? <FormMessage tone="error">{rerun.error}</FormMessage> : null}
           <p className="text-sm text-ink-600" data-testid="run-calibration">

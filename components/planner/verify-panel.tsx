@@ -3,6 +3,7 @@ import useSWR from 'swr';
 import Link from 'next/link';
 import { fetcher } from '@/lib/client/fetcher';
 import { FormMessage } from '@/components/ui/field';
+import { ProgressBar } from '@/components/ui/progress-bar';
 
 type StudyState = {
   id: number;
@@ -44,16 +45,7 @@ function Progress({ study, label }: { study: StudyState | undefined; label: stri
       <p>
         {label}: {study.status === 'queued' ? 'queued' : `running, ${Math.round(study.progress * 100)} %`}
       </p>
-      <div
-        role="progressbar"
-        aria-label={`${label} progress`}
-        aria-valuemin={0}
-        aria-valuemax={100}
-        aria-valuenow={Math.round(study.progress * 100)}
-        className="mt-1 h-2 rounded-full bg-ink-100"
-      >
-        <div className="h-2 rounded-full bg-glass-500" style={{ width: `${Math.max(3, study.progress * 100)}%` }} />
-      </div>
+      <ProgressBar fraction={study.progress} label={`${label} progress`} className="mt-1" />
     </div>
   );
 }

@@ -6,6 +6,7 @@ import { Card, CardHeader } from '@/components/ui/card';
 import { Button } from '@/components/ui/button';
 import { DataTable } from '@/components/ui/data-table';
 import { FormMessage } from '@/components/ui/field';
+import { ProgressBar } from '@/components/ui/progress-bar';
 import useSWR from 'swr';
 import { apiSend, ClientApiError, fetcher } from '@/lib/client/fetcher';
 import { StopButton } from '@/components/jobs/stop-button';
@@ -264,19 +265,7 @@ export function StudyView({ id, initial, canEdit }: { id: number; initial: Study
             }
           />
           <div className="px-5 py-4">
-            <div
-              role="progressbar"
-              aria-label="Study progress"
-              aria-valuemin={0}
-              aria-valuemax={100}
-              aria-valuenow={Math.round(study.progress * 100)}
-              className="h-2 overflow-hidden rounded bg-ink-100"
-            >
-              <div
-                className="h-full bg-glass-500 transition-[width]"
-                style={{ width: `${Math.max(3, study.progress * 100)}%` }}
-              />
-            </div>
+            <ProgressBar fraction={study.progress} label="Study progress" />
             <p className="mt-2 text-sm text-ink-600 tabular">{Math.round(study.progress * 100)} %</p>
           </div>
         </Card>
