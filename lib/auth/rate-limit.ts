@@ -20,8 +20,8 @@ export async function countHit({
     await db.query(
       `INSERT INTO rate_limits ("key", "windowStart", "count") VALUES (:key, :now, 1)
        ON CONFLICT("key") DO UPDATE SET
-         "count" = CASE WHEN "windowStart" <= :expired THEN 1 ELSE "count" + 1 END,
-         "windowStart" = CASE WHEN "windowStart" <= :expired THEN :now ELSE "windowStart" END`,
+         "count" = CASE WHEN rate_limits."windowStart" <= :expired THEN 1 ELSE rate_limits."count" + 1 END,
+         "windowStart" = CASE WHEN rate_limits."windowStart" <= :expired THEN :now ELSE rate_limits."windowStart" END`,
       { replacements: { key, now, expired: now - windowMs }, transaction },
     );
     const rows = await db.query<{ count: number }>(`SELECT "count" FROM rate_limits WHERE "key" = :key`, {

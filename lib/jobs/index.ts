@@ -4,7 +4,7 @@ import { randomBytes } from 'node:crypto';
 import { Op, Transaction } from 'sequelize';
 import { Job, type JobStatus } from '@/models';
 import { getDb } from '../db';
-import { dbPath } from '../env';
+import { dbTarget } from '../env';
 import { poolSize } from './pool';
 
 /**
@@ -122,7 +122,7 @@ const kinds = (g.__steerwiseJobKinds ??= new Map<string, JobKind>()) as Map<stri
 const runners = (g.__steerwiseJobRunners ??= new Map<string, RunnerState>()) as Map<string, RunnerState>;
 
 function state(): RunnerState {
-  const key = dbPath();
+  const key = dbTarget();
   let s = runners.get(key);
   if (!s) {
     s = {
