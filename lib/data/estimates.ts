@@ -428,12 +428,12 @@ async function snapshotSource(
  * compute runs in a worker thread (lib/jobs/compute.ts); the same inputs give
  * the same results, so a job re-queued after a crash stores the same answer.
  */
-registerJobKind<void>({
+registerJobKind<{ results: MethodResult[] } | null>({
   kind: ESTIMATE_JOB,
   maxAttempts: 2,
   async run({ job, signal, setProgress }: JobContext) {
     const run = await EstimateRun.findByPk(Number(job.inputRef));
-    if (!run) return; // deleted meanwhile
+    if (!run) return null; // deleted meanwhile
     const inputs = run.inputs as unknown as RunInputs;
     const { source, transferList } = await snapshotSource(run, inputs);
     const input: EstimateComputeInput = {
@@ -448,10 +448,14 @@ registerJobKind<void>({
       onProgress: setProgress,
       ...(transferList ? { transferList } : {}),
     });
-    // Result and status in one write (onState skips 'done'); a crash before the job row says done re-runs it to the same answer.
+    return { results };
+  },
+  // Result and status in one write (onState skips 'done'), in the transaction that marks the job done.
+  async store({ job, value, transaction }) {
+    if (!value) return;
     await EstimateRun.update(
-      { result: { results } as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
-      { where: { id: run.id } },
+      { result: value as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { where: { id: Number(job.inputRef) }, transaction },
     );
   },
   async onState({ inputRef, status, progress, error }) {
