@@ -6,7 +6,14 @@ import { Job, type JobStatus } from '@/models';
 import { getDb } from '../db';
 import { dbTarget } from '../env';
 import { poolSize } from './pool';
-import { queueBackend, runsQueuedJobs, sendJobMessage, startQueueConsumers, stopQueue } from './queue';
+import {
+  pauseQueueConsumers,
+  queueBackend,
+  runsQueuedJobs,
+  sendJobMessage,
+  startQueueConsumers,
+  stopQueue,
+} from './queue';
 
 /**
  * Durable jobs: one module, one table (`jobs`, migration 0004), every kind.
@@ -609,6 +616,7 @@ export async function stopJobRunner(timeoutMs = 10_000): Promise<void> {
   if (s.timer) clearInterval(s.timer);
   s.started = false;
   s.stopped = true;
+  pauseQueueConsumers();
   const end = Date.now() + timeoutMs;
   while ((s.running.size || s.pumping) && Date.now() < end) await new Promise((r) => setTimeout(r, 50));
   await stopQueue().catch(() => undefined);

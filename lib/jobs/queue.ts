@@ -146,6 +146,12 @@ export async function startQueueConsumers(loops: number, handle: (jobId: number)
   }
 }
 
+/** Consumers fetch no further message (the job each one is running goes on). */
+export function pauseQueueConsumers(): void {
+  if (!databaseUrl()) return;
+  for (const c of holder().consumers) c.stop = true;
+}
+
 /** Stops this process's consumers and pg-boss (tests, shutdown). */
 export async function stopQueue(): Promise<void> {
   if (!databaseUrl()) return;
