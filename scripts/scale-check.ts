@@ -157,7 +157,8 @@ async function allEnded(client: pg.Client, kind: string, refs: number[]): Promis
 }
 
 function startWorker(env: NodeJS.ProcessEnv, name: string): ChildProcess {
-  return spawnLogged(name, path.join(root, 'node_modules/.bin/tsx'), ['scripts/worker.ts'], {
+  // node --import tsx (not the tsx CLI, which runs the script in a child process): the pid is the worker's own.
+  return spawnLogged(name, process.execPath, ['--import', 'tsx', 'scripts/worker.ts'], {
     ...env,
     STEERWISE_WORKERS: '1',
   });
@@ -283,6 +284,19 @@ async function main() {
         (await jobsFor(client, 'estimate', killIds)).filter((r) => r.status === 'done').length >= killIds.length / 4,
       600_000,
     );
+    await waitFor(
+      'the worker to be killed to hold a job',
+      async () =>
+        Number(
+          (
+            await client.query<{ n: string }>(
+              `SELECT count(*) AS n FROM jobs WHERE status = 'running' AND "leaseOwner" LIKE $1`,
+              [`%/${ws[1].pid}/%`],
+            )
+          ).rows[0].n,
+        ) > 0,
+      60_000,
+    );
     const heldByVictim = (
       await client.query<{ n: string }>(
         `SELECT count(*) AS n FROM jobs WHERE status = 'running' AND "leaseOwner" LIKE $1`,
@@ -357,7 +371,15 @@ async function main() {
     for (const s of studies) {
       const expected = await compute('study', s.inputs.spec as never, () => undefined);
       compared++;
-      const strip = (v: unknown) => JSON.stringify(v, (k, x) => (/elapsed|Ms$/i.test(k) ? undefined : x));
+      // Keys sorted (JSONB keeps its own key order), timings left out.
+      const strip = (v: unknown): string =>
+        JSON.stringify(v, (k, x) =>
+          /elapsed|Ms$/i.test(k)
+            ? undefined
+            : x && typeof x === 'object' && !Array.isArray(x)
+              ? Object.fromEntries(Object.entries(x as object).sort(([a], [b]) => (a < b ? -1 : 1)))
+              : x,
+        );
       if (strip(expected) !== strip(s.result)) mismatched++;
     }
     await client.end();

@@ -2,7 +2,6 @@ import 'server-only';
 import fs from 'node:fs';
 import path from 'node:path';
 import { createHash, randomUUID } from 'node:crypto';
-import { Op } from 'sequelize';
 import { EstimateRun } from '@/models';
 import type { ComplexMatrix } from '../doa';
 import { dataDir } from '../env';
@@ -98,5 +97,6 @@ export async function withInlineSnapshots(inputs: Record<string, unknown>): Prom
 export async function isSnapshotSetReferenced(relative: string): Promise<boolean> {
   const sha = path.basename(relative).split('.')[0];
   if (!/^[0-9a-f]{64}$/.test(sha)) return false;
-  return (await EstimateRun.count({ where: { inputs: { [Op.like]: `%${sha}%` } } as never })) > 0;
+  // A JSON path query on both databases: json_extract on SQLite, ->> on the JSONB column on Postgres.
+  return (await EstimateRun.count({ where: { inputs: { snapshotSet: { sha256: sha } } } as never })) > 0;
 }
