@@ -226,6 +226,7 @@ async function main() {
       );
     }
     const client = new pg.Client({ connectionString: cluster.url });
+    client.on('error', (err) => console.error('scale:check: database connection', err.message));
     await client.connect();
 
     const bodies = Array.from({ length: TOTAL_ESTIMATES }, (_, i) => estimateBody(i));
@@ -405,6 +406,10 @@ async function main() {
       }),
     );
     if (lost || duplicated || mismatched) process.exitCode = 1;
+  } catch (err) {
+    console.error('scale:check failed:', err);
+    for (const [child, lines] of logs) console.error(`--- pid ${child.pid}\n${lines.slice(-15).join('\n')}`);
+    process.exitCode = 1;
   } finally {
     for (const c of children) await stopChild(c, 'SIGTERM').catch(() => undefined);
     await cluster?.stop();
