@@ -39,8 +39,8 @@ export default defineConfig({
       },
       {
         // The API suite's Postgres subset (package.json test:api:pg): concurrency, jobs, estimates, arrays,
-        // links, hand-offs, sign-in rate limits, datasets and studies, each file on its own database of one
-        // throwaway cluster. The rest of the API suite runs on SQLite only (see DEVELOPERS.md, "Postgres").
+        // links, hand-offs, sign-in rate limits, datasets, studies and reviews, each file on its own database of
+        // one throwaway cluster. The rest of the API suite runs on SQLite only (see DEVELOPERS.md, "Postgres").
         extends: true,
         test: {
           name: 'api-pg',
@@ -54,6 +54,7 @@ export default defineConfig({
             'tests/api/sign-in-rate-limit.test.ts',
             'tests/api/datasets.test.ts',
             'tests/api/studies.test.ts',
+            'tests/api/reviews.test.ts',
           ],
           setupFiles: ['tests/helpers/api-setup.ts'],
           globalSetup: ['tests/helpers/pg-global-setup.ts'],

@@ -119,7 +119,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
       onDelete: 'CASCADE',
     },
     authorId: user(true),
-    kind: { type: DataTypes.STRING(16), allowNull: false },
+    kind: { type: DataTypes.STRING(24), allowNull: false },
     body: { type: DataTypes.TEXT, allowNull: false },
     createdAt: ts,
   });
