@@ -1,6 +1,6 @@
 /**
  * npm run scale:check — the larger-team layout on one machine (README, "Running for a larger team"):
- * a throwaway PostgreSQL cluster (scripts/pg-cluster.ts), 2 web processes (`next start`, STEERWISE_RUN_JOBS=0,
+ * a throwaway PostgreSQL cluster (scripts/pg-cluster.ts), the S3 fake s3rver as the shared file store, 2 web processes (`next start`, STEERWISE_RUN_JOBS=0,
  * so they only store and enqueue) and compute workers (`npm run worker`) sharing one database, one pg-boss queue
  * and one data folder.
  *
@@ -30,6 +30,8 @@ import { simulateSnapshots } from '../lib/doa/sim/simulate';
 import { freePort, startPgCluster, type PgCluster } from './pg-cluster';
 
 const require_ = createRequire(import.meta.url);
+type S3rverInstance = { run(): Promise<import('node:net').AddressInfo>; close(): Promise<void> };
+const S3rver = require_('s3rver') as new (o: object) => S3rverInstance;
 const serverOnly = require_.resolve('server-only');
 require_.cache[serverOnly] = { id: serverOnly, filename: serverOnly, loaded: true, exports: {} } as NodeJS.Module;
 
@@ -163,6 +165,7 @@ function startWorker(env: NodeJS.ProcessEnv, name: string): ChildProcess {
   return spawnLogged(name, process.execPath, ['--import', 'tsx', 'scripts/worker.ts'], {
     ...env,
     STEERWISE_WORKERS: '1',
+    STEERWISE_DATA_DIR: fs.mkdtempSync(path.join(env.STEERWISE_DATA_DIR!, `${name}-`)),
   });
 }
 
@@ -185,8 +188,19 @@ async function main() {
   }
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-scale-'));
   let cluster: PgCluster | undefined;
+  let s3: S3rverInstance | undefined;
   try {
     cluster = await startPgCluster();
+    // The S3 fake: every process shares the bucket; the workers get data folders of their own, so the
+    // snapshot sets they read come from the bucket (lib/storage/shared.ts), not from the web processes' disk.
+    s3 = new S3rver({
+      port: 0,
+      address: '127.0.0.1',
+      silent: true,
+      directory: path.join(dataDir, 's3rver'),
+      configureBuckets: [{ name: 'steerwise' }],
+    });
+    const s3Port = (await s3.run()).port;
     const env: NodeJS.ProcessEnv = {
       ...process.env,
       NODE_ENV: 'production',
@@ -197,6 +211,11 @@ async function main() {
       STEERWISE_JOB_LOG: '1',
       STEERWISE_MAIL_SINK: 'off',
       STEERWISE_PG_POOL_MAX: '5',
+      STEERWISE_S3_BUCKET: 'steerwise',
+      STEERWISE_S3_ENDPOINT: `http://127.0.0.1:${s3Port}`,
+      STEERWISE_S3_REGION: 'us-east-1',
+      STEERWISE_S3_ACCESS_KEY_ID: 'S3RVER',
+      STEERWISE_S3_SECRET_ACCESS_KEY: 'S3RVER',
     };
     runSync(['scripts/migrate.ts'], env);
     runSync(['scripts/seed.ts'], { ...env, NODE_ENV: 'development' });
@@ -386,9 +405,21 @@ async function main() {
       if (strip(expected) !== strip(s.result)) mismatched++;
     }
     await client.end();
+    // Snapshot sets the workers fetched from the bucket into their own data folders.
+    const fromS3 = fs
+      .readdirSync(dataDir)
+      .filter((d) => d.startsWith('worker'))
+      .reduce(
+        (n, d) =>
+          n +
+          (fs.readdirSync(path.join(dataDir, d), { recursive: true }) as string[]).filter((f) => f.endsWith('.c128'))
+            .length,
+        0,
+      );
     console.log(
       JSON.stringify({
         case: 'scale-kill',
+        snapshotSetsFetchedFromS3: fromS3,
         lost,
         duplicated,
         estimates: estRows.length,
@@ -415,6 +446,7 @@ async function main() {
   } finally {
     for (const c of children) await stopChild(c, 'SIGTERM').catch(() => undefined);
     await cluster?.stop();
+    await s3?.close().catch(() => undefined);
     fs.rmSync(dataDir, { recursive: true, force: true });
   }
 }

@@ -19,6 +19,7 @@ import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
 import { runCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
 import { resolveStoragePath } from '../storage/files';
+import { ensureLocalFile } from '../storage/shared';
 import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
 import { compareRuns, type RerunComparison } from '../runs/compare';
 import { SOFTWARE_VERSION } from '../version';
@@ -401,7 +402,7 @@ async function snapshotSource(
     return {
       source: {
         kind: 'file',
-        path: resolveStoragePath(dataset.storagePath),
+        path: await ensureLocalFile(dataset.storagePath),
         format: dataset.format,
         fileName: dataset.originalName,
         maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
@@ -412,7 +413,13 @@ async function snapshotSource(
   if (inputs.snapshotSet) {
     const ref = inputs.snapshotSet;
     return {
-      source: { kind: 'raw', path: resolveStoragePath(ref.path), rows: ref.rows, cols: ref.cols, sha256: ref.sha256 },
+      source: {
+        kind: 'raw',
+        path: await ensureLocalFile(ref.path),
+        rows: ref.rows,
+        cols: ref.cols,
+        sha256: ref.sha256,
+      },
     };
   }
   // Runs stored before snapshot sets (or imported from a bundle) carry their matrix inline.

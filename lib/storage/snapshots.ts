@@ -6,6 +6,7 @@ import { EstimateRun } from '@/models';
 import type { ComplexMatrix } from '../doa';
 import { dataDir } from '../env';
 import { resolveStoragePath } from './files';
+import { ensureLocalFile, publishStoredFile } from './shared';
 
 /**
  * Inline snapshot sets stored once, by content, beside the datasets:
@@ -49,6 +50,7 @@ export async function storeSnapshotSet(m: ComplexMatrix): Promise<SnapshotSetRef
     const temp = `${file}.${randomUUID()}.part`;
     await fs.promises.writeFile(temp, bytes, { flag: 'wx' });
     await fs.promises.rename(temp, file);
+    await publishStoredFile(rel);
   }
   return { sha256, rows: m.rows, cols: m.cols, path: rel };
 }
@@ -57,7 +59,7 @@ export async function storeSnapshotSet(m: ComplexMatrix): Promise<SnapshotSetRef
 export async function readSnapshotSet(ref: SnapshotSetRef): Promise<ComplexMatrix | null> {
   let bytes: Buffer;
   try {
-    bytes = await fs.promises.readFile(resolveStoragePath(ref.path));
+    bytes = await fs.promises.readFile(await ensureLocalFile(ref.path));
   } catch {
     return null;
   }
