@@ -181,7 +181,15 @@ async function stopChild(child: ChildProcess, signal: NodeJS.Signals = 'SIGTERM'
 }
 
 async function main() {
-  if (!fs.existsSync(path.join(root, '.next', 'BUILD_ID'))) {
+  // Build when there is no build or the sources changed since (the web processes run the built app).
+  const newest = (dir: string): number =>
+    (fs.readdirSync(path.join(root, dir), { recursive: true }) as string[])
+      .filter((f) => /\.(ts|tsx)$/.test(f))
+      .reduce((m, f) => Math.max(m, fs.statSync(path.join(root, dir, f)).mtimeMs), 0);
+  const buildId = path.join(root, '.next', 'BUILD_ID');
+  const stale =
+    !fs.existsSync(buildId) || Math.max(newest('lib'), newest('app'), newest('models')) > fs.statSync(buildId).mtimeMs;
+  if (stale) {
     console.error('scale:check: building the app (npm run build)…');
     const b = spawnSync('npm', ['run', 'build'], { cwd: root, stdio: 'inherit' });
     if (b.status !== 0) throw new Error('npm run build failed');
@@ -303,7 +311,8 @@ async function main() {
     await waitFor(
       'a quarter of the kill batch',
       async () =>
-        (await jobsFor(client, 'estimate', killIds)).filter((r) => r.status === 'done').length >= killIds.length / 4,
+        (await jobsFor(client, 'estimate', killIds)).filter((r) => !['queued', 'running'].includes(r.status)).length >=
+        killIds.length / 4,
       600_000,
     );
     await waitFor(
