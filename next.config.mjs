@@ -11,6 +11,10 @@ const nextConfig = {
     'bcryptjs',
     'piscina',
     'esbuild',
+    'pg',
+    'pg-boss',
+    '@aws-sdk/client-s3',
+    '@aws-sdk/lib-storage',
   ],
   poweredByHeader: false,
   // The build type-checks the whole project. STEERWISE_SKIP_TYPECHECK=1 skips

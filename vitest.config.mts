@@ -38,6 +38,29 @@ export default defineConfig({
         test: { name: 'api', include: ['tests/api/**/*.test.ts'], setupFiles: ['tests/helpers/api-setup.ts'] },
       },
       {
+        // The API suite's Postgres subset (package.json test:api:pg): concurrency, jobs, estimates, arrays,
+        // links, hand-offs, sign-in rate limits, datasets, studies and reviews, each file on its own database of
+        // one throwaway cluster. The rest of the API suite runs on SQLite only (see DEVELOPERS.md, "Postgres").
+        extends: true,
+        test: {
+          name: 'api-pg',
+          include: [
+            'tests/api/postgres-concurrency.test.ts',
+            'tests/api/jobs.test.ts',
+            'tests/api/estimates.test.ts',
+            'tests/api/arrays.test.ts',
+            'tests/api/links.test.ts',
+            'tests/api/handoff.test.ts',
+            'tests/api/sign-in-rate-limit.test.ts',
+            'tests/api/datasets.test.ts',
+            'tests/api/studies.test.ts',
+            'tests/api/reviews.test.ts',
+          ],
+          setupFiles: ['tests/helpers/api-setup.ts'],
+          globalSetup: ['tests/helpers/pg-global-setup.ts'],
+        },
+      },
+      {
         extends: true,
         test: {
           name: 'e2e',

@@ -14,6 +14,24 @@ export function dbPath(): string {
   return path.resolve(/*turbopackIgnore: true*/ process.env.STEERWISE_DB || path.join(dataDir(), 'steerwise.sqlite'));
 }
 
+/**
+ * DATABASE_URL when it names a Postgres database (postgres:// or postgresql://),
+ * else undefined: the embedded SQLite file (dbPath) is used.
+ */
+export function databaseUrl(): string | undefined {
+  const url = process.env.DATABASE_URL?.trim();
+  return url && /^postgres(ql)?:\/\//.test(url) ? url : undefined;
+}
+
+/** What the app opens: the Postgres URL when DATABASE_URL is set, else the SQLite file. */
+export function dbTarget(): string {
+  return databaseUrl() ?? dbPath();
+}
+
+export function isPostgresTarget(target: string): boolean {
+  return /^postgres(ql)?:\/\//.test(target);
+}
+
 let fileSecret: string | undefined;
 
 /**

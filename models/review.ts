@@ -30,7 +30,7 @@ export class Review extends Model<InferAttributes<Review>, InferCreationAttribut
     Review.init(
       {
         id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-        kind: { type: DataTypes.STRING(16), allowNull: false },
+        kind: { type: DataTypes.STRING(24), allowNull: false },
         body: { type: DataTypes.TEXT, allowNull: false },
         createdAt: DataTypes.DATE,
       },

@@ -5,9 +5,13 @@
  */
 import { parseArgs } from 'node:util';
 import { createBackup } from '@/lib/backup';
-import { dataDir, dbPath } from '@/lib/env';
+import { databaseUrl, dataDir, dbPath } from '@/lib/env';
 
 async function main() {
+  if (databaseUrl())
+    throw new Error(
+      'DATABASE_URL names a Postgres database: back it up with pg_dump (and the file store with its own tools); see the README, "Running for a larger team".',
+    );
   const { values } = parseArgs({ options: { out: { type: 'string' } } });
   if (!values.out) throw new Error('Usage: npm run backup -- --out <file.zip>');
   const manifest = await createBackup({ dataDir: dataDir(), dbFile: dbPath(), out: values.out });

@@ -5,9 +5,13 @@
  */
 import { parseArgs } from 'node:util';
 import { restoreBackup } from '@/lib/backup';
-import { dataDir, dbPath } from '@/lib/env';
+import { databaseUrl, dataDir, dbPath } from '@/lib/env';
 
 async function main() {
+  if (databaseUrl())
+    throw new Error(
+      'DATABASE_URL names a Postgres database: back it up with pg_dump (and the file store with its own tools); see the README, "Running for a larger team".',
+    );
   const { positionals } = parseArgs({ allowPositionals: true });
   if (positionals.length !== 1) throw new Error('Usage: npm run restore -- <file.zip>');
   const manifest = await restoreBackup({ archive: positionals[0], dataDir: dataDir(), dbFile: dbPath() });

@@ -4,8 +4,8 @@
  * Only the token's SHA-256 is stored. Errors go to stderr with exit code 1.
  */
 import { parseArgs } from 'node:util';
-import { applyPragmas, createSequelize } from '@/lib/db/open';
-import { dbPath } from '@/lib/env';
+import { applyPragmas, createSequelize, describeTarget } from '@/lib/db/open';
+import { dbTarget } from '@/lib/env';
 import { AuditEvent, ApiToken, User, initModels } from '@/models';
 import { randomSecret, sha256Hex } from '@/lib/auth/secrets';
 
@@ -13,12 +13,12 @@ async function main() {
   const { values } = parseArgs({ options: { email: { type: 'string' }, name: { type: 'string' } } });
   const email = values.email?.trim().toLowerCase();
   if (!email) throw new Error('Usage: npm run --silent token -- --email <email> [--name <label>]');
-  const sequelize = createSequelize(dbPath());
+  const sequelize = createSequelize(dbTarget());
   try {
     await applyPragmas(sequelize);
     initModels(sequelize);
     const user = await User.findOne({ where: { email } });
-    if (!user) throw new Error(`No user with e-mail ${email} in ${dbPath()}.`);
+    if (!user) throw new Error(`No user with e-mail ${email} in ${describeTarget(dbTarget())}.`);
     const secret = randomSecret('sw_', 32);
     const name = values.name?.trim() || `operator token ${new Date().toISOString().slice(0, 10)}`;
     await sequelize.transaction(async (transaction) => {

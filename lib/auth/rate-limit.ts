@@ -16,14 +16,22 @@ export async function countHit({
   now?: number;
 }): Promise<number> {
   const db = await getDb();
+  const upsert = `INSERT INTO rate_limits ("key", "windowStart", "count") VALUES (:key, :now, 1)
+     ON CONFLICT("key") DO UPDATE SET
+       "count" = CASE WHEN rate_limits."windowStart" <= :expired THEN 1 ELSE rate_limits."count" + 1 END,
+       "windowStart" = CASE WHEN rate_limits."windowStart" <= :expired THEN :now ELSE rate_limits."windowStart" END`;
+  const replacements = { key, now, expired: now - windowMs };
+  if (db.getDialect() === 'postgres') {
+    // One statement: the upsert locks the row and RETURNING gives this hit's own count (a later SELECT could see others').
+    const rows = await db.query<{ count: number }>(`${upsert} RETURNING "count"`, {
+      replacements,
+      type: QueryTypes.SELECT,
+    });
+    return Number(rows[0]?.count ?? 1);
+  }
+  // SQLite: one writer at a time holds the file lock from the upsert through the read.
   return db.transaction(async (transaction) => {
-    await db.query(
-      `INSERT INTO rate_limits ("key", "windowStart", "count") VALUES (:key, :now, 1)
-       ON CONFLICT("key") DO UPDATE SET
-         "count" = CASE WHEN "windowStart" <= :expired THEN 1 ELSE "count" + 1 END,
-         "windowStart" = CASE WHEN "windowStart" <= :expired THEN :now ELSE "windowStart" END`,
-      { replacements: { key, now, expired: now - windowMs }, transaction },
-    );
+    await db.query(upsert, { replacements, transaction });
     const rows = await db.query<{ count: number }>(`SELECT "count" FROM rate_limits WHERE "key" = :key`, {
       replacements: { key },
       type: QueryTypes.SELECT,

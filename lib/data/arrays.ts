@@ -205,6 +205,14 @@ export async function updateArray({
   const db = await getDb();
   try {
     await db.transaction({ type: Transaction.TYPES.IMMEDIATE }, async (transaction) => {
+      // Postgres: concurrent saves of one array queue on its row lock, so each reads the revision the last one wrote
+      // (SQLite's immediate transaction already serialises writers).
+      await ArrayDesign.findOne({
+        where: { id, teamId: caller.teamId },
+        attributes: ['id'],
+        lock: transaction.LOCK.UPDATE,
+        transaction,
+      });
       const array = await findOwnArray(caller, id, transaction);
       const previous = await findRevision(array.id, array.latestRevision, transaction);
       const { input, geometry } = validateArrayInput(mergeArrayInput(previous.config as ArrayInput, changes));

@@ -17,6 +17,7 @@ import {
 } from '../datasets';
 import { summarise, type DatasetSummary } from '../storage/summary';
 import { datasetsDir, removeQuietly, resolveStoragePath } from '../storage/files';
+import { publishStoredFile, unpublishStoredFile } from '../storage/shared';
 import { formatBytes, receiveFile, type ReceivedFile } from '../http/multipart';
 import { enqueueJob, registerJobKind, waitForJob } from '../jobs';
 import { runCompute } from '../jobs/pool';
@@ -214,6 +215,8 @@ export async function createDataset({ caller, upload }: { caller: Caller; upload
       );
       await fs.promises.rename(upload.tempPath, finalPath);
       moved = true;
+      // The shared store (S3) gets the file before the row commits; a no-op on local disk.
+      await publishStoredFile(rel);
       return created;
     });
     const uploader = await User.findByPk(caller.id);
@@ -319,6 +322,7 @@ export async function deleteDataset({ caller, id }: { caller: Caller; id: number
     return d.storagePath;
   });
   await removeQuietly(resolveStoragePath(storagePath));
+  await unpublishStoredFile(storagePath);
 }
 
 /** The stored dataset's snapshots, re-read from its file (server side, for estimate runs). */

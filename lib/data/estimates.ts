@@ -22,6 +22,7 @@ import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
 import { runEstimateCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
 import { resolveStoragePath } from '../storage/files';
+import { ensureLocalFile } from '../storage/shared';
 import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
 import { compareRuns, type RerunComparison } from '../runs/compare';
 import { SOFTWARE_VERSION } from '../version';
@@ -491,7 +492,7 @@ async function snapshotSource(
     return {
       source: {
         kind: 'file',
-        path: resolveStoragePath(dataset.storagePath),
+        path: await ensureLocalFile(dataset.storagePath),
         format: dataset.format,
         fileName: dataset.originalName,
         maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
@@ -502,7 +503,13 @@ async function snapshotSource(
   if (inputs.snapshotSet) {
     const ref = inputs.snapshotSet;
     return {
-      source: { kind: 'raw', path: resolveStoragePath(ref.path), rows: ref.rows, cols: ref.cols, sha256: ref.sha256 },
+      source: {
+        kind: 'raw',
+        path: await ensureLocalFile(ref.path),
+        rows: ref.rows,
+        cols: ref.cols,
+        sha256: ref.sha256,
+      },
     };
   }
   // Runs stored before snapshot sets (or imported from a bundle) carry their matrix inline.
@@ -518,12 +525,12 @@ async function snapshotSource(
  * compute runs in a worker thread (lib/jobs/compute.ts); the same inputs give
  * the same results, so a job re-queued after a crash stores the same answer.
  */
-registerJobKind<void>({
+registerJobKind<{ results: MethodResult[] } | null>({
   kind: ESTIMATE_JOB,
   maxAttempts: 2,
   async run({ job, signal, setProgress }: JobContext) {
     const run = await EstimateRun.findByPk(Number(job.inputRef));
-    if (!run) return; // deleted meanwhile
+    if (!run) return null; // deleted meanwhile
     const inputs = run.inputs as unknown as RunInputs;
     const { source, transferList } = await snapshotSource(run, inputs);
     const input: EstimateComputeInput = {
@@ -540,10 +547,14 @@ registerJobKind<void>({
       onProgress: setProgress,
       ...(transferList ? { transferList } : {}),
     });
-    // Result and status in one write (onState skips 'done'); a crash before the job row says done re-runs it to the same answer.
+    return { results };
+  },
+  // Result and status in one write (onState skips 'done'), in the transaction that marks the job done.
+  async store({ job, value, transaction }) {
+    if (!value) return;
     await EstimateRun.update(
-      { result: { results } as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
-      { where: { id: run.id } },
+      { result: value as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { where: { id: Number(job.inputRef) }, transaction },
     );
   },
   async onState({ inputRef, status, progress, error }) {

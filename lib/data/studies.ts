@@ -199,17 +199,20 @@ export async function createStudy({
  * thread. The same spec and seed give the same result, so a re-queued job
  * stores the same answer.
  */
-registerJobKind<void>({
+registerJobKind<StudyResult | null>({
   kind: STUDY_JOB,
   maxAttempts: 2,
   async run({ job, signal, setProgress }) {
     const study = await Study.findByPk(Number(job.inputRef));
-    if (!study) return;
+    if (!study) return null;
     const { spec } = study.inputs as unknown as StudyInputs;
-    const result = await runCompute('study', spec, { signal, onProgress: setProgress });
+    return runCompute('study', spec, { signal, onProgress: setProgress });
+  },
+  async store({ job, value, transaction }) {
+    if (!value) return;
     await Study.update(
-      { result: result as unknown as Record<string, unknown>, error: null },
-      { where: { id: study.id } },
+      { result: value as unknown as Record<string, unknown>, error: null },
+      { where: { id: Number(job.inputRef) }, transaction },
     );
   },
   async onState({ inputRef, status, progress, error }) {

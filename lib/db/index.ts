@@ -1,7 +1,7 @@
 import 'server-only';
 import type { Sequelize } from 'sequelize';
 import { applyPragmas, createSequelize } from './open';
-import { dbPath } from '../env';
+import { dbTarget } from '../env';
 import { initModels } from '@/models';
 
 /**
@@ -24,9 +24,9 @@ function holderFor(file: string): Holder {
 }
 
 export function getDb(): Promise<Sequelize> {
-  const holder = holderFor(dbPath());
+  const holder = holderFor(dbTarget());
   if (!holder.ready) {
-    const sequelize = createSequelize(dbPath());
+    const sequelize = createSequelize(dbTarget());
     holder.sequelize = sequelize;
     const ready = applyPragmas(sequelize).then(() => sequelize);
     holder.ready = ready;
@@ -42,7 +42,7 @@ export function getDb(): Promise<Sequelize> {
 
 /** Closes the connection (tests). */
 export async function closeDb(): Promise<void> {
-  const holder = holderFor(dbPath());
+  const holder = holderFor(dbTarget());
   const s = holder.sequelize;
   holder.sequelize = undefined;
   holder.ready = undefined;

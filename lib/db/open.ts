@@ -2,12 +2,24 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { Sequelize } from 'sequelize';
 import sqlite3 from 'sqlite3';
+import pg from 'pg';
+import { isPostgresTarget } from '../env';
 
 /**
- * Opens a Sequelize instance on a SQLite file. Shared by the app singleton
- * (lib/db.ts) and the operator scripts (migrate, seed, token).
+ * Opens a Sequelize instance on a SQLite file, or on Postgres when the target
+ * is a postgres:// URL (DATABASE_URL). Shared by the app singleton
+ * (lib/db/index.ts) and the operator scripts (migrate, seed, token).
  */
-export function createSequelize(file: string): Sequelize {
+export function createSequelize(target: string): Sequelize {
+  if (isPostgresTarget(target)) {
+    return new Sequelize(target, {
+      dialect: 'postgres',
+      dialectModule: pg,
+      logging: false,
+      pool: { max: Number(process.env.STEERWISE_PG_POOL_MAX || 10), min: 0, idle: 10_000, acquire: 30_000 },
+    });
+  }
+  const file = target;
   fs.mkdirSync(path.dirname(file), { recursive: true });
   const sequelize = new Sequelize({
     dialect: 'sqlite',
@@ -28,9 +40,27 @@ export function createSequelize(file: string): Sequelize {
   return sequelize;
 }
 
+export function isPostgres(sequelize: Sequelize): boolean {
+  return sequelize.getDialect() === 'postgres';
+}
+
+/** SQLite connection settings (WAL, foreign keys, busy timeout); nothing on Postgres. */
 export async function applyPragmas(sequelize: Sequelize): Promise<void> {
+  if (isPostgres(sequelize)) return;
   await sequelize.query('PRAGMA journal_mode = WAL;');
   await sequelize.query('PRAGMA foreign_keys = ON;');
   await sequelize.query('PRAGMA busy_timeout = 5000;');
   await sequelize.query('PRAGMA synchronous = NORMAL;');
+}
+
+/** Where a target is, for messages: the SQLite path, or the Postgres URL without its password. */
+export function describeTarget(target: string): string {
+  if (!isPostgresTarget(target)) return target;
+  try {
+    const u = new URL(target);
+    if (u.password) u.password = '***';
+    return u.toString();
+  } catch {
+    return 'the Postgres database';
+  }
 }

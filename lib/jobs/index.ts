@@ -4,8 +4,16 @@ import { randomBytes } from 'node:crypto';
 import { Op, Transaction } from 'sequelize';
 import { Job, type JobStatus } from '@/models';
 import { getDb } from '../db';
-import { dbPath } from '../env';
+import { dbTarget } from '../env';
 import { poolSize } from './pool';
+import {
+  pauseQueueConsumers,
+  queueBackend,
+  runsQueuedJobs,
+  sendJobMessage,
+  startQueueConsumers,
+  stopQueue,
+} from './queue';
 
 /**
  * Durable jobs: one module, one table (`jobs`, migration 0004), every kind.
@@ -31,7 +39,15 @@ import { poolSize } from './pool';
  *   error through the kind's `onState`.
  *
  * The compute itself runs in worker threads (lib/jobs/pool.ts); a kind's
- * `run` only loads its input, calls `runCompute` and stores the result.
+ * `run` only loads its input, calls `runCompute` and returns the result, and
+ * its `store` writes that result in the same transaction that marks the job
+ * done, only if this process still holds the job: a result is written exactly
+ * once even when a job whose worker was thought dead runs twice.
+ *
+ * Where queued jobs come from (lib/jobs/queue.ts): on SQLite every runner
+ * claims rows of the jobs table; on Postgres the pg-boss queue hands job ids
+ * to consumers (`npm run worker`, web processes unless STEERWISE_RUN_JOBS=0),
+ * which claim the row by id with the same conditional update.
  */
 
 export interface JobContext {
@@ -63,8 +79,14 @@ export interface JobKind<T = unknown> {
    * than re-run, since the request that would take the answer is gone.
    */
   transient?: boolean;
-  /** The work, on the web thread: load the input, call runCompute, store the result. Its value goes to in-process waiters. */
+  /** The work, on the web thread: load the input, call runCompute, return the result. Its value goes to in-process waiters. */
   run(ctx: JobContext): Promise<T>;
+  /**
+   * Writes the result of a successful `run` onto the kind's rows, inside the
+   * transaction that moves the job to done; called only when this process
+   * still owns the running job, so a result is stored exactly once.
+   */
+  store?(ctx: { job: Job; value: T; transaction: Transaction }): Promise<void>;
   /** Mirrors a state change onto the kind's own row. */
   onState?(state: JobState): Promise<void>;
   /** The message stored and shown to the job's owner when `run` throws. */
@@ -122,7 +144,7 @@ const kinds = (g.__steerwiseJobKinds ??= new Map<string, JobKind>()) as Map<stri
 const runners = (g.__steerwiseJobRunners ??= new Map<string, RunnerState>()) as Map<string, RunnerState>;
 
 function state(): RunnerState {
-  const key = dbPath();
+  const key = dbTarget();
   let s = runners.get(key);
   if (!s) {
     s = {
@@ -200,6 +222,8 @@ export async function enqueueJob({
     transaction ? { transaction } : {},
   );
   if (localInput !== undefined) state().localInputs.set(job.id, localInput);
+  // On pg-boss the message is sent in the same transaction as the row (or right after it, without one).
+  if (!k.transient && queueBackend() === 'pg-boss') await sendJobMessage(job.id, transaction);
   if (transaction) transaction.afterCommit(() => kick());
   else kick();
   return job;
@@ -220,11 +244,19 @@ export async function claimJob(): Promise<Job | null> {
   const names = [...kinds.keys()];
   if (!names.length) return null;
   const db = await getDb();
+  // On pg-boss the queue hands out shared jobs (runQueuedJob); the table loop here takes only this process's own transient ones.
+  const owners =
+    queueBackend() === 'pg-boss' || !runsQueuedJobs()
+      ? [{ leaseOwner: s.owner }]
+      : [{ leaseOwner: null }, { leaseOwner: s.owner }];
   return db.transaction({ type: Transaction.TYPES.IMMEDIATE }, async (transaction) => {
     const candidate = await Job.findOne({
-      where: { status: 'queued', kind: names, [Op.or]: [{ leaseOwner: null }, { leaseOwner: s.owner }] },
+      where: { status: 'queued', kind: names, [Op.or]: owners },
       order: [['id', 'ASC']],
       transaction,
+      // Postgres: concurrent claimers skip a row another transaction holds instead of queueing behind it (ignored on SQLite).
+      lock: true,
+      skipLocked: true,
     });
     if (!candidate) return null;
     const now = new Date();
@@ -293,17 +325,7 @@ async function execute(job: Job): Promise<void> {
     s.localInputs.delete(job.id);
   }
   try {
-    const [n] = await Job.update(
-      {
-        status: outcome.status,
-        progress: outcome.status === 'done' ? 1 : entry.progress,
-        error: outcome.error,
-        finishedAt: new Date(),
-        leaseOwner: null,
-        leaseExpiresAt: null,
-      },
-      { where: { id: job.id, status: 'running', leaseOwner: s.owner } },
-    );
+    const n = await finishJob(job, kind, outcome, entry.progress);
     // n = 0: cancelled meanwhile (the row already says so) or the lease was lost to a sweep.
     if (n === 1)
       await mirror(job.kind, {
@@ -318,6 +340,66 @@ async function execute(job: Job): Promise<void> {
   }
   settleWaiters(job.id, outcome);
   kick();
+}
+
+/**
+ * Moves the job from running (held by this process) to its outcome and, for
+ * a done job of a kind with `store`, writes the result in the same
+ * transaction; 0 when the job was no longer this process's (cancelled, or its
+ * lease was recovered after this process was thought dead): nothing is stored.
+ */
+async function finishJob(job: Job, kind: JobKind, outcome: JobOutcome, progress: number): Promise<number> {
+  const s = state();
+  const db = await getDb();
+  return db.transaction({ type: Transaction.TYPES.IMMEDIATE }, async (transaction) => {
+    const [n] = await Job.update(
+      {
+        status: outcome.status,
+        progress: outcome.status === 'done' ? 1 : progress,
+        error: outcome.error,
+        finishedAt: new Date(),
+        leaseOwner: null,
+        leaseExpiresAt: null,
+      },
+      { where: { id: job.id, status: 'running', leaseOwner: s.owner }, transaction },
+    );
+    if (n === 1 && outcome.status === 'done' && kind.store) {
+      await kind.store({ job, value: outcome.value, transaction });
+      if (process.env.STEERWISE_JOB_LOG === '1')
+        console.log(`[steerwise] job-stored ${JSON.stringify({ jobId: job.id, kind: job.kind, owner: s.owner })}`);
+    }
+    return n;
+  });
+}
+
+/**
+ * Runs one job named by a queue message (pg-boss backend): claims the row if
+ * it is still queued and runs it to the end here; returns at once when the
+ * job already ended, is cancelled, or another process holds it.
+ */
+export async function runQueuedJob(jobId: number): Promise<void> {
+  const s = state();
+  await getDb();
+  const job = await Job.findByPk(jobId);
+  if (!job || job.status !== 'queued' || !kinds.has(job.kind)) return;
+  if (job.leaseOwner && job.leaseOwner !== s.owner) return; // a transient job reserved by its web process
+  const now = new Date();
+  const [n] = await Job.update(
+    {
+      status: 'running',
+      leaseOwner: s.owner,
+      leaseExpiresAt: new Date(now.getTime() + leaseMs()),
+      heartbeatAt: now,
+      startedAt: now,
+      attempts: job.attempts + 1,
+      progress: 0,
+      error: null,
+    },
+    { where: { id: job.id, status: 'queued', attempts: job.attempts } },
+  );
+  if (n !== 1) return;
+  await job.reload();
+  await execute(job);
 }
 
 function cancelReason(entry: Running): string {
@@ -457,10 +539,15 @@ export async function recoverStaleJobs(): Promise<{ requeued: number; failed: nu
         await mirror(job.kind, { ...toState(job), status: 'failed', error });
       }
     } else {
-      const [n] = await Job.update(
-        { status: 'queued', progress: 0, leaseOwner: null, leaseExpiresAt: null },
-        { where },
-      );
+      const db = await getDb();
+      const n = await db.transaction(async (transaction) => {
+        const [changed] = await Job.update(
+          { status: 'queued', progress: 0, leaseOwner: null, leaseExpiresAt: null },
+          { where, transaction },
+        );
+        if (changed && queueBackend() === 'pg-boss') await sendJobMessage(job.id, transaction);
+        return changed;
+      });
       if (n) {
         out.requeued++;
         await mirror(job.kind, { ...toState(job), status: 'queued', progress: 0, error: null });
@@ -516,6 +603,11 @@ export function startJobRunner(): void {
   s.timer = setInterval(() => void pump(), 1000);
   s.timer.unref();
   void pump();
+  if (queueBackend() === 'pg-boss' && runsQueuedJobs()) {
+    startQueueConsumers(poolSize(), runQueuedJob).catch((err) =>
+      console.error('[steerwise] the job queue did not start', err),
+    );
+  }
 }
 
 /** Stops this process's runner (tests, shutdown): no new claims; resolves when running jobs have ended or after `timeoutMs`. */
@@ -524,8 +616,10 @@ export async function stopJobRunner(timeoutMs = 10_000): Promise<void> {
   if (s.timer) clearInterval(s.timer);
   s.started = false;
   s.stopped = true;
+  pauseQueueConsumers();
   const end = Date.now() + timeoutMs;
   while ((s.running.size || s.pumping) && Date.now() < end) await new Promise((r) => setTimeout(r, 50));
+  await stopQueue().catch(() => undefined);
 }
 
 /** Job ids running in this process (tests, diagnostics). */

@@ -2,11 +2,11 @@ import 'server-only';
 import fs from 'node:fs';
 import path from 'node:path';
 import { createHash, randomUUID } from 'node:crypto';
-import { Op } from 'sequelize';
 import { EstimateRun } from '@/models';
 import type { ComplexMatrix } from '../doa';
 import { dataDir } from '../env';
 import { resolveStoragePath } from './files';
+import { ensureLocalFile, publishStoredFile } from './shared';
 
 /**
  * Inline snapshot sets stored once, by content, beside the datasets:
@@ -50,6 +50,7 @@ export async function storeSnapshotSet(m: ComplexMatrix): Promise<SnapshotSetRef
     const temp = `${file}.${randomUUID()}.part`;
     await fs.promises.writeFile(temp, bytes, { flag: 'wx' });
     await fs.promises.rename(temp, file);
+    await publishStoredFile(rel);
   }
   return { sha256, rows: m.rows, cols: m.cols, path: rel };
 }
@@ -58,7 +59,7 @@ export async function storeSnapshotSet(m: ComplexMatrix): Promise<SnapshotSetRef
 export async function readSnapshotSet(ref: SnapshotSetRef): Promise<ComplexMatrix | null> {
   let bytes: Buffer;
   try {
-    bytes = await fs.promises.readFile(resolveStoragePath(ref.path));
+    bytes = await fs.promises.readFile(await ensureLocalFile(ref.path));
   } catch {
     return null;
   }
@@ -98,5 +99,6 @@ export async function withInlineSnapshots(inputs: Record<string, unknown>): Prom
 export async function isSnapshotSetReferenced(relative: string): Promise<boolean> {
   const sha = path.basename(relative).split('.')[0];
   if (!/^[0-9a-f]{64}$/.test(sha)) return false;
-  return (await EstimateRun.count({ where: { inputs: { [Op.like]: `%${sha}%` } } as never })) > 0;
+  // A JSON path query on both databases: json_extract on SQLite, ->> on the JSONB column on Postgres.
+  return (await EstimateRun.count({ where: { inputs: { snapshotSet: { sha256: sha } } } as never })) > 0;
 }

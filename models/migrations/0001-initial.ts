@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize';
+import { jsonType } from './types';
 
 /** Teams, users, API tokens, one-time links, audit events, captured mail, rate-limit buckets. */
 export async function up({ context: qi }: { context: QueryInterface }): Promise<void> {
@@ -8,7 +9,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
   await qi.createTable('teams', {
     id,
     name: { type: DataTypes.STRING(120), allowNull: false },
-    settings: { type: DataTypes.JSON, allowNull: false, defaultValue: '{}' },
+    settings: { type: jsonType(qi), allowNull: false, defaultValue: '{}' },
     createdAt: ts,
     updatedAt: ts,
   });
@@ -88,7 +89,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     },
     action: { type: DataTypes.STRING(64), allowNull: false },
     target: { type: DataTypes.STRING(200), allowNull: true },
-    detail: { type: DataTypes.JSON, allowNull: true },
+    detail: { type: jsonType(qi), allowNull: true },
     createdAt: ts,
   });
   await qi.addIndex('audit_events', ['teamId', 'createdAt']);

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize';
+import { jsonType } from './types';
 
 /**
  * Arrays with immutable revisions, snapshot datasets, estimate runs and their
@@ -41,7 +42,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
     },
     revision: { type: DataTypes.INTEGER, allowNull: false },
     authorId: user(true),
-    config: { type: DataTypes.JSON, allowNull: false },
+    config: { type: jsonType(qi), allowNull: false },
     elements: { type: DataTypes.INTEGER, allowNull: false },
     spacingWavelengths: { type: DataTypes.DOUBLE, allowNull: false },
     frequencyHz: { type: DataTypes.DOUBLE, allowNull: true },
@@ -67,8 +68,8 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
       references: { model: 'arrays', key: 'id' },
       onDelete: 'SET NULL',
     },
-    options: { type: DataTypes.JSON, allowNull: true },
-    details: { type: DataTypes.JSON, allowNull: true },
+    options: { type: jsonType(qi), allowNull: true },
+    details: { type: jsonType(qi), allowNull: true },
     uploadedById: user(true),
     createdAt: ts,
   });
@@ -92,8 +93,8 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
       references: { model: 'array_revisions', key: 'id' },
       onDelete: 'SET NULL',
     },
-    inputs: { type: DataTypes.JSON, allowNull: false },
-    result: { type: DataTypes.JSON, allowNull: true },
+    inputs: { type: jsonType(qi), allowNull: false },
+    result: { type: jsonType(qi), allowNull: true },
     error: { type: DataTypes.TEXT, allowNull: true },
     softwareVersion: { type: DataTypes.STRING(40), allowNull: false },
     createdById: user(true),
@@ -118,7 +119,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
       onDelete: 'CASCADE',
     },
     authorId: user(true),
-    kind: { type: DataTypes.STRING(16), allowNull: false },
+    kind: { type: DataTypes.STRING(24), allowNull: false },
     body: { type: DataTypes.TEXT, allowNull: false },
     createdAt: ts,
   });
@@ -135,7 +136,7 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
       onDelete: 'CASCADE',
     },
     arrayRevision: { type: DataTypes.INTEGER, allowNull: false },
-    options: { type: DataTypes.JSON, allowNull: false },
+    options: { type: jsonType(qi), allowNull: false },
     recipientEmail: { type: DataTypes.STRING(254), allowNull: false },
     note: { type: DataTypes.TEXT, allowNull: true },
     sentById: user(true),

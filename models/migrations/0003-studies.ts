@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from 'sequelize';
+import { jsonType } from './types';
 
 /** Monte Carlo accuracy studies (lib/studies), run on the in-process job queue. */
 export async function up({ context: qi }: { context: QueryInterface }): Promise<void> {
@@ -19,8 +20,8 @@ export async function up({ context: qi }: { context: QueryInterface }): Promise<
       references: { model: 'array_revisions', key: 'id' },
       onDelete: 'SET NULL',
     },
-    inputs: { type: DataTypes.JSON, allowNull: false },
-    result: { type: DataTypes.JSON, allowNull: true },
+    inputs: { type: jsonType(qi), allowNull: false },
+    result: { type: jsonType(qi), allowNull: true },
     error: { type: DataTypes.TEXT, allowNull: true },
     softwareVersion: { type: DataTypes.STRING(40), allowNull: false },
     createdById: {

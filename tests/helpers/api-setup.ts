@@ -1,7 +1,9 @@
 /**
  * Runs before every test file of the api project: points the app at a fresh
  * temporary SQLite file (and data folder), migrates it and seeds the demo
- * teams. Nothing is mocked; handlers use the real database.
+ * teams. Nothing is mocked; handlers use the real database. In the api-pg
+ * project (STEERWISE_TEST_PG_URL set by tests/helpers/pg-global-setup.ts) the
+ * database is a fresh Postgres database on the throwaway cluster instead.
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -21,7 +23,21 @@ delete process.env.SMTP_HOST;
 // The demo bearing–time record (lib/demo/bearing-time.ts) takes seconds to simulate and analyse: only tests that need it seed it.
 process.env.STEERWISE_SEED_BTR ??= '0';
 
+const pgBase = process.env.STEERWISE_TEST_PG_URL;
+let pgName: string | undefined;
+
 beforeAll(async () => {
+  if (pgBase) {
+    const { Client } = await import('pg');
+    pgName = `t_${process.pid}_${Date.now().toString(36)}_${Math.random().toString(36).slice(2, 8)}`;
+    const admin = new Client({ connectionString: pgBase });
+    await admin.connect();
+    await admin.query(`CREATE DATABASE ${pgName}`);
+    await admin.end();
+    const url = new URL(pgBase);
+    url.pathname = `/${pgName}`;
+    process.env.DATABASE_URL = url.toString();
+  }
   const { getDb } = await import('@/lib/db');
   const { migrateUp } = await import('@/lib/db/migrate');
   const { seedDemo } = await import('@/lib/demo/seed');
@@ -37,5 +53,12 @@ afterAll(async () => {
   await closePool();
   const { closeDb } = await import('@/lib/db');
   await closeDb();
+  if (pgBase && pgName) {
+    const { Client } = await import('pg');
+    const admin = new Client({ connectionString: pgBase });
+    await admin.connect();
+    await admin.query(`DROP DATABASE IF EXISTS ${pgName} WITH (FORCE)`).catch(() => undefined);
+    await admin.end();
+  }
   fs.rmSync(dir, { recursive: true, force: true });
 });

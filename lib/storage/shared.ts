@@ -1,0 +1,42 @@
+import fs from 'node:fs';
+import { dataDir } from '../env';
+import { resolveStoragePath } from './files';
+import { objectStoreFromEnv, type ObjectStore } from './object-store';
+
+/**
+ * Stored files shared between machines. With STEERWISE_S3_BUCKET set, the
+ * bucket is the shared copy: a file written under the data folder is
+ * published to it (`publishStoredFile`, before the row that names it
+ * commits), a process that needs a file it does not have downloads it into
+ * its own data folder first (`ensureLocalFile`, a cache), and a deleted
+ * file is removed from both. Without the variable every function here does
+ * nothing beyond the data folder, as in the embedded setup.
+ */
+let cached: { key: string; store: ObjectStore } | undefined;
+
+export function sharedStore(): ObjectStore | null {
+  if (!process.env.STEERWISE_S3_BUCKET) return null;
+  const key = `${process.env.STEERWISE_S3_BUCKET}|${process.env.STEERWISE_S3_PREFIX}|${process.env.STEERWISE_S3_ENDPOINT}`;
+  if (cached?.key !== key) cached = { key, store: objectStoreFromEnv(dataDir()) };
+  return cached.store;
+}
+
+/** Uploads a stored file (relative to the data folder) to the shared store; a no-op on local disk. */
+export async function publishStoredFile(relative: string): Promise<void> {
+  const store = sharedStore();
+  if (store) await store.putFile(relative, resolveStoragePath(relative));
+}
+
+/** The absolute local path of a stored file, downloaded from the shared store first when missing here. */
+export async function ensureLocalFile(relative: string): Promise<string> {
+  const file = resolveStoragePath(relative);
+  const store = sharedStore();
+  if (store && !fs.existsSync(file)) await store.download(relative, file);
+  return file;
+}
+
+/** Removes a stored file from the shared store (the local copy is the caller's); never throws. */
+export async function unpublishStoredFile(relative: string): Promise<void> {
+  const store = sharedStore();
+  if (store) await store.remove(relative).catch(() => undefined);
+}
