@@ -10,15 +10,17 @@
  * covariance) → forward spatial smoothing → forward–backward averaging.
  *
  * Speed: the accumulator copies blocks of `blockSize` snapshots into an
- * element-major buffer (each element's samples contiguous with re and im
- * interleaved, which measured about 10–15 % faster than split re/im; M padded to even)
- * and accumulates only the upper triangle i ≤ k with a 2 × 2 register tile:
- * four complex products per eight loads. The lower triangle is the conjugate,
- * so R is Hermitian by construction, which is exactly (R + Rᴴ)/2.
+ * element-major buffer (each element's real parts, then its imaginary parts, contiguous;
+ * M padded to even) and accumulates only the upper triangle i ≤ k in 2 × 2 tiles. The
+ * block kernel (wasm/covariance-kernel.ts) is WebAssembly SIMD over pairs of snapshots,
+ * with a JavaScript twin that repeats its arithmetic in the same order (bit for bit the
+ * same sums). The lower triangle is the conjugate, so R is Hermitian by construction,
+ * which is exactly (R + Rᴴ)/2.
  *
  * Fixed summation order, whatever the threading: the snapshots fall into chunks of
  * COVARIANCE_CHUNK (4096) consecutive snapshots; each chunk's sum starts from zero
- * (blocks never straddle a chunk boundary), and the chunk sums are added to the total in
+ * (blocks never straddle a chunk boundary; inside a block each entry sums the even and the
+ * odd snapshots separately and adds the two), and the chunk sums are added to the total in
  * chunk order. `covarianceChunkSums` computes the sums of a range of chunks on its own and
  * `covarianceFromChunkSums` adds them in order, so splitting the chunks over worker
  * threads (lib/jobs/pooled-covariance.ts) gives R bit for bit equal to the accumulator's.
@@ -26,6 +28,7 @@
 import { requireSquare } from './checks';
 import { ComplexMatrix, zeros } from './linalg/complex';
 import { DoaInputError } from './errors';
+import { blockTileSums } from './wasm/covariance-kernel';
 
 /** Snapshots per chunk of the fixed summation order (see the header). */
 export const COVARIANCE_CHUNK = 4096;
@@ -39,7 +42,9 @@ export class CovarianceAccumulator {
   readonly elements: number;
   private readonly padded: number;
   private readonly blockSize: number;
-  /** Block buffer, element-major, re and im interleaved: element i, snapshot t at 2·(i·b + t). */
+  /** Row length of each half of an element's block buffer: blockSize rounded up to even. */
+  private readonly stride: number;
+  /** Block buffer, element-major: element i, snapshot t real part at 2b·i + t, imaginary part at 2b·i + b + t. */
   private readonly buf: Float64Array;
   private fill = 0;
   /** Sums of the current chunk (upper triangle, padded p × p). */
@@ -62,7 +67,8 @@ export class CovarianceAccumulator {
     this.elements = elements;
     this.padded = elements + (elements % 2);
     this.blockSize = blockSize;
-    this.buf = new Float64Array(2 * this.padded * blockSize);
+    this.stride = blockSize + (blockSize % 2);
+    this.buf = new Float64Array(2 * this.padded * this.stride);
     this.sumRe = new Float64Array(this.padded * this.padded);
     this.sumIm = new Float64Array(this.padded * this.padded);
     this.chunkRe = new Float64Array(this.padded * this.padded);
@@ -91,7 +97,7 @@ export class CovarianceAccumulator {
       );
     }
     const m = this.elements;
-    const b = this.blockSize;
+    const b = this.stride;
     const buf = this.buf;
     const re = rows.re;
     const im = rows.im;
@@ -99,15 +105,15 @@ export class CovarianceAccumulator {
     const last = range?.end ?? rows.rows;
     for (let n = first; n < last; n++) {
       const src = n * m;
-      const col2 = 2 * this.fill;
+      const col = this.fill;
       // v·0 is 0 for finite v and NaN otherwise: one cheap test per row, the slow scan only on failure
       let probe = 0;
       for (let i = 0; i < m; i++) {
         const xr = re[src + i];
         const xi = im[src + i];
         probe += xr * 0 + xi * 0;
-        buf[i * 2 * b + col2] = xr;
-        buf[i * 2 * b + col2 + 1] = xi;
+        buf[i * 2 * b + col] = xr;
+        buf[i * 2 * b + b + col] = xi;
       }
       if (probe !== 0) {
         for (let i = 0; i < m; i++) {
@@ -139,14 +145,14 @@ export class CovarianceAccumulator {
     }
     const m = this.elements;
     const n = range?.end ?? x.cols;
-    const b = this.blockSize;
+    const b = this.stride;
     const stride = x.cols;
     let start = range?.start ?? 0;
     while (start < n) {
       const take = Math.min(this.room(), n - start);
       for (let i = 0; i < m; i++) {
         const src = i * stride + start;
-        const dst = 2 * (i * b + this.fill);
+        const dst = 2 * i * b + this.fill;
         const buf = this.buf;
         const re = x.re;
         const im = x.im;
@@ -155,8 +161,8 @@ export class CovarianceAccumulator {
           const xr = re[src + t];
           const xi = im[src + t];
           probe += xr * 0 + xi * 0;
-          buf[dst + 2 * t] = xr;
-          buf[dst + 2 * t + 1] = xi;
+          buf[dst + t] = xr;
+          buf[dst + b + t] = xi;
         }
         if (probe !== 0) {
           for (let t = 0; t < take; t++) {
@@ -206,7 +212,7 @@ export class CovarianceAccumulator {
   private flush(): void {
     const count = this.fill;
     if (count === 0) return;
-    const b = this.blockSize;
+    const b = this.stride;
     const p = this.padded;
     const buf = this.buf;
     const sr = this.chunkRe;
@@ -214,50 +220,30 @@ export class CovarianceAccumulator {
     const b2 = 2 * b;
     if (p !== this.elements) {
       // Zero the padding row so its products vanish.
-      buf.fill(0, this.elements * b2, this.elements * b2 + 2 * count);
+      buf.fill(0, this.elements * b2, this.elements * b2 + b2);
     }
-    const end = 2 * count;
+    // The kernel takes pairs of snapshots: an odd block gets one zero snapshot.
+    let even = count;
+    if (count % 2 === 1) {
+      for (let i = 0; i < p; i++) {
+        buf[i * b2 + count] = 0;
+        buf[i * b2 + b + count] = 0;
+      }
+      even = count + 1;
+    }
+    const { sums, at } = blockTileSums(buf, p, b, even);
+    const pp = p * p;
     for (let i = 0; i < p; i += 2) {
-      const o0 = i * b2;
-      const o1 = o0 + b2;
       for (let k = i; k < p; k += 2) {
-        const q0 = k * b2;
-        const q1 = q0 + b2;
-        let r00 = 0,
-          j00 = 0,
-          r01 = 0,
-          j01 = 0,
-          r10 = 0,
-          j10 = 0,
-          r11 = 0,
-          j11 = 0;
-        for (let t = 0; t < end; t += 2) {
-          const a0r = buf[o0 + t];
-          const a0i = buf[o0 + t + 1];
-          const a1r = buf[o1 + t];
-          const a1i = buf[o1 + t + 1];
-          const c0r = buf[q0 + t];
-          const c0i = buf[q0 + t + 1];
-          const c1r = buf[q1 + t];
-          const c1i = buf[q1 + t + 1];
-          // x_i·conj(x_k) = (ar·cr + ai·ci) + j(ai·cr − ar·ci)
-          r00 += a0r * c0r + a0i * c0i;
-          j00 += a0i * c0r - a0r * c0i;
-          r01 += a0r * c1r + a0i * c1i;
-          j01 += a0i * c1r - a0r * c1i;
-          r10 += a1r * c0r + a1i * c0i;
-          j10 += a1i * c0r - a1r * c0i;
-          r11 += a1r * c1r + a1i * c1i;
-          j11 += a1i * c1r - a1r * c1i;
-        }
-        sr[i * p + k] += r00;
-        si[i * p + k] += j00;
-        sr[i * p + k + 1] += r01;
-        si[i * p + k + 1] += j01;
-        sr[(i + 1) * p + k] += r10; // lower entry when k = i: unused
-        si[(i + 1) * p + k] += j10;
-        sr[(i + 1) * p + k + 1] += r11;
-        si[(i + 1) * p + k + 1] += j11;
+        const e = i * p + k;
+        sr[e] += sums[at + e];
+        si[e] += sums[at + pp + e];
+        sr[e + 1] += sums[at + e + 1];
+        si[e + 1] += sums[at + pp + e + 1];
+        sr[e + p] += sums[at + e + p]; // lower entry when k = i: unused
+        si[e + p] += sums[at + pp + e + p];
+        sr[e + p + 1] += sums[at + e + p + 1];
+        si[e + p + 1] += sums[at + pp + e + p + 1];
       }
     }
     this.chunkFill += count;

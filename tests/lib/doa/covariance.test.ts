@@ -17,6 +17,7 @@ import {
 } from '@/lib/doa/covariance';
 import { simulateSnapshots } from '@/lib/doa/sim/simulate';
 import { DoaInputError } from '@/lib/doa/errors';
+import { covarianceKernelInUse, setCovarianceKernel } from '@/lib/doa/wasm/covariance-kernel';
 import { matrixFromJson, maxAbsDiff, JsonMatrix } from './helpers';
 
 const scenarios = (
@@ -180,6 +181,47 @@ describe('fixed summation order: chunk sums (bit for bit, whatever the split)', 
     const rows = transpose(x);
     rows.re[4500 * 3 + 1] = Infinity;
     expect(() => covarianceChunkSums(rows, 'rows', 1, 1)).toThrow(/row 4500 \(0-based\), element 1/);
+  });
+});
+
+describe('WebAssembly and JavaScript covariance kernels', () => {
+  it('give bit for bit the same R (odd and even M and block lengths, several chunks); consistency check', () => {
+    expect(covarianceKernelInUse()).toBe('wasm'); // Node 20 has WebAssembly SIMD
+    for (const [m, n, blockSize] of [
+      [2, 9, 256],
+      [5, 3, 256],
+      [7, 1001, 256],
+      [16, 1000, 255],
+      [33, 9001, 256],
+    ]) {
+      const x = simulateSnapshots({
+        elements: m,
+        spacingWavelengths: 0.5,
+        bearingsDeg: [-20, 15],
+        noisePower: 1,
+        snapshots: n,
+        seed: 5,
+      });
+      const accumulate = () => {
+        const acc = new CovarianceAccumulator(m, { blockSize });
+        acc.addSnapshots(x);
+        return acc.covariance();
+      };
+      const fast = accumulate();
+      setCovarianceKernel('js');
+      try {
+        expect(covarianceKernelInUse()).toBe('js');
+        const slow = accumulate();
+        expect(slow.re).toEqual(fast.re);
+        expect(slow.im).toEqual(fast.im);
+      } finally {
+        setCovarianceKernel('auto');
+      }
+      // and both equal the defining sum X·Xᴴ/N to rounding
+      const direct = scale(multiply(x, conjugateTranspose(x)), 1 / n);
+      expect(maxAbsDiff(fast.re, direct.re)).toBeLessThan(1e-12);
+      expect(maxAbsDiff(fast.im, direct.im)).toBeLessThan(1e-12);
+    }
   });
 });
 

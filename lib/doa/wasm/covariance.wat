@@ -1,0 +1,93 @@
+;; Covariance block kernel (lib/doa/covariance.ts): f64x2 SIMD over pairs of snapshots.
+;;
+;; Memory at $buf: p element rows of 2·b doubles each; element i's real parts at
+;; buf + 8·(2b·i + t), its imaginary parts at buf + 8·(2b·i + b + t), t = 0 … count−1
+;; (count even, p even). For every 2 × 2 tile (i, k), i ≤ k, i and k even, it writes the
+;; block sums Σ_t x_i·conj(x_k) of the four entries (i, k), (i, k+1), (i+1, k), (i+1, k+1):
+;; real parts at out + 8·(i·p + k), imaginary parts at out + 8·(p·p + i·p + k).
+;;
+;; Order of the arithmetic, which the JavaScript fallback in covariance.ts repeats exactly:
+;; lane 0 sums the even t, lane 1 the odd t, each as acc + ((ar·cr) + (ai·ci)) for the
+;; real part and acc + ((ai·cr) − (ar·ci)) for the imaginary part; the entry is lane 0 + lane 1.
+(module
+  (memory (export "memory") 1)
+  (func (export "tiles")
+    (param $buf i32) (param $out i32) (param $p i32) (param $b i32) (param $count i32)
+    (local $i i32) (local $k i32) (local $t i32) (local $end i32)
+    (local $row i32) (local $half i32)
+    (local $o0 i32) (local $o1 i32) (local $q0 i32) (local $q1 i32) (local $at i32)
+    (local $ar0 v128) (local $ai0 v128) (local $ar1 v128) (local $ai1 v128)
+    (local $cr v128) (local $ci v128)
+    (local $r00 v128) (local $j00 v128) (local $r01 v128) (local $j01 v128)
+    (local $r10 v128) (local $j10 v128) (local $r11 v128) (local $j11 v128)
+    (local.set $row (i32.shl (local.get $b) (i32.const 4)))
+    (local.set $half (i32.shl (local.get $b) (i32.const 3)))
+    (local.set $end (i32.shl (local.get $count) (i32.const 3)))
+    (local.set $i (i32.const 0))
+    (loop $rows
+      (local.set $o0 (i32.add (local.get $buf) (i32.mul (local.get $i) (local.get $row))))
+      (local.set $o1 (i32.add (local.get $o0) (local.get $row)))
+      (local.set $k (local.get $i))
+      (loop $cols
+        (local.set $q0 (i32.add (local.get $buf) (i32.mul (local.get $k) (local.get $row))))
+        (local.set $q1 (i32.add (local.get $q0) (local.get $row)))
+        (local.set $r00 (v128.const f64x2 0 0)) (local.set $j00 (v128.const f64x2 0 0))
+        (local.set $r01 (v128.const f64x2 0 0)) (local.set $j01 (v128.const f64x2 0 0))
+        (local.set $r10 (v128.const f64x2 0 0)) (local.set $j10 (v128.const f64x2 0 0))
+        (local.set $r11 (v128.const f64x2 0 0)) (local.set $j11 (v128.const f64x2 0 0))
+        (local.set $t (i32.const 0))
+        (loop $snapshots
+          (local.set $ar0 (v128.load (i32.add (local.get $o0) (local.get $t))))
+          (local.set $ai0 (v128.load (i32.add (i32.add (local.get $o0) (local.get $half)) (local.get $t))))
+          (local.set $ar1 (v128.load (i32.add (local.get $o1) (local.get $t))))
+          (local.set $ai1 (v128.load (i32.add (i32.add (local.get $o1) (local.get $half)) (local.get $t))))
+          (local.set $cr (v128.load (i32.add (local.get $q0) (local.get $t))))
+          (local.set $ci (v128.load (i32.add (i32.add (local.get $q0) (local.get $half)) (local.get $t))))
+          (local.set $r00 (f64x2.add (local.get $r00)
+            (f64x2.add (f64x2.mul (local.get $ar0) (local.get $cr)) (f64x2.mul (local.get $ai0) (local.get $ci)))))
+          (local.set $j00 (f64x2.add (local.get $j00)
+            (f64x2.sub (f64x2.mul (local.get $ai0) (local.get $cr)) (f64x2.mul (local.get $ar0) (local.get $ci)))))
+          (local.set $r10 (f64x2.add (local.get $r10)
+            (f64x2.add (f64x2.mul (local.get $ar1) (local.get $cr)) (f64x2.mul (local.get $ai1) (local.get $ci)))))
+          (local.set $j10 (f64x2.add (local.get $j10)
+            (f64x2.sub (f64x2.mul (local.get $ai1) (local.get $cr)) (f64x2.mul (local.get $ar1) (local.get $ci)))))
+          (local.set $cr (v128.load (i32.add (local.get $q1) (local.get $t))))
+          (local.set $ci (v128.load (i32.add (i32.add (local.get $q1) (local.get $half)) (local.get $t))))
+          (local.set $r01 (f64x2.add (local.get $r01)
+            (f64x2.add (f64x2.mul (local.get $ar0) (local.get $cr)) (f64x2.mul (local.get $ai0) (local.get $ci)))))
+          (local.set $j01 (f64x2.add (local.get $j01)
+            (f64x2.sub (f64x2.mul (local.get $ai0) (local.get $cr)) (f64x2.mul (local.get $ar0) (local.get $ci)))))
+          (local.set $r11 (f64x2.add (local.get $r11)
+            (f64x2.add (f64x2.mul (local.get $ar1) (local.get $cr)) (f64x2.mul (local.get $ai1) (local.get $ci)))))
+          (local.set $j11 (f64x2.add (local.get $j11)
+            (f64x2.sub (f64x2.mul (local.get $ai1) (local.get $cr)) (f64x2.mul (local.get $ar1) (local.get $ci)))))
+          (local.set $t (i32.add (local.get $t) (i32.const 16)))
+          (br_if $snapshots (i32.lt_u (local.get $t) (local.get $end))))
+        ;; entry (i, k) real part at out + 8·(i·p + k); (i+1, k) one row (8·p bytes) further
+        (local.set $at (i32.add (local.get $out)
+          (i32.shl (i32.add (i32.mul (local.get $i) (local.get $p)) (local.get $k)) (i32.const 3))))
+        (f64.store (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $r00)) (f64x2.extract_lane 1 (local.get $r00))))
+        (f64.store offset=8 (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $r01)) (f64x2.extract_lane 1 (local.get $r01))))
+        (local.set $at (i32.add (local.get $at) (i32.shl (local.get $p) (i32.const 3))))
+        (f64.store (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $r10)) (f64x2.extract_lane 1 (local.get $r10))))
+        (f64.store offset=8 (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $r11)) (f64x2.extract_lane 1 (local.get $r11))))
+        ;; imaginary parts p·p entries further
+        (local.set $at (i32.add (local.get $out)
+          (i32.shl (i32.add (i32.mul (i32.add (local.get $i) (local.get $p)) (local.get $p)) (local.get $k)) (i32.const 3))))
+        (f64.store (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $j00)) (f64x2.extract_lane 1 (local.get $j00))))
+        (f64.store offset=8 (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $j01)) (f64x2.extract_lane 1 (local.get $j01))))
+        (local.set $at (i32.add (local.get $at) (i32.shl (local.get $p) (i32.const 3))))
+        (f64.store (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $j10)) (f64x2.extract_lane 1 (local.get $j10))))
+        (f64.store offset=8 (local.get $at)
+          (f64.add (f64x2.extract_lane 0 (local.get $j11)) (f64x2.extract_lane 1 (local.get $j11))))
+        (local.set $k (i32.add (local.get $k) (i32.const 2)))
+        (br_if $cols (i32.lt_u (local.get $k) (local.get $p))))
+      (local.set $i (i32.add (local.get $i) (i32.const 2)))
+      (br_if $rows (i32.lt_u (local.get $i) (local.get $p))))))
