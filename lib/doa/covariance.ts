@@ -18,7 +18,7 @@
  * which is exactly (R + Rᴴ)/2.
  *
  * Fixed summation order, whatever the threading: the snapshots fall into chunks of
- * COVARIANCE_CHUNK (4096) consecutive snapshots; each chunk's sum starts from zero
+ * COVARIANCE_CHUNK (1024) consecutive snapshots; each chunk's sum starts from zero
  * (blocks never straddle a chunk boundary; inside a block each entry sums the even and the
  * odd snapshots separately and adds the two), and the chunk sums are added to the total in
  * chunk order. `covarianceChunkSums` computes the sums of a range of chunks on its own and
@@ -31,7 +31,7 @@ import { DoaInputError } from './errors';
 import { blockTileSums } from './wasm/covariance-kernel';
 
 /** Snapshots per chunk of the fixed summation order (see the header). */
-export const COVARIANCE_CHUNK = 4096;
+export const COVARIANCE_CHUNK = 1024;
 
 export interface CovarianceAccumulatorOptions {
   /** Snapshots per block (default 256). */

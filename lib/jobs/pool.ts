@@ -122,7 +122,7 @@ export async function runCompute<K extends ComputeTaskName>(
 
 /**
  * The estimate task. Large inline or stored snapshot sets (M·N ≥ 2^18 values, more than
- * one 4096-snapshot chunk, a pool of two or more threads) first get their sample
+ * one 1024-snapshot chunk, a pool of two or more threads) first get their sample
  * covariance from every pool thread at once (lib/jobs/pooled-covariance.ts, the same R bit
  * for bit as the sequential sum); the estimate then runs on it. Dataset files are parsed
  * inside the estimate task as before (the parse dominates there).

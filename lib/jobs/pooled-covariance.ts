@@ -3,7 +3,7 @@
  * to the sequential lib/doa sampleCovariance (docs/conventions.md §2).
  *
  * The snapshots sit in SharedArrayBuffers (no copy per thread). The chunks of the
- * fixed summation order (COVARIANCE_CHUNK = 4096 snapshots each, lib/doa/covariance.ts)
+ * fixed summation order (COVARIANCE_CHUNK = 1024 snapshots each, lib/doa/covariance.ts)
  * are split into one contiguous range per thread; each thread returns the raw sums
  * of its chunks one by one (task 'covariance.chunks', lib/jobs/compute.ts), and
  * this thread adds them in chunk order. No server-only imports: the benchmark

@@ -117,14 +117,15 @@ describe('sample covariance', () => {
 });
 
 describe('fixed summation order: chunk sums (bit for bit, whatever the split)', () => {
-  // N = 10 000 snapshots: chunks of 4096, 4096 and 1808; M = 7 (odd, padded) and 16.
+  // N = 2·C + 904 snapshots (C = COVARIANCE_CHUNK = 1024): chunks of C, C and 904; M = 7 (odd, padded) and 16.
+  const n = 2 * COVARIANCE_CHUNK + 904;
   for (const m of [7, 16]) {
     const x = simulateSnapshots({
       elements: m,
       spacingWavelengths: 0.5,
       bearingsDeg: [-20, 15],
       noisePower: 1,
-      snapshots: 10000,
+      snapshots: n,
       seed: 11,
     });
     const rows = transpose(x);
@@ -132,12 +133,14 @@ describe('fixed summation order: chunk sums (bit for bit, whatever the split)', 
 
     it(`M = ${m}: the accumulator's result does not depend on how the snapshots are fed`, () => {
       const acc = new CovarianceAccumulator(m); // the default block size (blocks are part of the order)
+      const c = COVARIANCE_CHUNK;
       for (const [start, end] of [
         [0, 1],
-        [1, 4095],
-        [4095, 4097],
-        [4097, 9999],
-        [9999, 10000],
+        [1, c - 1],
+        [c - 1, c + 1],
+        [c + 1, 2 * c + 3],
+        [2 * c + 3, n - 1],
+        [n - 1, n],
       ])
         acc.addRows(rows, { start, end });
       const r = acc.covariance();
@@ -147,9 +150,9 @@ describe('fixed summation order: chunk sums (bit for bit, whatever the split)', 
     });
 
     it(`M = ${m}: chunk sums split over 1, 2 or 3 parts combine to the sequential result exactly`, () => {
-      const chunks = covarianceChunkCount(10000);
+      const chunks = covarianceChunkCount(n);
       expect(chunks).toBe(3);
-      expect(COVARIANCE_CHUNK).toBe(4096);
+      expect(COVARIANCE_CHUNK).toBe(1024);
       for (const split of [[3], [1, 2], [2, 1], [1, 1, 1]]) {
         const parts: Float64Array[] = [];
         let first = 0;
@@ -159,11 +162,11 @@ describe('fixed summation order: chunk sums (bit for bit, whatever the split)', 
           );
           first += count;
         }
-        const r = covarianceFromChunkSums(m, 10000, parts);
+        const r = covarianceFromChunkSums(m, n, parts);
         expect(r.re).toEqual(reference.re);
         expect(r.im).toEqual(reference.im);
       }
-      expect(() => covarianceFromChunkSums(m, 10000, [covarianceChunkSums(x, 'snapshots', 0, 2)])).toThrow(
+      expect(() => covarianceFromChunkSums(m, n, [covarianceChunkSums(x, 'snapshots', 0, 2)])).toThrow(
         /2 chunk sums given, 3 needed/,
       );
     });
@@ -180,7 +183,9 @@ describe('fixed summation order: chunk sums (bit for bit, whatever the split)', 
     });
     const rows = transpose(x);
     rows.re[4500 * 3 + 1] = Infinity;
-    expect(() => covarianceChunkSums(rows, 'rows', 1, 1)).toThrow(/row 4500 \(0-based\), element 1/);
+    expect(() => covarianceChunkSums(rows, 'rows', Math.floor(4500 / COVARIANCE_CHUNK), 1)).toThrow(
+      /row 4500 \(0-based\), element 1/,
+    );
   });
 });
 
