@@ -82,6 +82,14 @@ function pool(): Promise<Piscina> {
   return holder.pool;
 }
 
+/**
+ * Starts the pool's threads now (server start), so that the first job does not wait for
+ * them to load the worker bundle. A failure is left to the first runCompute to report.
+ */
+export function warmPool(): void {
+  pool().catch(() => {});
+}
+
 export interface ComputeOptions {
   signal?: AbortSignal;
   onProgress?: (fraction: number) => void;

@@ -1,6 +1,7 @@
 import 'server-only';
 import { startJobRunner, recoverStaleJobs } from '.';
 import { sweepDataFolder } from '../storage/sweep';
+import { warmPool } from './pool';
 import { isSnapshotSetReferenced, snapshotsDir } from '../storage/snapshots';
 // Importing the data modules registers their job kinds.
 import '../data/estimates';
@@ -12,7 +13,8 @@ import '../data/calibrations';
 /**
  * Server start (instrumentation.ts): remove what a killed server left in the
  * data folder, recover jobs whose process died, then start this process's
- * job runner so queued and recovered jobs run without waiting for a request.
+ * job runner so queued and recovered jobs run without waiting for a request, and start
+ * the compute pool's threads (the first estimate then finds them loaded).
  */
 export async function startServerJobs(): Promise<void> {
   const { removed } = await sweepDataFolder([
@@ -27,4 +29,5 @@ export async function startServerJobs(): Promise<void> {
     );
   }
   startJobRunner();
+  warmPool();
 }
