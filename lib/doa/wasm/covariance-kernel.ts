@@ -65,12 +65,8 @@ export function blockTileSums(
   count: number,
 ): { sums: Float64Array; at: number } {
   const kernel = choice === 'auto' ? wasmKernel() : null;
-  if (kernel) {
-    const bufBytes = 16 * p * b;
-    const need = bufBytes + 16 * p * p;
-    if (kernel.memory.buffer.byteLength < need) {
-      kernel.memory.grow(Math.ceil((need - kernel.memory.buffer.byteLength) / 65536));
-    }
+  const bufBytes = 16 * p * b;
+  if (kernel && roomFor(kernel, bufBytes + 16 * p * p)) {
     const heap = new Float64Array(kernel.memory.buffer);
     if (count === b) heap.set(buf.subarray(0, 2 * p * b), 0);
     else {
@@ -86,6 +82,18 @@ export function blockTileSums(
   if (jsOut.length < 2 * p * p) jsOut = new Float64Array(2 * p * p);
   jsTiles(buf, jsOut, p, b, count);
   return { sums: jsOut, at: 0 };
+}
+
+/** Grows the kernel's memory to `bytes`; false when it cannot (the JavaScript kernel then runs). */
+function roomFor(kernel: WasmKernel, bytes: number): boolean {
+  const have = kernel.memory.buffer.byteLength;
+  if (have >= bytes) return true;
+  try {
+    kernel.memory.grow(Math.ceil((bytes - have) / 65536));
+    return true;
+  } catch {
+    return false;
+  }
 }
 
 function jsTiles(buf: Float64Array, out: Float64Array, p: number, b: number, count: number): void {
