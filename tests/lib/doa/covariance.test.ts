@@ -1,5 +1,6 @@
 // Covariance chain of docs/conventions.md §2 against the numpy fixtures of
 // fixtures/doa/generate.py and against the defining formulas.
+import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import fixtures from '@/fixtures/doa/methods.json';
 import { ComplexMatrix, clone, conjugateTranspose, multiply, scale, zeros } from '@/lib/doa/linalg/complex';
@@ -190,6 +191,12 @@ describe('fixed summation order: chunk sums (bit for bit, whatever the split)', 
 });
 
 describe('WebAssembly and JavaScript covariance kernels', () => {
+  it('the committed wasm bytes are the build of lib/doa/wasm/covariance.wat (scripts/build-wasm.mjs --check)', () => {
+    const res = spawnSync(process.execPath, ['scripts/build-wasm.mjs', '--check'], { encoding: 'utf8' });
+    expect(res.stderr).toBe('');
+    expect(res.status).toBe(0);
+  });
+
   it('give bit for bit the same R (odd and even M and block lengths, several chunks); consistency check', () => {
     expect(covarianceKernelInUse()).toBe('wasm'); // Node 20 has WebAssembly SIMD
     for (const [m, n, blockSize] of [
