@@ -25,7 +25,7 @@ async function main() {
   }
   const { getDb, closeDb } = await import('../lib/db');
   const { startJobRunner, stopJobRunner, recoverStaleJobs } = await import('../lib/jobs');
-  const { closePool, poolSize } = await import('../lib/jobs/pool');
+  const { closePool, poolSize, warmPool } = await import('../lib/jobs/pool');
   // Importing the data modules registers their job kinds.
   await import('../lib/data/estimates');
   await import('../lib/data/studies');
@@ -33,6 +33,7 @@ async function main() {
   await getDb();
   await recoverStaleJobs();
   startJobRunner();
+  warmPool();
   console.log(`[steerwise] worker ${process.pid} consuming the job queue with ${poolSize()} compute thread(s)`);
   let stopping = false;
   const stop = async (signal: string) => {
