@@ -358,26 +358,22 @@ export class BlockAnalyzer {
     const counts = new Int32Array(nb);
     // What each method needs of the EVD: Bartlett the eigenvalues only (noise floor, source
     // count); MUSIC with per-bin MUSIC bearings or spectrum peaks the eigenvalues and the K
-    // signal vectors (projector I − Es·Esᴴ, leading-eigen.ts); MVDR and root-MUSIC every vector.
-    // The eigenvalues are the same, bit for bit, on every path.
+    // signal vectors (projector I − Es·Esᴴ); both through leading-eigen.ts. MVDR and root-MUSIC
+    // every vector (linalg/hermitian-eigen.ts). With MDL/AIC, K is known only after every bin's
+    // eigenvalues, so MUSIC then takes the vectors in a second pass.
     const leading = method === 'music' && plan.estimator !== 'per-bin-root-music';
-    const fullVectors = method === 'mvdr' || (method === 'music' && !leading);
+    const valuesOnly = method === 'bartlett';
     const given = plan.sourceCount === null ? -1 : Math.min(plan.sourceCount, m - 1);
     for (let b = 0; b < nb; b++) {
       const r = this.covariance(b);
       const e = eigs[b];
       requireFiniteEntries(r.re, 'hermitianEigen: real part');
       requireFiniteEntries(r.im, 'hermitianEigen: imaginary part');
-      if (leading && given >= 0) {
-        this.leading.decompose(
-          r.re,
-          r.im,
-          e.values,
-          given,
-          this.esRe.subarray(b * m * m),
-          this.esIm.subarray(b * m * m),
-        );
-      } else this.eigen.decompose(r.re, r.im, e.values, fullVectors ? e.vectors : null);
+      if (leading || valuesOnly) {
+        const at = b * m * m;
+        const kk = leading && given >= 0 ? given : 0;
+        this.leading.decompose(r.re, r.im, e.values, kk, this.esRe.subarray(at), this.esIm.subarray(at));
+      } else this.eigen.decompose(r.re, r.im, e.values, e.vectors);
       if (plan.sourceCount === null) counts[b] = estimateSourceCount(e.values, T, plan.sourceCountRule);
     }
     let k: number;

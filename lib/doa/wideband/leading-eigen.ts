@@ -5,9 +5,11 @@
  *
  * Method:
  *  1. Householder reduction to Hermitian tridiagonal form and a unitary diagonal scaling to a
- *     real symmetric tridiagonal Tr, with exactly the arithmetic of
- *     linalg/hermitian-eigen.ts (so the eigenvalues are those of hermitianEigen, bit for bit).
- *  2. Eigenvalues of Tr by implicit QL without vectors (linalg/tridiagonal-ql.ts), descending.
+ *     real symmetric tridiagonal Tr, as linalg/hermitian-eigen.ts (rank-2 updates, computed
+ *     on and above the diagonal and mirrored).
+ *  2. Eigenvalues of Tr by implicit QL without vectors (the scheme of linalg/tridiagonal-ql.ts),
+ *     descending. √(a² + b²) is taken by Math.sqrt rather than Math.hypot (much slower in
+ *     V8), so eigenvalues agree with hermitianEigen's to rounding, not bit for bit.
  *  3. For each of the K largest eigenvalues λ_j, inverse iteration on Tr − λ_j·I (common
  *     practice, as in LAPACK's dstein: Gaussian elimination with partial pivoting on the
  *     tridiagonal, a tiny pivot replaced by ε·‖Tr‖₁, three solves from a fixed start vector,
@@ -19,7 +21,80 @@
  * The vectors agree with hermitianEigen's up to a unit phase each and rounding (residual
  * ‖(A − λI)y‖ of order ε·‖A‖), so Es·Esᴴ agrees with its projector to rounding.
  */
-import { tridiagonalQlInPlace } from '../linalg/tridiagonal-ql';
+import { DoaNumericalError } from '../errors';
+
+/**
+ * √(a² + b²): Math.sqrt of the sum of squares, which is exact to rounding and several times
+ * faster than Math.hypot in V8; Math.hypot only where the squares could overflow or underflow.
+ */
+function hyp(a: number, b: number): number {
+  const s = a * a + b * b;
+  return s > 1e-280 && s < 1e280 ? Math.sqrt(s) : Math.hypot(a, b);
+}
+
+/**
+ * Eigenvalues (unsorted, into d) of the real symmetric tridiagonal (d, e[0 … n−2]) by implicit
+ * QL with shifts, without vectors: the scheme of linalg/tridiagonal-ql.ts (Bowdler, Martin,
+ * Reinsch & Wilkinson 1968, EISPACK tql1/tql2) with `hyp` for Math.hypot. e is overwritten.
+ */
+function tridiagonalQlValues(d: Float64Array, e: Float64Array, n: number): void {
+  if (n <= 1) return;
+  e[n - 1] = 0;
+  const eps = Number.EPSILON;
+  let f = 0;
+  let tst1 = 0;
+  for (let l = 0; l < n; l++) {
+    tst1 = Math.max(tst1, Math.abs(d[l]) + Math.abs(e[l]));
+    let m = l;
+    while (m < n - 1) {
+      if (Math.abs(e[m]) <= eps * tst1) break;
+      m++;
+    }
+    if (m > l) {
+      let iter = 0;
+      do {
+        if (++iter > 60) {
+          throw new DoaNumericalError('no-convergence', `tridiagonal QL did not converge for eigenvalue ${l} of ${n}`);
+        }
+        let g = d[l];
+        let p = (d[l + 1] - g) / (2 * e[l]);
+        let r = hyp(p, 1);
+        if (p < 0) r = -r;
+        d[l] = e[l] / (p + r);
+        d[l + 1] = e[l] * (p + r);
+        const dl1 = d[l + 1];
+        let h = g - d[l];
+        for (let i = l + 2; i < n; i++) d[i] -= h;
+        f += h;
+        p = d[m];
+        let c = 1;
+        let c2 = c;
+        let c3 = c;
+        const el1 = e[l + 1];
+        let s = 0;
+        let s2 = 0;
+        for (let i = m - 1; i >= l; i--) {
+          c3 = c2;
+          c2 = c;
+          s2 = s;
+          g = c * e[i];
+          h = c * p;
+          r = hyp(p, e[i]);
+          e[i + 1] = s * r;
+          s = e[i] / r;
+          c = p / r;
+          p = c * d[i] - s * g;
+          d[i + 1] = h + s * (c * g + s * d[i]);
+        }
+        p = (-s * s2 * c3 * el1 * e[l]) / dl1;
+        e[l] = s * p;
+        d[l] = c * p;
+      } while (Math.abs(e[l]) > eps * tst1);
+    }
+    d[l] = d[l] + f;
+    e[l] = 0;
+  }
+}
 
 export class LeadingEigenWorkspace {
   readonly n: number;
@@ -38,7 +113,6 @@ export class LeadingEigenWorkspace {
   private readonly te: Float64Array;
   private readonly phRe: Float64Array;
   private readonly phIm: Float64Array;
-  private readonly qlScratch: Float64Array;
   private readonly order: Int32Array;
   // Tridiagonal LU with partial pivoting (LAPACK dgttrf layout).
   private readonly lu: Float64Array;
@@ -68,7 +142,6 @@ export class LeadingEigenWorkspace {
     this.te = new Float64Array(n);
     this.phRe = new Float64Array(n);
     this.phIm = new Float64Array(n);
-    this.qlScratch = new Float64Array(n);
     this.order = new Int32Array(n);
     this.lu = new Float64Array(n);
     this.luUp1 = new Float64Array(n);
@@ -97,7 +170,7 @@ export class LeadingEigenWorkspace {
     const { diag, off, td, te } = this;
     td.set(diag);
     te.set(off);
-    tridiagonalQlInPlace(diag, off, null, this.qlScratch);
+    tridiagonalQlValues(diag, off, n);
     // Descending, ties to the lower index (as hermitian-eigen.ts).
     const order = this.order;
     for (let j = 0; j < n; j++) {
@@ -152,7 +225,7 @@ export class LeadingEigenWorkspace {
         tau[k] = 0;
         continue;
       }
-      const x0abs = Math.hypot(x0r, x0i);
+      const x0abs = hyp(x0r, x0i);
       const xnorm = Math.sqrt(tail2 + x0abs * x0abs);
       const phr = x0abs === 0 ? 1 : x0r / x0abs;
       const phi = x0abs === 0 ? 0 : x0i / x0abs;
@@ -190,19 +263,24 @@ export class LeadingEigenWorkspace {
         pr[i] -= kk * hvr[vrow + i];
         pi[i] -= kk * hvi[vrow + i];
       }
+      // A22 −= v·wᴴ + w·vᴴ on and above the diagonal; below it, the conjugate (exactly Hermitian).
       for (let i = k + 1; i < n; i++) {
         const vr = hvr[vrow + i];
         const vi = hvi[vrow + i];
         const wr = pr[i];
         const wi = pi[i];
         const row = i * n;
-        for (let j = k + 1; j < n; j++) {
+        for (let j = i; j < n; j++) {
           const vjr = hvr[vrow + j];
           const vji = hvi[vrow + j];
           const wjr = pr[j];
           const wji = pi[j];
-          ar[row + j] -= vr * wjr + vi * wji + wr * vjr + wi * vji;
-          ai[row + j] -= vi * wjr - vr * wji + wi * vjr - wr * vji;
+          const xr = ar[row + j] - (vr * wjr + vi * wji + wr * vjr + wi * vji);
+          const xi = ai[row + j] - (vi * wjr - vr * wji + wi * vjr - wr * vji);
+          ar[row + j] = xr;
+          ai[row + j] = xi;
+          ar[j * n + i] = xr;
+          ai[j * n + i] = -xi;
         }
       }
     }
@@ -218,7 +296,7 @@ export class LeadingEigenWorkspace {
     phRe[0] = 1;
     for (let i = 0; i < n; i++) diag[i] = ar[i * n + i];
     for (let k = 0; k < n - 1; k++) {
-      const m = Math.hypot(subRe[k], subIm[k]);
+      const m = hyp(subRe[k], subIm[k]);
       off[k] = m;
       const ur = m === 0 ? 1 : subRe[k] / m;
       const ui = m === 0 ? 0 : subIm[k] / m;

@@ -104,7 +104,7 @@ function run(a: ComplexMatrix, k: number) {
 }
 
 describe('leading eigenvectors of a Hermitian matrix (wideband/leading-eigen.ts, inverse iteration)', () => {
-  it('sample covariances: eigenvalues bit for bit those of hermitianEigen; Es·Esᴴ equal to its projector within 1e-12', () => {
+  it('sample covariances: eigenvalues those of hermitianEigen within 1e-14 of the largest; Es·Esᴴ its projector within 1e-12', () => {
     const rng = new SeededRandom(2026);
     for (const [n, t, sources, power, k] of [
       [16, 30, 2, 10, 2],
@@ -119,7 +119,7 @@ describe('leading eigenvectors of a Hermitian matrix (wideband/leading-eigen.ts,
       const a = sampleCovariance(rng, n, t, sources, power);
       const ref = hermitianEigen(a);
       const { values, esRe, esIm } = run(a, k);
-      expect(Array.from(values)).toEqual(Array.from(ref.values));
+      for (let i = 0; i < n; i++) expect(Math.abs(values[i] - ref.values[i])).toBeLessThan(1e-14 * ref.values[0]);
       expect(projectorGap(esRe, esIm, ref.vectors, k)).toBeLessThan(1e-12);
       const r = residuals(a, values, esRe, esIm, k);
       expect(r.residual).toBeLessThan(1e-13);
@@ -135,8 +135,7 @@ describe('leading eigenvectors of a Hermitian matrix (wideband/leading-eigen.ts,
     for (let i = 0; i < n; i++) cases[2].re[i * n + i] = i < 3 ? 5 : 1;
     for (const a of cases) {
       const { values, esRe, esIm } = run(a, 3);
-      const ref = hermitianEigen(a);
-      expect(Array.from(values)).toEqual(Array.from(ref.values));
+      expect(Array.from(values)).toEqual(Array.from(hermitianEigen(a).values));
       const r = residuals(a, values, esRe, esIm, 3);
       expect(r.residual).toBeLessThan(1e-14);
       expect(r.orthogonality).toBeLessThan(1e-14);
