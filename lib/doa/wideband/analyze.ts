@@ -189,6 +189,7 @@ export class BlockAnalyzer {
   private readonly fft: FFT;
   private readonly fftIn: Float64Array;
   private readonly fftOut: number[];
+  private readonly fftPacked: number[];
   private readonly xRe: Float64Array; // [bin][element][frame]
   private readonly xIm: Float64Array;
   private readonly phasors: { cos: Float64Array; sin: Float64Array }[];
@@ -216,6 +217,7 @@ export class BlockAnalyzer {
     this.fft = new FFT(plan.fftLength);
     this.fftIn = new Float64Array(plan.fftLength);
     this.fftOut = this.fft.createComplexArray() as number[];
+    this.fftPacked = this.fft.createComplexArray() as number[];
     const nb = plan.bins.length;
     const m = plan.elements;
     this.xRe = new Float64Array(nb * plan.framesPerBlock * m);
@@ -253,14 +255,48 @@ export class BlockAnalyzer {
     this.binValues = new Float64Array(this.angles.length);
   }
 
-  /** STFT of the block's frames into the per-bin snapshot arrays. */
+  /**
+   * STFT of the block's frames into the per-bin snapshot arrays. Two real channels share one
+   * complex FFT (x = x_c + j·x_{c+1}; X_c[k] = (X[k] + conj X[L−k])/2, X_{c+1}[k] =
+   * (X[k] − conj X[L−k])/(2j), a standard identity), which costs about 0.7 of two real
+   * transforms with fft.js; an odd last channel takes a real transform.
+   */
   private transform(channels: ArrayLike<number>[]): void {
     const { fftLength: L, hop, framesPerBlock: T, elements: m, bins } = this.plan;
     const w = this.window;
     const input = this.fftIn;
+    const packed = this.fftPacked;
     const out = this.fftOut;
     const nb = bins.length;
-    for (let c = 0; c < m; c++) {
+    const xRe = this.xRe;
+    const xIm = this.xIm;
+    let c = 0;
+    for (; c + 1 < m; c += 2) {
+      const x = channels[c];
+      const y = channels[c + 1];
+      for (let t = 0; t < T; t++) {
+        const s0 = t * hop;
+        for (let n = 0; n < L; n++) {
+          packed[2 * n] = w[n] * x[s0 + n];
+          packed[2 * n + 1] = w[n] * y[s0 + n];
+        }
+        this.fft.transform(out, packed);
+        for (let b = 0; b < nb; b++) {
+          const k = bins[b];
+          const q = L - k;
+          const pr = out[2 * k];
+          const pi = out[2 * k + 1];
+          const qr = out[2 * q];
+          const qi = out[2 * q + 1];
+          const at = (b * m + c) * T + t;
+          xRe[at] = 0.5 * (pr + qr);
+          xIm[at] = 0.5 * (pi - qi);
+          xRe[at + T] = 0.5 * (pi + qi);
+          xIm[at + T] = 0.5 * (qr - pr);
+        }
+      }
+    }
+    for (; c < m; c++) {
       const x = channels[c];
       for (let t = 0; t < T; t++) {
         const s0 = t * hop;
@@ -269,8 +305,8 @@ export class BlockAnalyzer {
         for (let b = 0; b < nb; b++) {
           const k = bins[b];
           const at = (b * m + c) * T + t;
-          this.xRe[at] = out[2 * k];
-          this.xIm[at] = out[2 * k + 1];
+          xRe[at] = out[2 * k];
+          xIm[at] = out[2 * k + 1];
         }
       }
     }
