@@ -51,7 +51,8 @@ import { musicDenominatorFromPhasors, noiseProjector, SPECTRUM_DENOMINATOR_FLOOR
 import { rootMusicElectricalAngles } from '../methods/root-music';
 import { estimateSourceCount } from '../methods/source-count';
 import { diagonalSums, gridAngles, gridPhasors, hermitianFormFromDiagonalSums, pickPeaks } from '../methods/spectrum';
-import { binFisherInformation, stdFromFisher, windowTimeFrequencyRedundancy } from './crb';
+import { stdFromFisher, windowTimeFrequencyRedundancy } from './crb';
+import { BinBoundWorkspace } from './bin-bound';
 import { LeadingEigenWorkspace } from './leading-eigen';
 import type { WidebandPlan } from './plan';
 
@@ -202,6 +203,8 @@ export class BlockAnalyzer {
   private readonly eigen: HermitianEigenWorkspace;
   /** MUSIC (not root-MUSIC): all eigenvalues and only the K signal eigenvectors per bin. */
   private readonly leading: LeadingEigenWorkspace;
+  /** Per-bin plug-in powers and Fisher information. */
+  private readonly bound: BinBoundWorkspace;
   /** Per bin: the signal eigenvectors, row j = vector j (K × M), when `leading` is used. */
   private readonly esRe: Float64Array;
   private readonly esIm: Float64Array;
@@ -249,6 +252,7 @@ export class BlockAnalyzer {
     }
     this.eigen = new HermitianEigenWorkspace(m);
     this.leading = new LeadingEigenWorkspace(m);
+    this.bound = new BinBoundWorkspace(m, m);
     this.esRe = new Float64Array(nb * mm);
     this.esIm = new Float64Array(nb * mm);
     this.formGrid = new Float64Array(this.angles.length);
@@ -476,11 +480,17 @@ export class BlockAnalyzer {
     const theta0 = Float64Array.from(peaks, (p) => p * RAD_PER_DEG);
     const fishers: (Float64Array | null)[] = new Array(nb);
     const total = new Float64Array(q * q);
+    // estimatePowers then binFisherInformation, on buffers kept from bin to bin (bin-bound.ts).
+    const store = new Float64Array(nb * q * q);
     for (let b = 0; b < nb; b++) {
-      const powers = estimatePowers(covs[b], noise[b], m, binSpacing[b], peaks);
-      const fi = powers.some((p) => p > 0) ? binFisherInformation(m, binSpacing[b], theta0, powers, noise[b], T) : null;
+      if (!this.bound.evaluate(covs[b], noise[b], binSpacing[b], theta0, T)) {
+        fishers[b] = null;
+        continue;
+      }
+      const fi = store.subarray(b * q * q, (b + 1) * q * q);
+      fi.set(this.bound.fisher.subarray(0, q * q));
       fishers[b] = fi;
-      if (fi) for (let i = 0; i < q * q; i++) total[i] += fi[i];
+      for (let i = 0; i < q * q; i++) total[i] += fi[i];
     }
     let bearings = peaks;
     if (plan.estimator !== 'spectrum-peaks' && q > 0) {
