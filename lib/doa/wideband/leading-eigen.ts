@@ -206,13 +206,8 @@ export class LeadingEigenWorkspace {
         ai[k * n + i] = -m;
       }
     }
-    hvr.fill(0);
-    hvi.fill(0);
-    tau.fill(0);
-    subRe.fill(0);
-    subIm.fill(0);
-    pr.fill(0);
-    pi.fill(0);
+    // No clearing needed: row k of hvr/hvi is read only at entries k+1 … n−1 and only when
+    // tau[k] ≠ 0 (both written then); pr/pi, subRe/subIm and tau[0 … n−3] are written before use.
     for (let k = 0; k < n - 2; k++) {
       const c0 = (k + 1) * n + k;
       let tail2 = 0;
