@@ -28,8 +28,8 @@ import {
   bearingTimeRecord,
   blockCount,
   BroadbandSimulator,
+  joinBlockRanges,
   planWideband,
-  trackBearings,
   type BearingTimeBlock,
   type WidebandOptions,
 } from '../lib/doa/wideband';
@@ -58,10 +58,14 @@ async function workerMain(): Promise<void> {
   const { file, first, count } = workerData as { file: string; first: number; count: number };
   const source = await openTimeSeries({ path: file, maxBytes: 1024 * 1024 * 1024 });
   const rec = await bearingTimeRecord(source, OPTIONS, { blockRange: { first, count }, yieldEvery: 0 });
-  parentPort!.postMessage({ blocks: rec.blocks, rows: rec.image.levelsDb.length });
+  parentPort!.postMessage({ blocks: rec.blocks, levelsDb: rec.image.levelsDb });
 }
 
-/** Splits the blocks over `workers` threads of this process and tracks the joined blocks. */
+/**
+ * Splits the blocks over `workers` threads of this process and joins the shares with
+ * joinBlockRanges (blocks in order, tracks over the whole record with the record's merge
+ * distance), as the service job does; so the record equals the single-threaded one.
+ */
 async function recordWithWorkers(
   file: string,
   workers: number,
@@ -70,7 +74,7 @@ async function recordWithWorkers(
   const plan = planWideband(OPTIONS, probe);
   const total = blockCount(plan, probe.samplesPerChannel);
   await probe.close();
-  const parts: Promise<BearingTimeBlock[]>[] = [];
+  const parts: Promise<{ blocks: BearingTimeBlock[]; levelsDb: Float32Array }>[] = [];
   for (let w = 0; w < workers; w++) {
     const first = Math.round((w * total) / workers);
     const count = Math.round(((w + 1) * total) / workers) - first;
@@ -79,15 +83,12 @@ async function recordWithWorkers(
         // The worker loads this TypeScript file through tsx's CommonJS hook.
         const boot = `require('tsx/cjs'); require(${JSON.stringify(__filename)});`;
         const worker = new Worker(boot, { eval: true, workerData: { file, first, count } });
-        worker.once('message', (m: { blocks: BearingTimeBlock[] }) => resolve(m.blocks));
+        worker.once('message', (m: { blocks: BearingTimeBlock[]; levelsDb: Float32Array }) => resolve(m));
         worker.once('error', reject);
       }),
     );
   }
-  const blocks = (await Promise.all(parts)).flat();
-  const tracks = trackBearings(
-    blocks.map((b) => ({ tS: 0.5 * (b.startS + b.endS), bearingsDeg: b.bearingsDeg, stdDeg: b.stdDeg })),
-  );
+  const { blocks, tracks } = joinBlockRanges(await Promise.all(parts), plan);
   return { blocks: blocks.length, bins: plan.bins.length, frames: plan.framesPerBlock, tracks: tracks.length };
 }
 

@@ -1,7 +1,7 @@
 /**
  * The stored result of a bearing–time record, shared by the job
  * (lib/data/bearing-time-records.ts) and the demo seed: the shares of blocks
- * joined in order, the tracks over the whole record (lib/doa/wideband
+ * joined in order, the tracks over the whole record (lib/doa/wideband joinBlockRanges:
  * trackBearings with the array's merge distance, defaultMergeDeg), the summary
  * kept in the row, and the result files of the record's folder:
  *   blocks.json   the per-block bearings, ±σ, source count and warnings;
@@ -16,7 +16,7 @@ import {
   decimateImage,
   defaultMergeDeg,
   planWideband,
-  trackBearings,
+  joinBlockRanges,
   type BearingTimeBlock,
   type Track,
   type WidebandOptions,
@@ -157,23 +157,13 @@ export async function finishRecord({
   folder: string;
   started: number;
 }): Promise<BtrSummary> {
-  const blocks = parts.flatMap((p) => p.blocks);
   const grid = parts[0].grid;
-  const levels = new Float32Array(blocks.length * grid.count);
-  let at = 0;
-  for (const p of parts) {
-    levels.set(p.levelsDb, at);
-    at += p.levelsDb.length;
-  }
   const plan = planWideband(inputs.options, {
     sampleRate: inputs.recording.sampleRate,
     channels: inputs.recording.channels,
   });
   const mergeDeg = defaultMergeDeg(plan);
-  const tracks = trackBearings(
-    blocks.map((b) => ({ tS: 0.5 * (b.startS + b.endS), bearingsDeg: b.bearingsDeg, stdDeg: b.stdDeg })),
-    { mergeDeg },
-  );
+  const { blocks, levelsDb: levels, tracks } = joinBlockRanges(parts, plan);
   const warnings = [...parts[0].warnings];
   for (const code of new Set(blocks.flatMap((b) => b.warnings))) {
     const n = blocks.filter((b) => b.warnings.includes(code)).length;

@@ -51,7 +51,9 @@ import { musicDenominatorFromPhasors, noiseProjector, SPECTRUM_DENOMINATOR_FLOOR
 import { rootMusicElectricalAngles } from '../methods/root-music';
 import { estimateSourceCount } from '../methods/source-count';
 import { diagonalSums, gridAngles, gridPhasors, hermitianFormFromDiagonalSums, pickPeaks } from '../methods/spectrum';
-import { binFisherInformation, stdFromFisher, windowTimeFrequencyRedundancy } from './crb';
+import { stdFromFisher, windowTimeFrequencyRedundancy } from './crb';
+import { BinBoundWorkspace } from './bin-bound';
+import { LeadingEigenWorkspace } from './leading-eigen';
 import type { WidebandPlan } from './plan';
 
 export interface BlockBearings {
@@ -120,6 +122,65 @@ function formAt(cr: Float64Array, ci: Float64Array, offset: number, l: number, m
   return l === 1 ? cr[offset] : cr[offset] + 2 * (qr * zr - qi * zi);
 }
 
+/**
+ * aᴴ·C·a at each grid phasor from the diagonal sums c_0 … c_{l−1} at cr/ci[offset …]: the
+ * arithmetic of hermitianFormFromDiagonalSums (methods/spectrum.ts) point by point, bit for
+ * bit, with two grid points per pass so that their Horner chains overlap.
+ */
+function formOnGrid(
+  cr: Float64Array,
+  ci: Float64Array,
+  offset: number,
+  l: number,
+  phasors: { cos: Float64Array; sin: Float64Array },
+  out: Float64Array,
+): void {
+  const n = out.length;
+  const c0 = cr[offset];
+  if (l === 1) {
+    out.fill(c0);
+    return;
+  }
+  const top = offset + l - 1;
+  const cos = phasors.cos;
+  const sin = phasors.sin;
+  let i = 0;
+  for (; i + 1 < n; i += 2) {
+    const zr = cos[i];
+    const zi = sin[i];
+    const wr = cos[i + 1];
+    const wi = sin[i + 1];
+    let qr = cr[top];
+    let qi = ci[top];
+    let pr = qr;
+    let pi = qi;
+    for (let k = top - 1; k >= offset + 1; k--) {
+      const ck = cr[k];
+      const dk = ci[k];
+      const tr = qr * zr - qi * zi + ck;
+      qi = qr * zi + qi * zr + dk;
+      qr = tr;
+      const ur = pr * wr - pi * wi + ck;
+      pi = pr * wi + pi * wr + dk;
+      pr = ur;
+    }
+    out[i] = c0 + 2 * (qr * zr - qi * zi);
+    out[i + 1] = c0 + 2 * (pr * wr - pi * wi);
+  }
+  for (; i < n; i++) {
+    const zr = cos[i];
+    const zi = sin[i];
+    let qr = cr[top];
+    let qi = ci[top];
+    for (let k = top - 1; k >= offset + 1; k--) {
+      const tr = qr * zr - qi * zi + cr[k];
+      qi = qr * zi + qi * zr + ci[k];
+      qr = tr;
+    }
+    out[i] = c0 + 2 * (qr * zr - qi * zi);
+  }
+}
+
 export class BlockAnalyzer {
   readonly plan: WidebandPlan;
   readonly angles: Float64Array;
@@ -129,6 +190,7 @@ export class BlockAnalyzer {
   private readonly fft: FFT;
   private readonly fftIn: Float64Array;
   private readonly fftOut: number[];
+  private readonly fftPacked: number[];
   private readonly xRe: Float64Array; // [bin][element][frame]
   private readonly xIm: Float64Array;
   private readonly phasors: { cos: Float64Array; sin: Float64Array }[];
@@ -139,6 +201,16 @@ export class BlockAnalyzer {
   private readonly covs: ComplexMatrix[];
   private readonly eigs: { values: Float64Array; vectors: ComplexMatrix }[];
   private readonly eigen: HermitianEigenWorkspace;
+  /** MUSIC (not root-MUSIC): all eigenvalues and only the K signal eigenvectors per bin. */
+  private readonly leading: LeadingEigenWorkspace;
+  /** Per-bin plug-in powers and Fisher information. */
+  private readonly bound: BinBoundWorkspace;
+  /** Per bin: the signal eigenvectors, row j = vector j (K × M), when `leading` is used. */
+  private readonly esRe: Float64Array;
+  private readonly esIm: Float64Array;
+  /** Scratch: one bin's Hermitian form on the grid, and its spectrum. */
+  private readonly formGrid: Float64Array;
+  private readonly binValues: Float64Array;
 
   constructor(plan: WidebandPlan) {
     this.plan = plan;
@@ -148,6 +220,7 @@ export class BlockAnalyzer {
     this.fft = new FFT(plan.fftLength);
     this.fftIn = new Float64Array(plan.fftLength);
     this.fftOut = this.fft.createComplexArray() as number[];
+    this.fftPacked = this.fft.createComplexArray() as number[];
     const nb = plan.bins.length;
     const m = plan.elements;
     this.xRe = new Float64Array(nb * plan.framesPerBlock * m);
@@ -178,16 +251,56 @@ export class BlockAnalyzer {
       });
     }
     this.eigen = new HermitianEigenWorkspace(m);
+    this.leading = new LeadingEigenWorkspace(m);
+    this.bound = new BinBoundWorkspace(m, m);
+    this.esRe = new Float64Array(nb * mm);
+    this.esIm = new Float64Array(nb * mm);
+    this.formGrid = new Float64Array(this.angles.length);
+    this.binValues = new Float64Array(this.angles.length);
   }
 
-  /** STFT of the block's frames into the per-bin snapshot arrays. */
+  /**
+   * STFT of the block's frames into the per-bin snapshot arrays. Two real channels share one
+   * complex FFT (x = x_c + j·x_{c+1}; X_c[k] = (X[k] + conj X[L−k])/2, X_{c+1}[k] =
+   * (X[k] − conj X[L−k])/(2j), a standard identity), which costs about 0.7 of two real
+   * transforms with fft.js; an odd last channel takes a real transform.
+   */
   private transform(channels: ArrayLike<number>[]): void {
     const { fftLength: L, hop, framesPerBlock: T, elements: m, bins } = this.plan;
     const w = this.window;
     const input = this.fftIn;
+    const packed = this.fftPacked;
     const out = this.fftOut;
     const nb = bins.length;
-    for (let c = 0; c < m; c++) {
+    const xRe = this.xRe;
+    const xIm = this.xIm;
+    let c = 0;
+    for (; c + 1 < m; c += 2) {
+      const x = channels[c];
+      const y = channels[c + 1];
+      for (let t = 0; t < T; t++) {
+        const s0 = t * hop;
+        for (let n = 0; n < L; n++) {
+          packed[2 * n] = w[n] * x[s0 + n];
+          packed[2 * n + 1] = w[n] * y[s0 + n];
+        }
+        this.fft.transform(out, packed);
+        for (let b = 0; b < nb; b++) {
+          const k = bins[b];
+          const q = L - k;
+          const pr = out[2 * k];
+          const pi = out[2 * k + 1];
+          const qr = out[2 * q];
+          const qi = out[2 * q + 1];
+          const at = (b * m + c) * T + t;
+          xRe[at] = 0.5 * (pr + qr);
+          xIm[at] = 0.5 * (pi - qi);
+          xRe[at + T] = 0.5 * (pi + qi);
+          xIm[at + T] = 0.5 * (qr - pr);
+        }
+      }
+    }
+    for (; c < m; c++) {
       const x = channels[c];
       for (let t = 0; t < T; t++) {
         const s0 = t * hop;
@@ -196,8 +309,8 @@ export class BlockAnalyzer {
         for (let b = 0; b < nb; b++) {
           const k = bins[b];
           const at = (b * m + c) * T + t;
-          this.xRe[at] = out[2 * k];
-          this.xIm[at] = out[2 * k + 1];
+          xRe[at] = out[2 * k];
+          xIm[at] = out[2 * k + 1];
         }
       }
     }
@@ -283,12 +396,24 @@ export class BlockAnalyzer {
     const covs = this.covs;
     const eigs = this.eigs;
     const counts = new Int32Array(nb);
+    // What each method needs of the EVD: Bartlett the eigenvalues only (noise floor, source
+    // count); MUSIC with per-bin MUSIC bearings or spectrum peaks the eigenvalues and the K
+    // signal vectors (projector I − Es·Esᴴ); both through leading-eigen.ts. MVDR and root-MUSIC
+    // every vector (linalg/hermitian-eigen.ts). With MDL/AIC, K is known only after every bin's
+    // eigenvalues, so MUSIC then takes the vectors in a second pass.
+    const leading = method === 'music' && plan.estimator !== 'per-bin-root-music';
+    const valuesOnly = method === 'bartlett';
+    const given = plan.sourceCount === null ? -1 : Math.min(plan.sourceCount, m - 1);
     for (let b = 0; b < nb; b++) {
       const r = this.covariance(b);
       const e = eigs[b];
       requireFiniteEntries(r.re, 'hermitianEigen: real part');
       requireFiniteEntries(r.im, 'hermitianEigen: imaginary part');
-      this.eigen.decompose(r.re, r.im, e.values, e.vectors);
+      if (leading || valuesOnly) {
+        const at = b * m * m;
+        const kk = leading && given >= 0 ? given : 0;
+        this.leading.decompose(r.re, r.im, e.values, kk, this.esRe.subarray(at), this.esIm.subarray(at));
+      } else this.eigen.decompose(r.re, r.im, e.values, e.vectors);
       if (plan.sourceCount === null) counts[b] = estimateSourceCount(e.values, T, plan.sourceCountRule);
     }
     let k: number;
@@ -298,11 +423,27 @@ export class BlockAnalyzer {
       k = sorted[(sorted.length - 1) >> 1];
     }
     k = Math.min(k, m - 1);
+    if (leading && given < 0) {
+      // The count came from the eigenvalues of every bin: now the K signal vectors.
+      for (let b = 0; b < nb; b++) {
+        const r = covs[b];
+        this.leading.decompose(
+          r.re,
+          r.im,
+          eigs[b].values,
+          k,
+          this.esRe.subarray(b * m * m),
+          this.esIm.subarray(b * m * m),
+        );
+      }
+    }
 
     const warnings = new Set<string>();
     const spectrum = new Float64Array(g);
     for (let b = 0; b < nb; b++) {
-      const values = this.binSpectrum(b, covs[b], eigs[b], k, method, warnings);
+      const values = leading
+        ? this.musicSpectrumFromSignalVectors(b, k, warnings)
+        : this.binSpectrum(b, covs[b], eigs[b], k, method, warnings);
       let mx = 0;
       for (let i = 0; i < g; i++) if (values[i] > mx) mx = values[i];
       this.normaliser[b] = mx > 0 ? mx : 1;
@@ -339,11 +480,17 @@ export class BlockAnalyzer {
     const theta0 = Float64Array.from(peaks, (p) => p * RAD_PER_DEG);
     const fishers: (Float64Array | null)[] = new Array(nb);
     const total = new Float64Array(q * q);
+    // estimatePowers then binFisherInformation, on buffers kept from bin to bin (bin-bound.ts).
+    const store = new Float64Array(nb * q * q);
     for (let b = 0; b < nb; b++) {
-      const powers = estimatePowers(covs[b], noise[b], m, binSpacing[b], peaks);
-      const fi = powers.some((p) => p > 0) ? binFisherInformation(m, binSpacing[b], theta0, powers, noise[b], T) : null;
+      if (!this.bound.evaluate(covs[b], noise[b], binSpacing[b], theta0, T)) {
+        fishers[b] = null;
+        continue;
+      }
+      const fi = store.subarray(b * q * q, (b + 1) * q * q);
+      fi.set(this.bound.fisher.subarray(0, q * q));
       fishers[b] = fi;
-      if (fi) for (let i = 0; i < q * q; i++) total[i] += fi[i];
+      for (let i = 0; i < q * q; i++) total[i] += fi[i];
     }
     let bearings = peaks;
     if (plan.estimator !== 'spectrum-peaks' && q > 0) {
@@ -398,6 +545,56 @@ export class BlockAnalyzer {
     }
     const p = new Float64Array(form.length);
     for (let i = 0; i < form.length; i++) p[i] = 1 / Math.max(form[i], SPECTRUM_DENOMINATOR_FLOOR);
+    return p;
+  }
+
+  /**
+   * MUSIC spectrum of bin b on the grid from its K signal eigenvectors (this.esRe/esIm): the
+   * diagonal sums of the noise projector I − Es·Esᴴ, then 1/(aᴴ·Pn·a) by Horner as binSpectrum.
+   * Where the form comes near a null (the threshold of binSpectrum) the bin is decomposed in
+   * full and binSpectrum's path (the direct sum over noise vectors there) is taken instead.
+   * Returns this.binValues (overwritten by the next bin).
+   */
+  private musicSpectrumFromSignalVectors(b: number, k: number, warnings: Set<string>): Float64Array {
+    const m = this.plan.elements;
+    const es = b * m * m;
+    const er = this.esRe;
+    const ei = this.esIm;
+    const cr = this.formRe;
+    const ci = this.formIm;
+    const off = b * m;
+    for (let d = 0; d < m; d++) {
+      // Σ_i Pn[i, i+d] = m·δ_d − Σ_j Σ_i e_j[i]·conj(e_j[i+d])
+      let sr = 0;
+      let si = 0;
+      for (let j = 0; j < k; j++) {
+        const row = es + j * m;
+        for (let i = 0; i + d < m; i++) {
+          const ar = er[row + i];
+          const ai = ei[row + i];
+          const br = er[row + i + d];
+          const bi = ei[row + i + d];
+          sr += ar * br + ai * bi;
+          si += ai * br - ar * bi;
+        }
+      }
+      cr[off + d] = (d === 0 ? m : 0) - sr;
+      ci[off + d] = -si;
+    }
+    const form = this.formGrid;
+    formOnGrid(cr, ci, off, m, this.phasors[b], form);
+    const g = form.length;
+    const threshold = 1e-6 * m * cr[off];
+    for (let i = 0; i < g; i++) {
+      if (form[i] < threshold) {
+        const r = this.covs[b];
+        const e = this.eigs[b];
+        this.eigen.decompose(r.re, r.im, e.values, e.vectors);
+        return this.binSpectrum(b, r, e, k, 'music', warnings);
+      }
+    }
+    const p = this.binValues;
+    for (let i = 0; i < g; i++) p[i] = 1 / Math.max(form[i], SPECTRUM_DENOMINATOR_FLOOR);
     return p;
   }
 

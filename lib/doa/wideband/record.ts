@@ -168,10 +168,7 @@ async function recordBlocks(
   } finally {
     await source.close();
   }
-  const tracks = trackBearings(
-    blocks.map((bk) => ({ tS: 0.5 * (bk.startS + bk.endS), bearingsDeg: bk.bearingsDeg, stdDeg: bk.stdDeg })),
-    { mergeDeg: defaultMergeDeg(plan), ...hooks.tracker },
-  );
+  const tracks = recordTracks(blocks, plan, hooks.tracker);
   return {
     sampleRate: fs,
     channels: m,
@@ -189,6 +186,56 @@ async function recordBlocks(
     crbRedundancy: analyzer.redundancy,
     warnings,
   };
+}
+
+/**
+ * The tracks of a record's blocks (in time order): trackBearings at the block centres with the
+ * record's merge distance (defaultMergeDeg) unless `tracker` sets its own. A single pass and the
+ * joined shares of a split record (joinBlockRanges) both track this way, so they agree.
+ */
+export function recordTracks(
+  blocks: BearingTimeBlock[],
+  plan: Pick<WidebandPlan, 'elements' | 'binSpacing'>,
+  tracker?: TrackerOptions,
+): Track[] {
+  return trackBearings(
+    blocks.map((bk) => ({ tS: 0.5 * (bk.startS + bk.endS), bearingsDeg: bk.bearingsDeg, stdDeg: bk.stdDeg })),
+    { mergeDeg: defaultMergeDeg(plan), ...tracker },
+  );
+}
+
+/**
+ * Joins the shares of a record split with `blockRange` (e.g. one per worker thread): blocks and
+ * image rows concatenated in block order, then the tracks over the whole record (recordTracks),
+ * so the result equals a single pass. The shares may come in any order but must tile one range
+ * of blocks exactly: a gap or a block analysed twice is an error.
+ */
+export function joinBlockRanges(
+  parts: { blocks: BearingTimeBlock[]; levelsDb: Float32Array }[],
+  plan: Pick<WidebandPlan, 'elements' | 'binSpacing'>,
+  tracker?: TrackerOptions,
+): { blocks: BearingTimeBlock[]; levelsDb: Float32Array; tracks: Track[] } {
+  const sorted = parts.filter((p) => p.blocks.length > 0).sort((a, b) => a.blocks[0].index - b.blocks[0].index);
+  const blocks: BearingTimeBlock[] = [];
+  let values = 0;
+  for (const p of sorted) {
+    if (p.levelsDb.length % p.blocks.length !== 0)
+      throw new RangeError(`a share has ${p.blocks.length} blocks but ${p.levelsDb.length} image values`);
+    values += p.levelsDb.length;
+    for (const bk of p.blocks) {
+      const expected = blocks.length === 0 ? bk.index : blocks[blocks.length - 1].index + 1;
+      if (bk.index !== expected)
+        throw new RangeError(`the shares do not tile the record: block ${bk.index} follows block ${expected - 1}`);
+      blocks.push(bk);
+    }
+  }
+  const levelsDb = new Float32Array(values);
+  let at = 0;
+  for (const p of sorted) {
+    levelsDb.set(p.levelsDb, at);
+    at += p.levelsDb.length;
+  }
+  return { blocks, levelsDb, tracks: recordTracks(blocks, plan, tracker) };
 }
 
 /**

@@ -11,6 +11,7 @@ import {
   binFisherInformation,
   decimateImage,
   defaultMergeDeg,
+  joinBlockRanges,
   kalataBeta,
   memorySampleSource,
   planWideband,
@@ -383,8 +384,19 @@ describe('tracks from a simulated recording: crossing contacts and a late one', 
     },
   ];
   let record: Awaited<ReturnType<typeof bearingTimeRecord>>;
+  let channels: Float32Array[];
+  const options: WidebandOptions = {
+    elements: 16,
+    spacingM: D,
+    propagationSpeedMps: C,
+    band: { lowHz: 500, highHz: 2000 },
+    blockSeconds: 1,
+    blockOverlap: 0.5,
+    fftLength: 256,
+    method: 'music',
+  };
   beforeAll(async () => {
-    const channels = simulateBroadband({
+    channels = simulateBroadband({
       elements: 16,
       spacingM: D,
       propagationSpeedMps: C,
@@ -394,16 +406,34 @@ describe('tracks from a simulated recording: crossing contacts and a late one', 
       noiseRms: 1.5,
       seed: 33,
     });
-    record = await bearingTimeRecord(memorySampleSource(channels, FS), {
-      elements: 16,
-      spacingM: D,
-      propagationSpeedMps: C,
-      band: { lowHz: 500, highHz: 2000 },
-      blockSeconds: 1,
-      blockOverlap: 0.5,
-      fftLength: 256,
-      method: 'music',
-    });
+    record = await bearingTimeRecord(memorySampleSource(channels, FS), options);
+  });
+
+  it('two workers’ block ranges, joined, give the same blocks, image and tracks as one pass (consistency check)', async () => {
+    const total = record.blocks.length;
+    const plan = planWideband(options, { sampleRate: FS, channels: 16 });
+    for (const split of [Math.round(total / 2), 1, total - 1]) {
+      const shares = await Promise.all(
+        [
+          { first: 0, count: split },
+          { first: split, count: total - split },
+        ].map((blockRange) =>
+          bearingTimeRecord(memorySampleSource(channels, FS), options, { blockRange, yieldEvery: 0 }),
+        ),
+      );
+      // Shares handed over in the order they finished (here reversed) still join in block order.
+      const joined = joinBlockRanges(
+        shares.reverse().map((r) => ({ blocks: r.blocks, levelsDb: r.image.levelsDb })),
+        plan,
+      );
+      expect(joined.blocks).toEqual(record.blocks);
+      expect(Buffer.from(joined.levelsDb.buffer).equals(Buffer.from(record.image.levelsDb.buffer))).toBe(true);
+      expect(joined.tracks).toEqual(record.tracks);
+    }
+    // A boundary block analysed by both shares is refused, not joined twice.
+    const dup = { blocks: record.blocks.slice(0, 3), levelsDb: record.image.levelsDb.slice(0, 3 * record.image.count) };
+    const rest = { blocks: record.blocks.slice(2), levelsDb: record.image.levelsDb.slice(2 * record.image.count) };
+    expect(() => joinBlockRanges([dup, rest], plan)).toThrow(/do not tile/);
   });
 
   it('recovers three tracks with start and end within one block of the truth', () => {
