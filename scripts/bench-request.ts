@@ -9,7 +9,8 @@
  * validation, storing the snapshot set (SHA-256 + file), the whole
  * submitEstimate (store rows, enqueue, claim, compute in the worker, store
  * the result), the compute alone in the worker (runCompute), and shaping the
- * answer (JSON.stringify of the §7 body).
+ * answer (JSON.stringify of the §7 body). Then 200 more runs of the same body give the
+ * database growth per run (`dbBytesPerRun`, the snapshot set being stored already).
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -86,12 +87,35 @@ async function main() {
     await time('answer', () => JSON.stringify(v1Answer(run)));
     if (i < 5) for (const k of Object.keys(t)) t[k].length = 0;
   }
+  // Database bytes per inline run of the same snapshot set (main file + WAL after a TRUNCATE checkpoint).
+  const dbSize = async () => {
+    await db.query('PRAGMA wal_checkpoint(TRUNCATE)');
+    const size = (f: string) => (fs.existsSync(f) ? fs.statSync(f).size : 0);
+    return size(process.env.STEERWISE_DB!) + size(`${process.env.STEERWISE_DB}-wal`);
+  };
+  const input = estimateRequestSchema.parse(JSON.parse(text));
+  const sizeBefore = await dbSize();
+  const growthRuns = 200;
+  for (let i = 0; i < growthRuns; i++) await submitEstimate({ caller, input, wait: true });
+  const dbBytesPerRun = Math.round(((await dbSize()) - sizeBefore) / growthRuns);
+  // Where those bytes are: the JSON columns of the last run, its job and its audit event (characters).
+  const [[sizes]] = (await db.query(
+    `SELECT length(r.inputs) AS inputs, length(r.result) AS result,
+       (SELECT length(detail) + length(action) + length(coalesce(target, '')) FROM audit_events ORDER BY id DESC LIMIT 1) AS audit
+     FROM estimate_runs r ORDER BY r.id DESC LIMIT 1`,
+  )) as [Record<string, number>[], unknown];
   const median = (a: number[]) => [...a].sort((p, q) => p - q)[Math.floor(a.length / 2)];
   const out = Object.fromEntries(Object.entries(t).map(([k, v]) => [`${k}Ms`, Math.round(median(v) * 100) / 100]));
   console.log(
     args.includes('--json')
-      ? JSON.stringify({ case: 'request-phases', runs, bodyMb: Math.round(text.length / 1e4) / 100, ...out })
-      : out,
+      ? JSON.stringify({
+          case: 'request-phases',
+          runs,
+          bodyMb: Math.round(text.length / 1e4) / 100,
+          ...out,
+          dbBytesPerRun,
+        })
+      : { ...out, dbBytesPerRun, lastRunChars: sizes },
   );
   await stopJobRunner();
   await closePool();

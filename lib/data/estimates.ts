@@ -16,14 +16,21 @@ import {
   type DoaMethod,
 } from '../doa';
 import { isUnitGain, type ElementGainState } from '../doa/calibration';
-import { enqueueJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
+import { enqueueJob, recordFinishedJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
 import type { MethodResult, RunOptions } from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
 import { runEstimateCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
 import { resolveStoragePath } from '../storage/files';
 import { ensureLocalFile } from '../storage/shared';
-import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
+import {
+  nestedSnapshots,
+  prepareSnapshotSet,
+  readSnapshotSet,
+  storeSnapshotSet,
+  writePreparedSnapshotSet,
+  type SnapshotSetRef,
+} from '../storage/snapshots';
 import { compareRuns, type RerunComparison } from '../runs/compare';
 import { SOFTWARE_VERSION } from '../version';
 import type { EstimateRequest } from '../validations/estimate';
@@ -94,7 +101,7 @@ export type EstimateRunListItem = Pick<
   bearingsDeg: Record<string, number[]>;
 };
 
-function toDto(run: EstimateRun, creator: User | null): EstimateRunDto {
+function toDto(run: EstimateRun, creator: Pick<User, 'id' | 'name'> | null): EstimateRunDto {
   const result = (run.result ?? null) as { results?: MethodResult[] } | null;
   return {
     id: run.id,
@@ -399,14 +406,14 @@ export async function submitEstimate({
   checkSizes(usableElements(array, methods, options), options, n);
   const calibration = calibrationFor(input, array, gains);
   let request = input;
-  let snapshotSet: SnapshotSetRef | undefined;
+  let rows: ComplexMatrix | undefined;
   if (input.snapshots) {
-    snapshotSet = await storeSnapshotSet(inlineRows(input.snapshots));
+    rows = inlineRows(input.snapshots);
     const { snapshots: _inline, ...rest } = input;
     void _inline;
     request = rest;
   }
-  const inputs: RunInputs = {
+  const inputsWith = (snapshotSet: SnapshotSetRef | undefined): RunInputs => ({
     request,
     ...(snapshotSet ? { snapshotSet } : {}),
     methods,
@@ -425,7 +432,10 @@ export async function submitEstimate({
       : {}),
     ...(rerunOf !== undefined ? { rerunOf } : {}),
     calibration,
-  };
+  });
+  // An inline set the client waits for: computed first, then stored in one transaction.
+  if (wait && rows) return runInlineNow({ caller, rows, inputsWith, methods, rerunOf });
+  const inputs = inputsWith(rows ? await storeSnapshotSet(rows) : undefined);
   const { run, job } = await db.transaction(async (transaction) => {
     const created = await EstimateRun.create(
       {
@@ -533,16 +543,7 @@ registerJobKind<{ results: MethodResult[] } | null>({
     if (!run) return null; // deleted meanwhile
     const inputs = run.inputs as unknown as RunInputs;
     const { source, transferList } = await snapshotSource(run, inputs);
-    const input: EstimateComputeInput = {
-      source,
-      elements: inputs.array.elements,
-      spacingWavelengths: inputs.array.spacingWavelengths,
-      methods: inputs.methods,
-      options: inputs.options,
-      ...(inputs.calibration?.applied && inputs.calibration.gains ? { calibration: inputs.calibration.gains } : {}),
-      ...(inputs.array.disabledElements?.length ? { enabledIndices: enabledIndicesOf(inputs.array) } : {}),
-    };
-    const { results } = await runEstimateCompute(input, {
+    const { results } = await runEstimateCompute(computeInputOf(inputs, source), {
       signal,
       onProgress: setProgress,
       ...(transferList ? { transferList } : {}),
@@ -565,13 +566,110 @@ registerJobKind<{ results: MethodResult[] } | null>({
       { where: { id: Number(inputRef), status: { [Op.ne]: 'done' } } },
     );
   },
-  describeError(err) {
-    const mapped = engineToApi(err);
-    if (mapped instanceof ApiError) return mapped.message;
-    console.error('[steerwise] estimate run failed', err);
-    return 'The run failed on the server; the detail has been logged.';
-  },
+  describeError: describeEstimateError,
 });
+
+function describeEstimateError(err: unknown): string {
+  const mapped = engineToApi(err);
+  if (mapped instanceof ApiError) return mapped.message;
+  console.error('[steerwise] estimate run failed', err);
+  return 'The run failed on the server; the detail has been logged.';
+}
+
+/** What the worker's estimate task gets for a run's inputs and snapshot source. */
+function computeInputOf(inputs: RunInputs, source: SnapshotSource): EstimateComputeInput {
+  return {
+    source,
+    elements: inputs.array.elements,
+    spacingWavelengths: inputs.array.spacingWavelengths,
+    methods: inputs.methods,
+    options: inputs.options,
+    ...(inputs.calibration?.applied && inputs.calibration.gains ? { calibration: inputs.calibration.gains } : {}),
+    ...(inputs.array.disabledElements?.length ? { enabledIndices: enabledIndicesOf(inputs.array) } : {}),
+  };
+}
+
+/**
+ * An inline run whose client waits for the answer (POST /api/v1/estimates without
+ * `Prefer: respond-async`, a waited re-run). The compute runs first, on the pool, with the
+ * matrix moved to the worker; then the snapshot set is written (once per content) and the
+ * run (done, with its result), its job (done) and the audit event are inserted in one
+ * transaction, and the answer is built from what was inserted. Nothing is stored before the
+ * result exists: an engine refusal is a 422 with nothing behind it, and a server stopped
+ * midway leaves no row to recover (the client sees the connection drop and may post again).
+ * A failure other than a refusal is stored as a failed run and job, as the queued path does.
+ */
+async function runInlineNow({
+  caller,
+  rows,
+  inputsWith,
+  methods,
+  rerunOf,
+}: {
+  caller: Caller;
+  rows: ComplexMatrix;
+  inputsWith: (snapshotSet: SnapshotSetRef) => RunInputs;
+  methods: DoaMethod[];
+  rerunOf?: number;
+}): Promise<EstimateRunDto> {
+  const db = await getDb();
+  const startedAt = new Date();
+  const prepared = prepareSnapshotSet(rows);
+  const inputs = inputsWith(prepared.ref);
+  let results: MethodResult[] | undefined;
+  let failure: unknown;
+  try {
+    ({ results } = await runEstimateCompute(computeInputOf(inputs, { kind: 'matrix', ...rows }), {
+      transferList: [rows.re.buffer as ArrayBuffer, rows.im.buffer as ArrayBuffer],
+    }));
+  } catch (err) {
+    failure = err ?? new Error('the compute failed');
+    const mapped = engineToApi(failure);
+    if (mapped instanceof ApiError) throw mapped;
+  }
+  await writePreparedSnapshotSet(prepared);
+  const error = results ? null : describeEstimateError(failure);
+  const run = await db.transaction(async (transaction) => {
+    const created = await EstimateRun.create(
+      {
+        teamId: caller.teamId,
+        status: results ? 'done' : 'failed',
+        progress: results ? 1 : 0,
+        datasetId: null,
+        datasetSha256: null,
+        arrayRevisionId: inputs.array.arrayRevisionId ?? null,
+        inputs: inputs as unknown as Record<string, unknown>,
+        result: results ? ({ results } as unknown as Record<string, unknown>) : null,
+        error,
+        softwareVersion: SOFTWARE_VERSION,
+        createdById: caller.id,
+      },
+      { transaction },
+    );
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: rerunOf ? 'estimate.rerun' : 'estimate.started',
+        target: methods.join(', '),
+        detail: rerunOf ? { id: created.id, rerunOf } : { id: created.id },
+      },
+      transaction,
+    );
+    await recordFinishedJob({
+      kind: ESTIMATE_JOB,
+      inputRef: String(created.id),
+      teamId: caller.teamId,
+      ownerId: caller.id,
+      status: results ? 'done' : 'failed',
+      error,
+      startedAt,
+      transaction,
+    });
+    return created;
+  });
+  return toDto(run, { id: caller.id, name: caller.name });
+}
 
 /**
  * Stops a queued or running run (engineers, admins). 409 when it has already
