@@ -114,6 +114,7 @@ async function main() {
           bodyMb: Math.round(text.length / 1e4) / 100,
           ...out,
           dbBytesPerRun,
+          lastRunChars: sizes,
         })
       : { ...out, dbBytesPerRun, lastRunChars: sizes },
   );
