@@ -17,7 +17,13 @@ import {
 } from '../doa';
 import { isUnitGain, type ElementGainState } from '../doa/calibration';
 import { enqueueJob, recordFinishedJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
-import type { MethodResult, RunOptions } from '../jobs/estimate-run';
+import {
+  compactStoredResult,
+  expandStoredResult,
+  type MethodResult,
+  type RunOptions,
+  type StoredMethodResult,
+} from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
 import { runEstimateCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
@@ -101,8 +107,18 @@ export type EstimateRunListItem = Pick<
   bearingsDeg: Record<string, number[]>;
 };
 
+/** A run's `result` column: the method results in their stored (compact) form. */
+function storedResultColumn(results: MethodResult[]): Record<string, unknown> {
+  return { results: results.map(compactStoredResult) };
+}
+
+/** The full method results of a run's `result` column (compact or stored in full). */
+export function resultsOfRun(result: unknown): MethodResult[] {
+  const list = (result as { results?: StoredMethodResult[] } | null)?.results;
+  return Array.isArray(list) ? list.map(expandStoredResult) : [];
+}
+
 function toDto(run: EstimateRun, creator: Pick<User, 'id' | 'name'> | null): EstimateRunDto {
-  const result = (run.result ?? null) as { results?: MethodResult[] } | null;
   return {
     id: run.id,
     status: run.status,
@@ -115,7 +131,7 @@ function toDto(run: EstimateRun, creator: Pick<User, 'id' | 'name'> | null): Est
     createdAt: run.createdAt.toISOString(),
     updatedAt: run.updatedAt.toISOString(),
     createdBy: creator ? { id: creator.id, name: creator.name } : null,
-    results: result?.results ?? [],
+    results: resultsOfRun(run.result),
   };
 }
 
@@ -554,7 +570,7 @@ registerJobKind<{ results: MethodResult[] } | null>({
   async store({ job, value, transaction }) {
     if (!value) return;
     await EstimateRun.update(
-      { result: value as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { result: storedResultColumn(value.results), status: 'done', progress: 1, error: null },
       { where: { id: Number(job.inputRef) }, transaction },
     );
   },
@@ -639,7 +655,7 @@ async function runInlineNow({
         datasetSha256: null,
         arrayRevisionId: inputs.array.arrayRevisionId ?? null,
         inputs: inputs as unknown as Record<string, unknown>,
-        result: results ? ({ results } as unknown as Record<string, unknown>) : null,
+        result: results ? storedResultColumn(results) : null,
         error,
         softwareVersion: SOFTWARE_VERSION,
         createdById: caller.id,
