@@ -5,6 +5,7 @@ import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
+import { inWriteBatch } from '../db/write-batch';
 import { DatasetError, sha256File } from '../datasets';
 import {
   bounds,
@@ -610,7 +611,7 @@ function computeInputOf(inputs: RunInputs, source: SnapshotSource): EstimateComp
  * `Prefer: respond-async`, a waited re-run). The compute runs first, on the pool, with the
  * matrix moved to the worker; then the snapshot set is written (once per content) and the
  * run (done, with its result), its job (done) and the audit event are inserted in one
- * transaction, and the answer is built from what was inserted. Nothing is stored before the
+ * transaction (on SQLite grouped with other requests' inline runs, lib/db/write-batch.ts), and the answer is built from what was inserted. Nothing is stored before the
  * result exists: an engine refusal is a 422 with nothing behind it, and a server stopped
  * midway leaves no row to recover (the client sees the connection drop and may post again).
  * A failure other than a refusal is stored as a failed run and job, as the queued path does.
@@ -628,7 +629,7 @@ async function runInlineNow({
   methods: DoaMethod[];
   rerunOf?: number;
 }): Promise<EstimateRunDto> {
-  const db = await getDb();
+  await getDb();
   const startedAt = new Date();
   const prepared = prepareSnapshotSet(rows);
   const inputs = inputsWith(prepared.ref);
@@ -645,7 +646,7 @@ async function runInlineNow({
   }
   await writePreparedSnapshotSet(prepared);
   const error = results ? null : describeEstimateError(failure);
-  const run = await db.transaction(async (transaction) => {
+  const run = await inWriteBatch(async (transaction) => {
     const created = await EstimateRun.create(
       {
         teamId: caller.teamId,
