@@ -6,10 +6,12 @@
  *   npx tsx scripts/bench-request.ts [--json] [--n 40]
  *
  * Phases (median over the runs after a warm-up): JSON.parse of the body, zod
- * validation, storing the snapshot set (SHA-256 + file), the whole
- * submitEstimate (store rows, enqueue, claim, compute in the worker, store
- * the result), the compute alone in the worker (runCompute), and shaping the
- * answer (JSON.stringify of the §7 body).
+ * validation, both together in a worker thread as the route does it (parseInWorker, the web
+ * thread only waits), storing the snapshot set (SHA-256 + file), the whole
+ * submitEstimate (an inline run the client waits for: compute in the worker, then run, done
+ * job and audit event in one transaction), the compute alone in the worker (runCompute), and shaping the
+ * answer (JSON.stringify of the §7 body). Then 200 more runs of the same body give the
+ * database growth per run (`dbBytesPerRun`, the snapshot set being stored already).
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -33,7 +35,7 @@ async function main() {
   const { seedDemo } = await import('../lib/demo/seed');
   const { inlineEstimateBody } = await import('./inline-estimate-body');
   const { estimateRequestSchema } = await import('../lib/validations/estimate');
-  const { submitEstimate, v1Answer } = await import('../lib/data/estimates');
+  const { parseEstimateBody, submitEstimate, v1Answer } = await import('../lib/data/estimates');
   const { storeSnapshotSet } = await import('../lib/storage/snapshots');
   const { runCompute, closePool } = await import('../lib/jobs/pool');
   const { stopJobRunner } = await import('../lib/jobs');
@@ -57,6 +59,7 @@ async function main() {
   const t: Record<string, number[]> = {
     parse: [],
     validate: [],
+    parseInWorker: [],
     storeSnapshots: [],
     submitEstimate: [],
     computeInWorker: [],
@@ -71,6 +74,8 @@ async function main() {
   for (let i = 0; i < runs + 5; i++) {
     const body = await time('parse', () => JSON.parse(text));
     const input = await time('validate', () => estimateRequestSchema.parse(body));
+    // What the route does instead: parse, validate and flatten in a worker thread.
+    await time('parseInWorker', () => parseEstimateBody(Buffer.from(text)));
     const flat = { rows: n, cols: m, re: new Float64Array(re.flat()), im: new Float64Array(im.flat()) };
     await time('storeSnapshots', () => storeSnapshotSet(flat));
     const run = await time('submitEstimate', () => submitEstimate({ caller, input, wait: true }));
@@ -86,12 +91,36 @@ async function main() {
     await time('answer', () => JSON.stringify(v1Answer(run)));
     if (i < 5) for (const k of Object.keys(t)) t[k].length = 0;
   }
+  // Database bytes per inline run of the same snapshot set (main file + WAL after a TRUNCATE checkpoint).
+  const dbSize = async () => {
+    await db.query('PRAGMA wal_checkpoint(TRUNCATE)');
+    const size = (f: string) => (fs.existsSync(f) ? fs.statSync(f).size : 0);
+    return size(process.env.STEERWISE_DB!) + size(`${process.env.STEERWISE_DB}-wal`);
+  };
+  const input = estimateRequestSchema.parse(JSON.parse(text));
+  const sizeBefore = await dbSize();
+  const growthRuns = 200;
+  for (let i = 0; i < growthRuns; i++) await submitEstimate({ caller, input, wait: true });
+  const dbBytesPerRun = Math.round(((await dbSize()) - sizeBefore) / growthRuns);
+  // Where those bytes are: the JSON columns of the last run, its job and its audit event (characters).
+  const [[sizes]] = (await db.query(
+    `SELECT length(r.inputs) AS inputs, length(r.result) AS result,
+       (SELECT length(detail) + length(action) + length(coalesce(target, '')) FROM audit_events ORDER BY id DESC LIMIT 1) AS audit
+     FROM estimate_runs r ORDER BY r.id DESC LIMIT 1`,
+  )) as [Record<string, number>[], unknown];
   const median = (a: number[]) => [...a].sort((p, q) => p - q)[Math.floor(a.length / 2)];
   const out = Object.fromEntries(Object.entries(t).map(([k, v]) => [`${k}Ms`, Math.round(median(v) * 100) / 100]));
   console.log(
     args.includes('--json')
-      ? JSON.stringify({ case: 'request-phases', runs, bodyMb: Math.round(text.length / 1e4) / 100, ...out })
-      : out,
+      ? JSON.stringify({
+          case: 'request-phases',
+          runs,
+          bodyMb: Math.round(text.length / 1e4) / 100,
+          ...out,
+          dbBytesPerRun,
+          lastRunChars: sizes,
+        })
+      : { ...out, dbBytesPerRun, lastRunChars: sizes },
   );
   await stopJobRunner();
   await closePool();

@@ -5,6 +5,7 @@ import { ApiError } from '../http';
 import { assertPermission, type Caller } from '../auth';
 import { recordAudit } from './record-audit';
 import { getDb } from '../db';
+import { inWriteBatch } from '../db/write-batch';
 import { DatasetError, sha256File } from '../datasets';
 import {
   bounds,
@@ -16,14 +17,29 @@ import {
   type DoaMethod,
 } from '../doa';
 import { isUnitGain, type ElementGainState } from '../doa/calibration';
-import { enqueueJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
-import type { MethodResult, RunOptions } from '../jobs/estimate-run';
+import { enqueueJob, recordFinishedJob, registerJobKind, stopRecordJob, waitForJob, type JobContext } from '../jobs';
+import {
+  compactStoredResult,
+  expandStoredResult,
+  type MethodResult,
+  type RunOptions,
+  type StoredMethodResult,
+} from '../jobs/estimate-run';
 import type { EstimateComputeInput, SnapshotSource } from '../jobs/compute';
-import { runEstimateCompute } from '../jobs/pool';
+import { runCompute, runEstimateCompute } from '../jobs/pool';
+import { parseEstimateRequest, type EstimateRequestOutput } from '../jobs/estimate-request';
+import { z } from 'zod';
 import { maxUploadBytes } from '../env';
 import { resolveStoragePath } from '../storage/files';
 import { ensureLocalFile } from '../storage/shared';
-import { nestedSnapshots, readSnapshotSet, storeSnapshotSet, type SnapshotSetRef } from '../storage/snapshots';
+import {
+  nestedSnapshots,
+  prepareSnapshotSet,
+  readSnapshotSet,
+  storeSnapshotSet,
+  writePreparedSnapshotSet,
+  type SnapshotSetRef,
+} from '../storage/snapshots';
 import { compareRuns, type RerunComparison } from '../runs/compare';
 import { SOFTWARE_VERSION } from '../version';
 import type { EstimateRequest } from '../validations/estimate';
@@ -94,8 +110,18 @@ export type EstimateRunListItem = Pick<
   bearingsDeg: Record<string, number[]>;
 };
 
-function toDto(run: EstimateRun, creator: User | null): EstimateRunDto {
-  const result = (run.result ?? null) as { results?: MethodResult[] } | null;
+/** A run's `result` column: the method results in their stored (compact) form. */
+function storedResultColumn(results: MethodResult[]): Record<string, unknown> {
+  return { results: results.map(compactStoredResult) };
+}
+
+/** The full method results of a run's `result` column (compact or stored in full). */
+export function resultsOfRun(result: unknown): MethodResult[] {
+  const list = (result as { results?: StoredMethodResult[] } | null)?.results;
+  return Array.isArray(list) ? list.map(expandStoredResult) : [];
+}
+
+function toDto(run: EstimateRun, creator: Pick<User, 'id' | 'name'> | null): EstimateRunDto {
   return {
     id: run.id,
     status: run.status,
@@ -108,7 +134,7 @@ function toDto(run: EstimateRun, creator: User | null): EstimateRunDto {
     createdAt: run.createdAt.toISOString(),
     updatedAt: run.updatedAt.toISOString(),
     createdBy: creator ? { id: creator.id, name: creator.name } : null,
-    results: result?.results ?? [],
+    results: resultsOfRun(run.result),
   };
 }
 
@@ -359,9 +385,12 @@ export async function submitEstimate({
   wait,
   pinnedRevisionId,
   rerunOf,
+  rows: givenRows,
 }: {
   caller: Caller;
   input: EstimateRequest;
+  /** Inline snapshots already read into typed arrays (parseEstimateBody), instead of `input.snapshots`. */
+  rows?: ComplexMatrix;
   wait: boolean;
   pinnedRevisionId?: number;
   rerunOf?: number;
@@ -377,8 +406,8 @@ export async function submitEstimate({
     m = dataset.elements;
     n = dataset.snapshots;
   } else {
-    m = input.snapshots!.re[0].length;
-    n = input.snapshots!.re.length;
+    m = givenRows ? givenRows.cols : input.snapshots!.re[0].length;
+    n = givenRows ? givenRows.rows : input.snapshots!.re.length;
   }
   const { array, gains } = await resolveArray({ caller, input, dataset, pinnedRevisionId });
   if (array.elements !== m) {
@@ -399,14 +428,14 @@ export async function submitEstimate({
   checkSizes(usableElements(array, methods, options), options, n);
   const calibration = calibrationFor(input, array, gains);
   let request = input;
-  let snapshotSet: SnapshotSetRef | undefined;
+  let rows: ComplexMatrix | undefined = input.datasetId === undefined ? givenRows : undefined;
   if (input.snapshots) {
-    snapshotSet = await storeSnapshotSet(inlineRows(input.snapshots));
+    rows = inlineRows(input.snapshots);
     const { snapshots: _inline, ...rest } = input;
     void _inline;
     request = rest;
   }
-  const inputs: RunInputs = {
+  const inputsWith = (snapshotSet: SnapshotSetRef | undefined): RunInputs => ({
     request,
     ...(snapshotSet ? { snapshotSet } : {}),
     methods,
@@ -425,7 +454,10 @@ export async function submitEstimate({
       : {}),
     ...(rerunOf !== undefined ? { rerunOf } : {}),
     calibration,
-  };
+  });
+  // An inline set the client waits for: computed first, then stored in one transaction.
+  if (wait && rows) return runInlineNow({ caller, rows, inputsWith, methods, rerunOf });
+  const inputs = inputsWith(rows ? await storeSnapshotSet(rows) : undefined);
   const { run, job } = await db.transaction(async (transaction) => {
     const created = await EstimateRun.create(
       {
@@ -476,6 +508,31 @@ export async function submitEstimate({
 }
 
 export const ESTIMATE_JOB = 'estimate';
+
+/** Bodies from this size on are parsed in a worker thread (a 16 × 1000 inline set is 0.62 MB). */
+const PARSE_IN_WORKER_BYTES = 128 * 1024;
+
+/**
+ * A POST /api/v1/estimates body read and validated (lib/jobs/estimate-request.ts): large
+ * bodies in a worker thread, so the web thread does not spend the JSON parse; small ones in
+ * place. Malformed JSON is 400 and a schema refusal 422 with the schema's messages, as with
+ * readJson and parseBody. Inline snapshots come back as typed arrays in `rows`.
+ */
+export async function parseEstimateBody(bytes: Buffer): Promise<{ input: EstimateRequest; rows?: ComplexMatrix }> {
+  let out: EstimateRequestOutput;
+  if (bytes.byteLength < PARSE_IN_WORKER_BYTES) out = parseEstimateRequest({ body: bytes });
+  else {
+    // Moved, not copied, to the worker (a copy first when the bytes share their buffer).
+    const own =
+      bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength
+        ? bytes
+        : Uint8Array.prototype.slice.call(bytes);
+    out = await runCompute('estimate.request', { body: own }, { transferList: [own.buffer as ArrayBuffer] });
+  }
+  if ('badJson' in out) throw new ApiError('bad_json', `The request body is not valid JSON: ${out.badJson}`);
+  if ('issues' in out) throw new z.ZodError(out.issues as z.core.$ZodIssue[]);
+  return out.rows ? { input: out.request, rows: out.rows } : { input: out.request };
+}
 
 /** Where the worker finds a run's snapshots: the stored dataset file, or the request's inline matrix. */
 async function snapshotSource(
@@ -533,16 +590,7 @@ registerJobKind<{ results: MethodResult[] } | null>({
     if (!run) return null; // deleted meanwhile
     const inputs = run.inputs as unknown as RunInputs;
     const { source, transferList } = await snapshotSource(run, inputs);
-    const input: EstimateComputeInput = {
-      source,
-      elements: inputs.array.elements,
-      spacingWavelengths: inputs.array.spacingWavelengths,
-      methods: inputs.methods,
-      options: inputs.options,
-      ...(inputs.calibration?.applied && inputs.calibration.gains ? { calibration: inputs.calibration.gains } : {}),
-      ...(inputs.array.disabledElements?.length ? { enabledIndices: enabledIndicesOf(inputs.array) } : {}),
-    };
-    const { results } = await runEstimateCompute(input, {
+    const { results } = await runEstimateCompute(computeInputOf(inputs, source), {
       signal,
       onProgress: setProgress,
       ...(transferList ? { transferList } : {}),
@@ -553,7 +601,7 @@ registerJobKind<{ results: MethodResult[] } | null>({
   async store({ job, value, transaction }) {
     if (!value) return;
     await EstimateRun.update(
-      { result: value as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { result: storedResultColumn(value.results), status: 'done', progress: 1, error: null },
       { where: { id: Number(job.inputRef) }, transaction },
     );
   },
@@ -565,13 +613,110 @@ registerJobKind<{ results: MethodResult[] } | null>({
       { where: { id: Number(inputRef), status: { [Op.ne]: 'done' } } },
     );
   },
-  describeError(err) {
-    const mapped = engineToApi(err);
-    if (mapped instanceof ApiError) return mapped.message;
-    console.error('[steerwise] estimate run failed', err);
-    return 'The run failed on the server; the detail has been logged.';
-  },
+  describeError: describeEstimateError,
 });
+
+function describeEstimateError(err: unknown): string {
+  const mapped = engineToApi(err);
+  if (mapped instanceof ApiError) return mapped.message;
+  console.error('[steerwise] estimate run failed', err);
+  return 'The run failed on the server; the detail has been logged.';
+}
+
+/** What the worker's estimate task gets for a run's inputs and snapshot source. */
+function computeInputOf(inputs: RunInputs, source: SnapshotSource): EstimateComputeInput {
+  return {
+    source,
+    elements: inputs.array.elements,
+    spacingWavelengths: inputs.array.spacingWavelengths,
+    methods: inputs.methods,
+    options: inputs.options,
+    ...(inputs.calibration?.applied && inputs.calibration.gains ? { calibration: inputs.calibration.gains } : {}),
+    ...(inputs.array.disabledElements?.length ? { enabledIndices: enabledIndicesOf(inputs.array) } : {}),
+  };
+}
+
+/**
+ * An inline run whose client waits for the answer (POST /api/v1/estimates without
+ * `Prefer: respond-async`, a waited re-run). The compute runs first, on the pool, with the
+ * matrix moved to the worker; then the snapshot set is written (once per content) and the
+ * run (done, with its result), its job (done) and the audit event are inserted in one
+ * transaction (on SQLite grouped with other requests' inline runs, lib/db/write-batch.ts), and the answer is built from what was inserted. Nothing is stored before the
+ * result exists: an engine refusal is a 422 with nothing behind it, and a server stopped
+ * midway leaves no row to recover (the client sees the connection drop and may post again).
+ * A failure other than a refusal is stored as a failed run and job, as the queued path does.
+ */
+async function runInlineNow({
+  caller,
+  rows,
+  inputsWith,
+  methods,
+  rerunOf,
+}: {
+  caller: Caller;
+  rows: ComplexMatrix;
+  inputsWith: (snapshotSet: SnapshotSetRef) => RunInputs;
+  methods: DoaMethod[];
+  rerunOf?: number;
+}): Promise<EstimateRunDto> {
+  await getDb();
+  const startedAt = new Date();
+  const prepared = prepareSnapshotSet(rows);
+  const inputs = inputsWith(prepared.ref);
+  let results: MethodResult[] | undefined;
+  let failure: unknown;
+  try {
+    ({ results } = await runEstimateCompute(computeInputOf(inputs, { kind: 'matrix', ...rows }), {
+      transferList: [rows.re.buffer as ArrayBuffer, rows.im.buffer as ArrayBuffer],
+    }));
+  } catch (err) {
+    failure = err ?? new Error('the compute failed');
+    const mapped = engineToApi(failure);
+    if (mapped instanceof ApiError) throw mapped;
+  }
+  await writePreparedSnapshotSet(prepared);
+  const error = results ? null : describeEstimateError(failure);
+  const run = await inWriteBatch(async (transaction) => {
+    const created = await EstimateRun.create(
+      {
+        teamId: caller.teamId,
+        status: results ? 'done' : 'failed',
+        progress: results ? 1 : 0,
+        datasetId: null,
+        datasetSha256: null,
+        arrayRevisionId: inputs.array.arrayRevisionId ?? null,
+        inputs: inputs as unknown as Record<string, unknown>,
+        result: results ? storedResultColumn(results) : null,
+        error,
+        softwareVersion: SOFTWARE_VERSION,
+        createdById: caller.id,
+      },
+      { transaction },
+    );
+    await recordAudit(
+      {
+        teamId: caller.teamId,
+        userId: caller.id,
+        action: rerunOf ? 'estimate.rerun' : 'estimate.started',
+        target: methods.join(', '),
+        detail: rerunOf ? { id: created.id, rerunOf } : { id: created.id },
+      },
+      transaction,
+    );
+    await recordFinishedJob({
+      kind: ESTIMATE_JOB,
+      inputRef: String(created.id),
+      teamId: caller.teamId,
+      ownerId: caller.id,
+      status: results ? 'done' : 'failed',
+      error,
+      startedAt,
+      transaction,
+    });
+    return created;
+  });
+  return toDto(run, { id: caller.id, name: caller.name });
+}
 
 /**
  * Stops a queued or running run (engineers, admins). 409 when it has already

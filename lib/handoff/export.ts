@@ -27,11 +27,18 @@ import { designFigures, pairAdvice } from '@/lib/designer/analysis';
 import { beamPatternSvg, separationChartSvg } from './charts';
 import { resolveStoragePath } from '@/lib/storage/files';
 import { storedResults } from './runs';
+import { expandStoredResult, type StoredMethodResult } from '@/lib/jobs/estimate-run';
 import { withInlineSnapshots } from '@/lib/storage/snapshots';
 import { SOFTWARE_VERSION } from '@/lib/version';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 const parseJson = <T>(v: unknown): T => (typeof v === 'string' ? JSON.parse(v) : v) as T;
+
+/** A stored run result with what runs store compactly (MDL/AIC, 95% intervals) rebuilt: bundles carry it in full. */
+function fullResult(result: Record<string, unknown>): Record<string, unknown> {
+  const list = (result as { results?: StoredMethodResult[] }).results;
+  return Array.isArray(list) ? { ...result, results: list.map(expandStoredResult) } : result;
+}
 
 /** A file name: lower-case letters, digits and hyphens. */
 /** One line on what a run applied: the calibration and the disabled elements (read from its inputs). */
@@ -335,7 +342,7 @@ export async function buildArrayBundle({
       datasetSha256: r.datasetSha256 ?? null,
       dataset: ds ? `datasets/${ds.id}` : null,
       inputs,
-      result: parseJson<Record<string, unknown>>(r.result ?? {}),
+      result: fullResult(parseJson<Record<string, unknown>>(r.result ?? {})),
     };
     runJsons.push(run);
     files.push({ path: `runs/${r.id}.json`, kind: 'estimate-run', data: JSON.stringify(run, null, 2) + '\n' });

@@ -22,6 +22,26 @@ export async function readJson(req: Request, limit = maxJsonBytes()): Promise<un
   }
 }
 
+/**
+ * The checks of readJson (declared size, content type, size while reading, not empty) without
+ * the parse: the body's bytes, for a caller that parses them elsewhere (a worker thread).
+ */
+export async function readJsonBytes(req: Request, limit = maxJsonBytes()): Promise<Buffer> {
+  const declared = Number(req.headers.get('content-length') ?? NaN);
+  if (Number.isFinite(declared) && declared > limit) {
+    throw new ApiError('too_large', `The request body is ${declared} bytes; the limit is ${limit} bytes.`);
+  }
+  const type = req.headers.get('content-type') ?? '';
+  if (type && !/^application\/(.+\+)?json\b/i.test(type)) {
+    throw new ApiError('unsupported_format', `Send the body as application/json (got ${type.split(';')[0]}).`);
+  }
+  const bytes = await readBytesLimited(req, limit);
+  let i = 0;
+  while (i < bytes.length && (bytes[i] === 0x20 || bytes[i] === 0x09 || bytes[i] === 0x0a || bytes[i] === 0x0d)) i++;
+  if (i === bytes.length) throw new ApiError('bad_json', 'The request body is empty; send a JSON object.');
+  return bytes;
+}
+
 /** Like readJson, but an empty body (no content, no content type) reads as `{}` (bodies that are optional). */
 export async function readOptionalJson(req: Request, limit = maxJsonBytes()): Promise<unknown> {
   const declared = req.headers.get('content-length');
@@ -40,7 +60,11 @@ export async function readOptionalJson(req: Request, limit = maxJsonBytes()): Pr
 }
 
 async function readTextLimited(req: Request, limit: number): Promise<string> {
-  if (!req.body) return '';
+  return (await readBytesLimited(req, limit)).toString('utf8');
+}
+
+async function readBytesLimited(req: Request, limit: number): Promise<Buffer> {
+  if (!req.body) return Buffer.alloc(0);
   const reader = req.body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -54,7 +78,7 @@ async function readTextLimited(req: Request, limit: number): Promise<string> {
     }
     chunks.push(value);
   }
-  return Buffer.concat(chunks).toString('utf8');
+  return Buffer.concat(chunks);
 }
 
 /** Parses with a zod schema; failures become 422 with per-field messages. */

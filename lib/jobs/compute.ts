@@ -23,6 +23,7 @@ import {
 } from '../studies/monte-carlo';
 import { runMethod, usedCovariance, type MethodResult, type RunOptions } from './estimate-run';
 import { computeBtrBlocks, type BtrBlocksInput, type BtrBlocksOutput } from './btr-blocks';
+import { parseEstimateRequest, type EstimateRequestInput, type EstimateRequestOutput } from './estimate-request';
 import {
   calibrate,
   CalibrationInputError,
@@ -101,6 +102,7 @@ export interface ComputeTasks {
   'dataset.parse': { input: DatasetParseInput; output: DatasetParseOutput };
   'btr.blocks': { input: BtrBlocksInput; output: BtrBlocksOutput };
   'covariance.chunks': { input: CovarianceChunksInput; output: { sums: Float64Array } };
+  'estimate.request': { input: EstimateRequestInput; output: EstimateRequestOutput };
 }
 export type ComputeTaskName = keyof ComputeTasks;
 
@@ -230,6 +232,8 @@ export async function compute<K extends ComputeTaskName>(
       const x = { rows: c.rows, cols: c.cols, re: c.re, im: c.im };
       return { sums: covarianceChunkSums(x, c.layout, c.firstChunk, c.chunkCount) } as ComputeTasks[K]['output'];
     }
+    case 'estimate.request':
+      return parseEstimateRequest(input as EstimateRequestInput) as ComputeTasks[K]['output'];
     default:
       throw new Error(`unknown compute task ${String(task)}`);
   }

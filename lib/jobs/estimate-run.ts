@@ -43,6 +43,7 @@ import {
   selectElements,
   subsetCrbCost,
   type ElementSelectionKind,
+  criteriaFromLogLikelihood,
 } from '../doa';
 
 export interface RunOptions {
@@ -283,4 +284,48 @@ export function runMethod({
 
 export function eigenvaluesOf(r: ComplexMatrix): number[] {
   return Array.from(hermitianEigen(r, { vectors: false }).values);
+}
+
+/**
+ * A method result as a run row stores it: without what the rest rebuilds exactly (MDL and AIC
+ * from the log-likelihood and the snapshot count, the 95% interval from the bearings and σ), so
+ * an inline run's row stays small. `expandStoredResult` gives back the full result bit for bit
+ * (tests/lib/jobs/stored-result.test.ts); rows stored in full are returned as they are.
+ */
+export type StoredMethodResult = Omit<MethodResult, 'criteria' | 'uncertainty'> & {
+  criteria: Omit<MethodResult['criteria'], 'mdl' | 'aic'> & Partial<Pick<MethodResult['criteria'], 'mdl' | 'aic'>>;
+  uncertainty: (Omit<Uncertainty, 'ci95Deg'> & { ci95Deg?: Uncertainty['ci95Deg'] }) | null;
+};
+
+export function compactStoredResult(r: MethodResult): StoredMethodResult {
+  const { mdl: _mdl, aic: _aic, ...criteria } = r.criteria;
+  void _mdl;
+  void _aic;
+  let uncertainty: StoredMethodResult['uncertainty'] = r.uncertainty;
+  if (r.uncertainty) {
+    const { ci95Deg: _ci, ...rest } = r.uncertainty;
+    void _ci;
+    uncertainty = rest;
+  }
+  return { ...r, criteria, uncertainty };
+}
+
+export function expandStoredResult(r: StoredMethodResult): MethodResult {
+  let criteria = r.criteria as MethodResult['criteria'];
+  if (criteria && Array.isArray(criteria.logLikelihood) && (!criteria.mdl || !criteria.aic)) {
+    const { mdl, aic } = criteriaFromLogLikelihood(criteria.logLikelihood, criteria.snapshotsUsed);
+    criteria = { logLikelihood: criteria.logLikelihood, mdl, aic, snapshotsUsed: criteria.snapshotsUsed };
+  }
+  let uncertainty = r.uncertainty as Uncertainty | null;
+  if (uncertainty && !uncertainty.ci95Deg) {
+    const std = uncertainty.crbStdDeg;
+    const ci95Deg = r.bearingsDeg.map(
+      (x, i) => [x - CI95_FACTOR * std[i], x + CI95_FACTOR * std[i]] as [number, number],
+    );
+    // The key order of a freshly computed result (ci95Deg second).
+    const { crbStdDeg, ci95Deg: _absent, ...rest } = uncertainty;
+    void _absent;
+    uncertainty = { crbStdDeg, ci95Deg, ...rest };
+  }
+  return { ...r, criteria, uncertainty } as MethodResult;
 }

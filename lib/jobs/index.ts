@@ -229,6 +229,51 @@ export async function enqueueJob({
   return job;
 }
 
+/**
+ * Records a job that already ran inside its request (the compute ran on the pool before anything
+ * was stored): the row is inserted in its final state, inside the caller's transaction with the
+ * kind's own rows, so the job's record, its result and its audit event commit together. No runner,
+ * queue message, lease or state mirror is involved; the row keeps every kind in the jobs table.
+ */
+export async function recordFinishedJob({
+  kind,
+  inputRef,
+  teamId = null,
+  ownerId = null,
+  status,
+  error = null,
+  startedAt,
+  transaction,
+}: {
+  kind: string;
+  inputRef: string;
+  teamId?: number | null;
+  ownerId?: number | null;
+  status: 'done' | 'failed';
+  error?: string | null;
+  startedAt: Date;
+  transaction: Transaction;
+}): Promise<Job> {
+  const k = kinds.get(kind);
+  if (!k) throw new Error(`job kind "${kind}" is not registered`);
+  return Job.create(
+    {
+      kind,
+      inputRef,
+      teamId,
+      ownerId,
+      status,
+      progress: status === 'done' ? 1 : 0,
+      attempts: 1,
+      maxAttempts: k.maxAttempts ?? 3,
+      error,
+      startedAt,
+      finishedAt: new Date(),
+    },
+    { transaction },
+  );
+}
+
 /** The newest job of a kind for an input (the run or study page's Stop button finds its job by this). */
 export async function latestJob(kind: string, inputRef: string): Promise<Job | null> {
   await getDb();

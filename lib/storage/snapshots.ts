@@ -40,19 +40,34 @@ function bytesOf(m: ComplexMatrix): Buffer {
   return Buffer.from(all.buffer, all.byteOffset, all.byteLength);
 }
 
-export async function storeSnapshotSet(m: ComplexMatrix): Promise<SnapshotSetRef> {
+/** A set's bytes and reference, before its file is written (hashing is synchronous; nothing touches the disk). */
+export interface PreparedSnapshotSet {
+  ref: SnapshotSetRef;
+  bytes: Buffer;
+}
+
+export function prepareSnapshotSet(m: ComplexMatrix): PreparedSnapshotSet {
   const bytes = bytesOf(m);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   const rel = path.join('snapshots', sha256.slice(0, 2), `${sha256}.c128`);
-  const file = resolveStoragePath(rel);
+  return { ref: { sha256, rows: m.rows, cols: m.cols, path: rel }, bytes };
+}
+
+/** Writes a prepared set's file unless a file of that content is already there. */
+export async function writePreparedSnapshotSet({ ref, bytes }: PreparedSnapshotSet): Promise<SnapshotSetRef> {
+  const file = resolveStoragePath(ref.path);
   if (!fs.existsSync(file)) {
     await fs.promises.mkdir(path.dirname(file), { recursive: true });
     const temp = `${file}.${randomUUID()}.part`;
     await fs.promises.writeFile(temp, bytes, { flag: 'wx' });
     await fs.promises.rename(temp, file);
-    await publishStoredFile(rel);
+    await publishStoredFile(ref.path);
   }
-  return { sha256, rows: m.rows, cols: m.cols, path: rel };
+  return ref;
+}
+
+export async function storeSnapshotSet(m: ComplexMatrix): Promise<SnapshotSetRef> {
+  return writePreparedSnapshotSet(prepareSnapshotSet(m));
 }
 
 /** Reads a stored set back, checking its SHA-256 (null when missing or changed). */

@@ -72,10 +72,26 @@ export function sourceCountCriteria(eigenvalues: ArrayLike<number>, snapshots: n
     const gap = Math.max(0, tailLogMean[k] - tailMeanLog[k]);
     const lk = snapshots * (p - k) * gap;
     logLikelihood.push(lk);
-    mdl.push(lk + 0.5 * k * (2 * p - k) * lnN);
-    aic.push(2 * lk + 2 * k * (2 * p - k));
+    mdl.push(mdlTerm(lk, k, p, lnN));
+    aic.push(aicTerm(lk, k, p));
   }
   return { logLikelihood, mdl, aic, mdlChoice: argmin(mdl), aicChoice: argmin(aic) };
+}
+
+const mdlTerm = (lk: number, k: number, p: number, lnN: number) => lk + 0.5 * k * (2 * p - k) * lnN;
+const aicTerm = (lk: number, k: number, p: number) => 2 * lk + 2 * k * (2 * p - k);
+
+/**
+ * MDL and AIC from the log-likelihood terms and the snapshot count, with the same arithmetic as
+ * sourceCountCriteria (bit for bit): stored runs keep only the log-likelihood and rebuild these.
+ */
+export function criteriaFromLogLikelihood(logLikelihood: readonly number[], snapshots: number) {
+  const p = logLikelihood.length;
+  const lnN = Math.log(snapshots);
+  return {
+    mdl: logLikelihood.map((lk, k) => mdlTerm(lk, k, p, lnN)),
+    aic: logLikelihood.map((lk, k) => aicTerm(lk, k, p)),
+  };
 }
 
 export function estimateSourceCount(
