@@ -30,6 +30,8 @@ async function main() {
   await import('../lib/data/estimates');
   await import('../lib/data/studies');
   await import('../lib/data/datasets');
+  await import('../lib/data/calibrations');
+  await import('../lib/data/bearing-time-records');
   await getDb();
   await recoverStaleJobs();
   startJobRunner();

@@ -420,12 +420,12 @@ async function referenceSource(row: Calibration, ref: CalibrationReferenceInput)
 }
 
 /** The calibration job kind: the calibration row is its input; the same inputs give the same result. */
-registerJobKind<void>({
+registerJobKind<CalibrationResult | null>({
   kind: CALIBRATION_JOB,
   maxAttempts: 2,
   async run({ job, signal, setProgress }: JobContext) {
     const row = await Calibration.findByPk(Number(job.inputRef));
-    if (!row) return;
+    if (!row) return null;
     const inputs = row.inputs as unknown as CalibrationInputs;
     const references = [];
     for (const ref of inputs.references)
@@ -435,9 +435,15 @@ registerJobKind<void>({
       { references, spacingWavelengths: inputs.spacingWavelengths, method: inputs.method },
       { signal, onProgress: setProgress },
     );
+    return result;
+  },
+  // Result and status in one write (onState skips 'done'), in the transaction that marks the job done:
+  // with several workers only the one still holding the job stores it.
+  async store({ job, value, transaction }) {
+    if (!value) return;
     await Calibration.update(
-      { result: result as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
-      { where: { id: row.id } },
+      { result: value as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { where: { id: Number(job.inputRef) }, transaction },
     );
   },
   async onState({ inputRef, status, progress, error }) {
