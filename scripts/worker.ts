@@ -33,6 +33,22 @@ async function main() {
   await import('../lib/data/calibrations');
   await import('../lib/data/bearing-time-records');
   await getDb();
+  // Start the compute threads and load the compute bundle now, not with the first job.
+  const { runCompute } = await import('../lib/jobs/pool');
+  const tiny = Float64Array.from({ length: 8 }, (_, i) => Math.cos(i));
+  await runCompute('estimate', {
+    source: { kind: 'matrix', rows: 4, cols: 2, re: tiny, im: tiny.map(Math.sin) },
+    elements: 2,
+    spacingWavelengths: 0.5,
+    methods: ['esprit-ls'],
+    options: { sourceCount: 1 },
+  } as never);
+  // STEERWISE_WORKER_GATE=1 (benchmarks: scale:check): everything is loaded, then the worker waits for SIGUSR2
+  // before it takes jobs, so a measured phase starts with every worker ready rather than one still booting.
+  if (process.env.STEERWISE_WORKER_GATE === '1') {
+    console.log(`[steerwise] worker ${process.pid} ready; waiting for SIGUSR2`);
+    await new Promise<void>((resolve) => process.once('SIGUSR2', () => resolve()));
+  }
   await recoverStaleJobs();
   startJobRunner();
   console.log(`[steerwise] worker ${process.pid} consuming the job queue with ${poolSize()} compute thread(s)`);

@@ -16,6 +16,7 @@ import { blockCount, planWideband, WidebandInputError, type WidebandOptions } fr
 import { BTR_DEFAULTS, type BearingTimeRecordRequest } from '../validations/bearing-time-record';
 import { datasetErrorToApi, findTeamArrayRevision } from './datasets';
 import { resolveStoragePath } from '../storage/files';
+import { ensureLocalFile } from '../storage/shared';
 import { SOFTWARE_VERSION } from '../version';
 import {
   finishRecord,
@@ -216,7 +217,7 @@ export async function resolveBtrInputs(caller: Caller, input: BearingTimeRecordR
   let blocks: number;
   try {
     const source = await openTimeSeries({
-      path: resolveStoragePath(dataset.storagePath),
+      path: await ensureLocalFile(dataset.storagePath),
       format,
       fileName: dataset.originalName,
       maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
@@ -356,7 +357,8 @@ registerJobKind<{ summary: BtrSummary; folder: { abs: string; rel: string } } | 
       setProgress((0.97 * done) / inputs.blockCount);
     };
     const base: Omit<BtrBlocksInput, 'blockRange'> = {
-      path: resolveStoragePath(dataset.storagePath),
+      // A worker on another machine fetches the recording from the shared store first (lib/storage/shared.ts).
+      path: await ensureLocalFile(dataset.storagePath),
       format: inputs.dataset.format,
       fileName: inputs.dataset.originalName,
       maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),

@@ -13,7 +13,7 @@ import { enqueueJob, registerJobKind, waitForJob, type JobContext } from '../job
 import type { CalibrationComputeInput, SnapshotSource } from '../jobs/compute';
 import { runCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
-import { resolveStoragePath } from '../storage/files';
+import { ensureLocalFile } from '../storage/shared';
 import { SOFTWARE_VERSION } from '../version';
 import { mergeArrayInput, revisionColumns, validateArrayInput } from '../validations/array-save';
 import type { ArrayInput } from '../validations/array';
@@ -411,7 +411,8 @@ async function referenceSource(row: Calibration, ref: CalibrationReferenceInput)
   const stored = (dataset.options ?? {}) as Extract<SnapshotSource, { kind: 'file' }>['parseOptions'];
   return {
     kind: 'file',
-    path: resolveStoragePath(dataset.storagePath),
+    // A worker on another machine fetches the recording from the shared store first (lib/storage/shared.ts).
+    path: await ensureLocalFile(dataset.storagePath),
     format: dataset.format,
     fileName: dataset.originalName,
     maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
