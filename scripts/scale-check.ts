@@ -197,15 +197,19 @@ function startWorker(env: NodeJS.ProcessEnv, name: string): ChildProcess {
   return spawnLogged(name, process.execPath, ['--import', 'tsx', 'scripts/worker.ts'], {
     ...env,
     STEERWISE_WORKERS: '1',
-    // Booted (compute thread started, bundle loaded), then waiting for SIGUSR2: see startWorkers.
-    STEERWISE_WORKER_GATE: '1',
+    // Booted (compute thread started, bundle loaded), then waiting for the gate file: see startWorkers.
+    STEERWISE_WORKER_GATE: gateFile(env, name),
     // With S3 each worker has its own data folder (files come from the bucket); otherwise they share the web's.
     ...(useS3 ? { STEERWISE_DATA_DIR: fs.mkdtempSync(path.join(env.STEERWISE_DATA_DIR!, `${name}-`)) } : {}),
   });
 }
 
+function gateFile(env: NodeJS.ProcessEnv, name: string): string {
+  return path.join(env.STEERWISE_DATA_DIR!, `${name}.gate`);
+}
+
 async function workerReady(child: ChildProcess): Promise<void> {
-  await waitFor('a worker to start', async () => logs.get(child)!.some((l) => l.includes('waiting for SIGUSR2')));
+  await waitFor('a worker to start', async () => logs.get(child)!.some((l) => l.includes('ready; waiting for')));
 }
 
 /**
@@ -216,12 +220,13 @@ async function workerReady(child: ChildProcess): Promise<void> {
 async function startWorkers(env: NodeJS.ProcessEnv, names: string[]): Promise<ChildProcess[]> {
   const ws = names.map((name) => startWorker(env, name));
   await Promise.all(ws.map(workerReady));
-  for (const w of ws) w.kill('SIGUSR2');
+  for (const name of names) fs.writeFileSync(gateFile(env, name), '');
   await Promise.all(
     ws.map((w) =>
       waitFor('a worker to take jobs', async () => logs.get(w)!.some((l) => l.includes('consuming the job queue'))),
     ),
   );
+  for (const name of names) fs.rmSync(gateFile(env, name), { force: true });
   return ws;
 }
 

@@ -43,11 +43,13 @@ async function main() {
     methods: ['esprit-ls'],
     options: { sourceCount: 1 },
   } as never);
-  // STEERWISE_WORKER_GATE=1 (benchmarks: scale:check): everything is loaded, then the worker waits for SIGUSR2
-  // before it takes jobs, so a measured phase starts with every worker ready rather than one still booting.
-  if (process.env.STEERWISE_WORKER_GATE === '1') {
-    console.log(`[steerwise] worker ${process.pid} ready; waiting for SIGUSR2`);
-    await new Promise<void>((resolve) => process.once('SIGUSR2', () => resolve()));
+  // STEERWISE_WORKER_GATE=<file> (benchmarks: scale:check): everything is loaded, then the worker waits until that
+  // file exists before it takes jobs, so a measured phase starts with every worker ready rather than one still booting.
+  const gate = process.env.STEERWISE_WORKER_GATE;
+  if (gate) {
+    console.log(`[steerwise] worker ${process.pid} ready; waiting for ${gate}`);
+    const fs = await import('node:fs');
+    while (!fs.existsSync(gate)) await new Promise((r) => setTimeout(r, 50));
   }
   await recoverStaleJobs();
   startJobRunner();
