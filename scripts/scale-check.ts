@@ -38,7 +38,7 @@ require_.cache[serverOnly] = { id: serverOnly, filename: serverOnly, loaded: tru
 
 const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), '..');
 const args = process.argv.slice(2);
-// --s3: the file store is the S3 fake s3rver (not yet passing: estimate requests answer 500 while publishing to it).
+// --s3: the file store is the S3 fake s3rver (each worker with a data folder of its own, filled from the bucket).
 const useS3 = args.includes('--s3');
 const perPhase = args.includes('--per-phase') ? Number(args[args.indexOf('--per-phase') + 1]) : 60;
 const TOTAL_ESTIMATES = 200;
