@@ -55,6 +55,8 @@ export default defineConfig({
             'tests/api/datasets.test.ts',
             'tests/api/studies.test.ts',
             'tests/api/reviews.test.ts',
+            'tests/api/calibration*.test.ts',
+            'tests/api/bearing-time-records*.test.ts',
           ],
           setupFiles: ['tests/helpers/api-setup.ts'],
           globalSetup: ['tests/helpers/pg-global-setup.ts'],

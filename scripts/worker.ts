@@ -30,7 +30,27 @@ async function main() {
   await import('../lib/data/estimates');
   await import('../lib/data/studies');
   await import('../lib/data/datasets');
+  await import('../lib/data/calibrations');
+  await import('../lib/data/bearing-time-records');
   await getDb();
+  // Start the compute threads and load the compute bundle now, not with the first job.
+  const { runCompute } = await import('../lib/jobs/pool');
+  const tiny = Float64Array.from({ length: 8 }, (_, i) => Math.cos(i));
+  await runCompute('estimate', {
+    source: { kind: 'matrix', rows: 4, cols: 2, re: tiny, im: tiny.map(Math.sin) },
+    elements: 2,
+    spacingWavelengths: 0.5,
+    methods: ['esprit-ls'],
+    options: { sourceCount: 1 },
+  } as never);
+  // STEERWISE_WORKER_GATE=<file> (benchmarks: scale:check): everything is loaded, then the worker waits until that
+  // file exists before it takes jobs, so a measured phase starts with every worker ready rather than one still booting.
+  const gate = process.env.STEERWISE_WORKER_GATE;
+  if (gate) {
+    console.log(`[steerwise] worker ${process.pid} ready; waiting for ${gate}`);
+    const fs = await import('node:fs');
+    while (!fs.existsSync(gate)) await new Promise((r) => setTimeout(r, 50));
+  }
   await recoverStaleJobs();
   startJobRunner();
   warmPool();

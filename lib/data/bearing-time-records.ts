@@ -16,6 +16,7 @@ import { blockCount, planWideband, WidebandInputError, type WidebandOptions } fr
 import { BTR_DEFAULTS, type BearingTimeRecordRequest } from '../validations/bearing-time-record';
 import { datasetErrorToApi, findTeamArrayRevision } from './datasets';
 import { resolveStoragePath } from '../storage/files';
+import { ensureLocalFile } from '../storage/shared';
 import { SOFTWARE_VERSION } from '../version';
 import {
   finishRecord,
@@ -216,7 +217,7 @@ export async function resolveBtrInputs(caller: Caller, input: BearingTimeRecordR
   let blocks: number;
   try {
     const source = await openTimeSeries({
-      path: resolveStoragePath(dataset.storagePath),
+      path: await ensureLocalFile(dataset.storagePath),
       format,
       fileName: dataset.originalName,
       maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
@@ -336,12 +337,12 @@ export function splitBlocks(total: number, parts: number): { first: number; coun
  * files written and the row updated. A cancel (Stop, DELETE) aborts every share,
  * which stops their threads. The same inputs give the same result.
  */
-registerJobKind<void>({
+registerJobKind<{ summary: BtrSummary; folder: { abs: string; rel: string } } | null>({
   kind: BTR_JOB,
   maxAttempts: 2,
   async run({ job, signal, setProgress }) {
     const row = await BearingTimeRecord.findByPk(Number(job.inputRef));
-    if (!row) return;
+    if (!row) return null;
     const started = Date.now();
     const inputs = row.inputs as unknown as BtrInputs;
     const dataset = await Dataset.findByPk(inputs.dataset.id);
@@ -356,7 +357,8 @@ registerJobKind<void>({
       setProgress((0.97 * done) / inputs.blockCount);
     };
     const base: Omit<BtrBlocksInput, 'blockRange'> = {
-      path: resolveStoragePath(dataset.storagePath),
+      // A worker on another machine fetches the recording from the shared store first (lib/storage/shared.ts).
+      path: await ensureLocalFile(dataset.storagePath),
       format: inputs.dataset.format,
       fileName: inputs.dataset.originalName,
       maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
@@ -381,13 +383,21 @@ registerJobKind<void>({
     // Stopped or deleted while the last share finished: write nothing.
     if (signal.aborted) throw signal.reason ?? new Error('aborted');
     const folder = resultFolder(row.teamId as number, row.id);
+    // The files are the same for the same inputs, so a second worker re-running a job (its first was thought
+    // dead) rewrites the same bytes; the row is written once, by `store`.
     const summary = await finishRecord({ parts, inputs, folder: folder.abs, started });
+    return { summary, folder };
+  },
+  // The summary and the files' folder in the transaction that marks the job done (only while this process
+  // still holds the job: written exactly once with several workers).
+  async store({ job, value, transaction }) {
+    if (!value) return;
     const [updated] = await BearingTimeRecord.update(
-      { summary: summary as unknown as Record<string, unknown>, resultPath: folder.rel, error: null },
-      { where: { id: row.id } },
+      { summary: value.summary as unknown as Record<string, unknown>, resultPath: value.folder.rel, error: null },
+      { where: { id: Number(job.inputRef) }, transaction },
     );
     // Deleted while the files were written: leave nothing behind.
-    if (updated === 0) await fs.promises.rm(folder.abs, { recursive: true, force: true });
+    if (updated === 0) await fs.promises.rm(value.folder.abs, { recursive: true, force: true });
   },
   async onState({ inputRef, status, progress, error }) {
     await BearingTimeRecord.update({ status, progress, error }, { where: { id: Number(inputRef) } });

@@ -13,7 +13,7 @@ import { enqueueJob, registerJobKind, waitForJob, type JobContext } from '../job
 import type { CalibrationComputeInput, SnapshotSource } from '../jobs/compute';
 import { runCompute } from '../jobs/pool';
 import { maxUploadBytes } from '../env';
-import { resolveStoragePath } from '../storage/files';
+import { ensureLocalFile } from '../storage/shared';
 import { SOFTWARE_VERSION } from '../version';
 import { mergeArrayInput, revisionColumns, validateArrayInput } from '../validations/array-save';
 import type { ArrayInput } from '../validations/array';
@@ -411,7 +411,8 @@ async function referenceSource(row: Calibration, ref: CalibrationReferenceInput)
   const stored = (dataset.options ?? {}) as Extract<SnapshotSource, { kind: 'file' }>['parseOptions'];
   return {
     kind: 'file',
-    path: resolveStoragePath(dataset.storagePath),
+    // A worker on another machine fetches the recording from the shared store first (lib/storage/shared.ts).
+    path: await ensureLocalFile(dataset.storagePath),
     format: dataset.format,
     fileName: dataset.originalName,
     maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),
@@ -420,12 +421,12 @@ async function referenceSource(row: Calibration, ref: CalibrationReferenceInput)
 }
 
 /** The calibration job kind: the calibration row is its input; the same inputs give the same result. */
-registerJobKind<void>({
+registerJobKind<CalibrationResult | null>({
   kind: CALIBRATION_JOB,
   maxAttempts: 2,
   async run({ job, signal, setProgress }: JobContext) {
     const row = await Calibration.findByPk(Number(job.inputRef));
-    if (!row) return;
+    if (!row) return null;
     const inputs = row.inputs as unknown as CalibrationInputs;
     const references = [];
     for (const ref of inputs.references)
@@ -435,9 +436,15 @@ registerJobKind<void>({
       { references, spacingWavelengths: inputs.spacingWavelengths, method: inputs.method },
       { signal, onProgress: setProgress },
     );
+    return result;
+  },
+  // Result and status in one write (onState skips 'done'), in the transaction that marks the job done:
+  // with several workers only the one still holding the job stores it.
+  async store({ job, value, transaction }) {
+    if (!value) return;
     await Calibration.update(
-      { result: result as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
-      { where: { id: row.id } },
+      { result: value as unknown as Record<string, unknown>, status: 'done', progress: 1, error: null },
+      { where: { id: Number(job.inputRef) }, transaction },
     );
   },
   async onState({ inputRef, status, progress, error }) {

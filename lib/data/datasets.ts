@@ -17,7 +17,7 @@ import {
 } from '../datasets';
 import { summarise, type DatasetSummary } from '../storage/summary';
 import { datasetsDir, removeQuietly, resolveStoragePath } from '../storage/files';
-import { publishStoredFile, unpublishStoredFile } from '../storage/shared';
+import { ensureLocalFile, publishStoredFile, unpublishStoredFile } from '../storage/shared';
 import { formatBytes, receiveFile, type ReceivedFile } from '../http/multipart';
 import { enqueueJob, registerJobKind, waitForJob } from '../jobs';
 import { runCompute } from '../jobs/pool';
@@ -339,7 +339,7 @@ export async function loadDatasetSnapshots({
   await getDb();
   const dataset = await Dataset.findOne({ where: { id, teamId: caller.teamId } });
   if (!dataset) throw new ApiError('not_found', `No dataset with id ${id} in your team.`);
-  const file = resolveStoragePath(dataset.storagePath);
+  const file = await ensureLocalFile(dataset.storagePath);
   const parsed = await parseSnapshotFile({
     path: file,
     format: dataset.format,

@@ -25,10 +25,10 @@ import { arrayInputSchema, type ArrayInput } from '@/lib/validations/array';
 import { normalizeDraft, type DesignerDraft } from '@/lib/designer/state';
 import { designFigures, pairAdvice } from '@/lib/designer/analysis';
 import { beamPatternSvg, separationChartSvg } from './charts';
-import { resolveStoragePath } from '@/lib/storage/files';
 import { storedResults } from './runs';
 import { expandStoredResult, type StoredMethodResult } from '@/lib/jobs/estimate-run';
 import { withInlineSnapshots } from '@/lib/storage/snapshots';
+import { ensureLocalFile } from '@/lib/storage/shared';
 import { SOFTWARE_VERSION } from '@/lib/version';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
@@ -296,7 +296,7 @@ export async function buildArrayBundle({
   for (const d of datasets) {
     const ext = (d.originalName.match(/\.([A-Za-z0-9]{1,8})$/)?.[1] ?? d.format).toLowerCase();
     const folder = `datasets/${d.id}`;
-    const bytes = await fs.promises.readFile(resolveStoragePath(d.storagePath));
+    const bytes = await fs.promises.readFile(await ensureLocalFile(d.storagePath));
     if (sha256Hex(bytes) !== d.sha256) throw new Error(`stored file of dataset ${d.id} no longer matches its SHA-256`);
     const meta: BundleDatasetJson = {
       format: 'steerwise-dataset',

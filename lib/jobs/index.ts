@@ -1,7 +1,7 @@
 import 'server-only';
 import os from 'node:os';
 import { randomBytes } from 'node:crypto';
-import { Op, Transaction } from 'sequelize';
+import { Op, Transaction, literal } from 'sequelize';
 import { Job, type JobStatus } from '@/models';
 import { getDb } from '../db';
 import { dbTarget } from '../env';
@@ -424,7 +424,35 @@ async function finishJob(job: Job, kind: JobKind, outcome: JobOutcome, progress:
  */
 export async function runQueuedJob(jobId: number): Promise<void> {
   const s = state();
-  await getDb();
+  const db = await getDb();
+  if (db.getDialect() === 'postgres') {
+    // One statement instead of read, update, re-read: the same conditions, the row back through RETURNING.
+    const now = new Date();
+    const [, claimed] = await Job.update(
+      {
+        status: 'running',
+        leaseOwner: s.owner,
+        leaseExpiresAt: new Date(now.getTime() + leaseMs()),
+        heartbeatAt: now,
+        startedAt: now,
+        attempts: literal('"attempts" + 1') as unknown as number,
+        progress: 0,
+        error: null,
+      },
+      {
+        where: {
+          id: jobId,
+          status: 'queued',
+          kind: [...kinds.keys()],
+          // A transient job reserved by its web process stays with it.
+          [Op.or]: [{ leaseOwner: null }, { leaseOwner: s.owner }],
+        },
+        returning: true,
+      },
+    );
+    if (claimed.length === 1) await execute(claimed[0]);
+    return;
+  }
   const job = await Job.findByPk(jobId);
   if (!job || job.status !== 'queued' || !kinds.has(job.kind)) return;
   if (job.leaseOwner && job.leaseOwner !== s.owner) return; // a transient job reserved by its web process

@@ -18,9 +18,10 @@ import type { Readable } from 'node:stream';
  *   stream as multipart (@aws-sdk/lib-storage); `readRange` asks for a byte
  *   range, so a reader that needs a header or one block reads only that.
  *
- * Not yet wired into the dataset, snapshot and bundle code paths (they use
- * lib/storage/files.ts on the data folder); tested on its own against s3rver
- * in tests/api/object-store.test.ts.
+ * lib/storage/shared.ts publishes datasets and snapshot sets through it and
+ * fetches them into a process's data folder (`putFile`, `download`);
+ * `readRange` is not used by a reader yet. Tested against s3rver in
+ * tests/lib/storage/object-store.test.ts.
  */
 export interface ObjectStore {
   readonly kind: 'local' | 's3';
