@@ -60,6 +60,7 @@ export default defineConfig({
           ],
           setupFiles: ['tests/helpers/api-setup.ts'],
           globalSetup: ['tests/helpers/pg-global-setup.ts'],
+          env: { STEERWISE_TEST_ON_PG: '1' },
         },
       },
       {

@@ -20,9 +20,14 @@ import { browserHeaders, json, params, req, userOf } from '../helpers/api';
 
 // Many writers at once in one process is the Postgres deployment's case; the embedded SQLite server
 // serialises writers on its file lock (its rate-limit and link tests are in their own files).
-const onPostgres = Boolean(process.env.STEERWISE_TEST_PG_URL);
+const onPostgres = process.env.STEERWISE_TEST_ON_PG === '1';
 
 describe('concurrent writers', () => {
+  it('runs on the database its project names (api: SQLite, api-pg: Postgres)', async () => {
+    const db = await getDb();
+    expect(db.getDialect()).toBe(onPostgres ? 'postgres' : 'sqlite');
+  });
+
   it('eight simultaneous saves of one array give revisions 2…9, each once, and the counter ends at 9', async () => {
     const created = await arrays.POST(
       req('POST', '/api/v1/arrays', {

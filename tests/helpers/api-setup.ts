@@ -23,7 +23,10 @@ delete process.env.SMTP_HOST;
 // The demo bearing–time record (lib/demo/bearing-time.ts) takes seconds to simulate and analyse: only tests that need it seed it.
 process.env.STEERWISE_SEED_BTR ??= '0';
 
-const pgBase = process.env.STEERWISE_TEST_PG_URL;
+// Only the api-pg project (its `env` in vitest.config.mts) uses the cluster: in a run of every project the
+// cluster's URL is in every worker's environment, and the api project must stay on SQLite.
+const pgBase = process.env.STEERWISE_TEST_ON_PG === '1' ? process.env.STEERWISE_TEST_PG_URL : undefined;
+if (!pgBase) delete process.env.DATABASE_URL;
 let pgName: string | undefined;
 
 beforeAll(async () => {
