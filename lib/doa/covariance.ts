@@ -47,6 +47,8 @@ export class CovarianceAccumulator {
   /** Block buffer, element-major: element i, snapshot t real part at 2b·i + t, imaginary part at 2b·i + b + t. */
   private readonly buf: Float64Array;
   private fill = 0;
+  /** Columns of the block copied by addSnapshots and not yet checked for finite values. */
+  private pending: { column: number; count: number; first: number; rows?: boolean }[] = [];
   /** Sums of the current chunk (upper triangle, padded p × p). */
   private readonly chunkRe: Float64Array;
   private readonly chunkIm: Float64Array;
@@ -75,6 +77,18 @@ export class CovarianceAccumulator {
     this.chunkIm = new Float64Array(this.padded * this.padded);
   }
 
+  /** Empties the accumulator (buffers are kept), as if it had just been made. */
+  reset(): void {
+    this.fill = 0;
+    this.pending = [];
+    this.chunkRe.fill(0);
+    this.chunkIm.fill(0);
+    this.chunkFill = 0;
+    this.sumRe.fill(0);
+    this.sumIm.fill(0);
+    this.total = 0;
+  }
+
   /** Room left in the current block before a flush is due (block full or chunk complete). */
   private room(): number {
     return Math.min(this.blockSize - this.fill, COVARIANCE_CHUNK - this.chunkFill - this.fill);
@@ -98,36 +112,28 @@ export class CovarianceAccumulator {
     }
     const m = this.elements;
     const b = this.stride;
-    const buf = this.buf;
     const re = rows.re;
     const im = rows.im;
-    const first = range?.start ?? 0;
+    let start = range?.start ?? 0;
     const last = range?.end ?? rows.rows;
-    for (let n = first; n < last; n++) {
-      const src = n * m;
+    while (start < last) {
+      const take = Math.min(this.room(), last - start);
+      const buf = this.buf;
       const col = this.fill;
-      // v·0 is 0 for finite v and NaN otherwise: one cheap test per row, the slow scan only on failure
-      let probe = 0;
-      for (let i = 0; i < m; i++) {
-        const xr = re[src + i];
-        const xi = im[src + i];
-        probe += xr * 0 + xi * 0;
-        buf[i * 2 * b + col] = xr;
-        buf[i * 2 * b + b + col] = xi;
-      }
-      if (probe !== 0) {
-        for (let i = 0; i < m; i++) {
-          const xr = re[src + i];
-          const xi = im[src + i];
-          if (!Number.isFinite(xr) || !Number.isFinite(xi)) {
-            throw new DoaInputError(
-              'not-finite',
-              `snapshot row ${n} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`,
-            );
-          }
+      // Row by row: contiguous reads, writes 2b apart. The finite check waits for
+      // the flush, as in addSnapshots.
+      const b2 = 2 * b;
+      for (let t = 0; t < take; t++) {
+        const src = (start + t) * m;
+        let dst = col + t;
+        for (let i = 0; i < m; i++, dst += b2) {
+          buf[dst] = re[src + i];
+          buf[dst + b] = im[src + i];
         }
       }
-      this.fill++;
+      this.pending.push({ column: col, count: take, first: start, rows: true });
+      this.fill += take;
+      start += take;
       if (this.room() === 0) this.flush();
     }
   }
@@ -150,36 +156,62 @@ export class CovarianceAccumulator {
     let start = range?.start ?? 0;
     while (start < n) {
       const take = Math.min(this.room(), n - start);
+      // Plain copies (no per-value JavaScript, so no JIT warm-up); the finite check waits
+      // for the block's diagonal sums (flush), which are non-finite exactly when a copied
+      // value is (or when the sums overflow, which the scan then tells apart).
+      const buf = this.buf;
+      const dst0 = this.fill;
       for (let i = 0; i < m; i++) {
         const src = i * stride + start;
-        const dst = 2 * i * b + this.fill;
-        const buf = this.buf;
-        const re = x.re;
-        const im = x.im;
-        let probe = 0;
-        for (let t = 0; t < take; t++) {
-          const xr = re[src + t];
-          const xi = im[src + t];
-          probe += xr * 0 + xi * 0;
-          buf[dst + t] = xr;
-          buf[dst + b + t] = xi;
-        }
-        if (probe !== 0) {
-          for (let t = 0; t < take; t++) {
-            const xr = re[src + t];
-            const xi = im[src + t];
+        const dst = 2 * i * b + dst0;
+        buf.set(x.re.subarray(src, src + take), dst);
+        buf.set(x.im.subarray(src, src + take), dst + b);
+      }
+      this.pending.push({ column: dst0, count: take, first: start });
+      this.fill += take;
+      start += take;
+      if (this.room() === 0) this.flush();
+    }
+  }
+
+  /**
+   * Throws for the first non-finite value among the block's unchecked columns, segment by
+   * segment in the order they were added (row by row for addRows, element by element for
+   * addSnapshots), as the copy-time checks used to.
+   */
+  private throwIfNotFinite(): void {
+    const b = this.stride;
+    const buf = this.buf;
+    for (const seg of this.pending) {
+      if (seg.rows) {
+        // file layout: the first bad value row by row, as the rows were read
+        for (let t = 0; t < seg.count; t++) {
+          for (let i = 0; i < this.elements; i++) {
+            const xr = buf[2 * i * b + seg.column + t];
+            const xi = buf[2 * i * b + b + seg.column + t];
             if (!Number.isFinite(xr) || !Number.isFinite(xi)) {
               throw new DoaInputError(
                 'not-finite',
-                `snapshot ${start + t} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`,
+                `snapshot row ${seg.first + t} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`,
               );
             }
           }
         }
+        continue;
       }
-      this.fill += take;
-      start += take;
-      if (this.room() === 0) this.flush();
+      for (let i = 0; i < this.elements; i++) {
+        const o = 2 * i * b + seg.column;
+        for (let t = 0; t < seg.count; t++) {
+          const xr = buf[o + t];
+          const xi = buf[o + b + t];
+          if (!Number.isFinite(xr) || !Number.isFinite(xi)) {
+            throw new DoaInputError(
+              'not-finite',
+              `snapshot ${seg.first + t} (0-based), element ${i}: ${Number.isFinite(xr) ? xi : xr} is not a finite number`,
+            );
+          }
+        }
+      }
     }
   }
 
@@ -233,6 +265,12 @@ export class CovarianceAccumulator {
     }
     const { sums, at } = blockTileSums(buf, p, b, even);
     const pp = p * p;
+    if (this.pending.length > 0) {
+      let diagonal = 0;
+      for (let i = 0; i < this.elements; i++) diagonal += sums[at + i * p + i] * 0;
+      if (diagonal !== 0) this.throwIfNotFinite();
+      this.pending = [];
+    }
     for (let i = 0; i < p; i += 2) {
       for (let k = i; k < p; k += 2) {
         const e = i * p + k;
@@ -292,23 +330,32 @@ export function covarianceChunkCount(snapshots: number): number {
  * for each chunk, the padded p × p (p = M rounded up to even) upper-triangle sums
  * Σ x_i·conj(x_k), real parts then imaginary parts, concatenated chunk after chunk
  * (2·p² values per chunk). `layout` 'rows' is N × M (file layout), 'snapshots' M × N.
+ * `into`, when given, receives them (it must hold exactly that many values; a worker thread
+ * writes them straight into shared memory that way) and is returned.
  */
 export function covarianceChunkSums(
   x: ComplexMatrix,
   layout: 'rows' | 'snapshots',
   firstChunk: number,
   chunkCount: number,
+  into?: Float64Array,
 ): Float64Array {
   const m = layout === 'rows' ? x.cols : x.rows;
   const n = layout === 'rows' ? x.rows : x.cols;
   const p = m + (m % 2);
-  const out = new Float64Array(chunkCount * 2 * p * p);
+  if (into && into.length !== chunkCount * 2 * p * p) {
+    throw new DoaInputError(
+      'bad-size',
+      `covarianceChunkSums: the output holds ${into.length} values, ${chunkCount * 2 * p * p} needed`,
+    );
+  }
+  const out = into ?? new Float64Array(chunkCount * 2 * p * p);
   for (let c = 0; c < chunkCount; c++) {
     const start = (firstChunk + c) * COVARIANCE_CHUNK;
     const end = Math.min(n, start + COVARIANCE_CHUNK);
     if (start >= end)
       throw new DoaInputError('bad-size', `covariance chunk ${firstChunk + c} is beyond the ${n} snapshots`);
-    const one = new CovarianceAccumulator(m);
+    const one = reusableAccumulator(m);
     if (layout === 'rows') one.addRows(x, { start, end });
     else one.addSnapshots(x, { start, end });
     const sums = one.singleChunkSums();
@@ -346,16 +393,34 @@ export function covarianceFromChunkSums(elements: number, snapshots: number, par
 
 /** R = X·Xᴴ/N for an M × N snapshot matrix. */
 export function sampleCovariance(x: ComplexMatrix): ComplexMatrix {
-  const acc = new CovarianceAccumulator(x.rows);
+  const acc = reusableAccumulator(x.rows);
   acc.addSnapshots(x);
   return acc.covariance();
 }
 
 /** R = X·Xᴴ/N for file-layout rows (N × M, one snapshot per row; X is their transpose). */
 export function sampleCovarianceFromRows(rows: ComplexMatrix): ComplexMatrix {
-  const acc = new CovarianceAccumulator(rows.cols);
+  const acc = reusableAccumulator(rows.cols);
   acc.addRows(rows);
   return acc.covariance();
+}
+
+// Accumulators kept for the synchronous helpers above, one per element count (a few
+// counts at most). A fresh accumulator means fresh buffers of a few hundred kilobytes;
+// allocations of that size come straight from the operating system, page faults and
+// zeroing included, which doubled the time of a chunk of 64 × 1024 snapshots.
+const spare = new Map<number, CovarianceAccumulator>();
+
+function reusableAccumulator(elements: number): CovarianceAccumulator {
+  let acc = spare.get(elements);
+  if (acc) {
+    acc.reset();
+    return acc;
+  }
+  acc = new CovarianceAccumulator(elements);
+  if (spare.size >= 4) spare.delete(spare.keys().next().value as number);
+  spare.set(elements, acc);
+  return acc;
 }
 
 /**

@@ -84,10 +84,21 @@ function pool(): Promise<Piscina> {
 
 /**
  * Starts the pool's threads now (server start), so that the first job does not wait for
- * them to load the worker bundle. A failure is left to the first runCompute to report.
+ * them to load the worker bundle, and gives each a short warm-up task (lib/jobs/compute.ts
+ * warmUp: the covariance and EVD paths compiled by the optimising tiers, about 0.1 s). One
+ * task per thread at once: an idle pool hands them to different threads. A failure is left
+ * to the first runCompute to report.
  */
 export function warmPool(): void {
-  pool().catch(() => {});
+  pool()
+    .then((p) =>
+      Promise.all(
+        Array.from({ length: poolSize() }, () =>
+          p.run({ task: 'warm-up', input: {}, progress: new SharedArrayBuffer(4) }),
+        ),
+      ),
+    )
+    .catch(() => {});
 }
 
 export interface ComputeOptions {

@@ -5,8 +5,9 @@
  * The snapshots sit in SharedArrayBuffers (no copy per thread). The chunks of the
  * fixed summation order (COVARIANCE_CHUNK = 1024 snapshots each, lib/doa/covariance.ts)
  * are split into one contiguous range per thread; each thread returns the raw sums
- * of its chunks one by one (task 'covariance.chunks', lib/jobs/compute.ts), and
- * this thread adds them in chunk order. No server-only imports: the benchmark
+ * of its chunks one by one (task 'covariance.chunks', lib/jobs/compute.ts) into one
+ * shared output buffer (nothing is copied back through the message port), and this
+ * thread adds them in chunk order. No server-only imports: the benchmark
  * (scripts/bench.ts) drives its own Piscina pool through `run`.
  */
 import type { ComplexMatrix } from '../doa';
@@ -42,16 +43,39 @@ export async function pooledSampleCovariance(
   const snapshots = layout === 'rows' ? x.rows : x.cols;
   const chunks = covarianceChunkCount(snapshots);
   const parts = Math.max(1, Math.min(Math.floor(threads), chunks));
-  const calls: Promise<{ sums: Float64Array }>[] = [];
-  for (let t = 0; t < parts; t++) {
-    const first = Math.round((t * chunks) / parts);
-    const count = Math.round(((t + 1) * chunks) / parts) - first;
-    calls.push(run({ layout, rows: x.rows, cols: x.cols, re: x.re, im: x.im, firstChunk: first, chunkCount: count }));
+  const p = elements + (elements % 2);
+  const size = 2 * p * p;
+  const buffer = takeBuffer(chunks * size);
+  try {
+    const all = new Float64Array(buffer, 0, chunks * size);
+    const calls: Promise<{ sums: Float64Array }>[] = [];
+    for (let t = 0; t < parts; t++) {
+      const first = Math.round((t * chunks) / parts);
+      const count = Math.round(((t + 1) * chunks) / parts) - first;
+      const out = all.subarray(first * size, (first + count) * size);
+      calls.push(
+        run({ layout, rows: x.rows, cols: x.cols, re: x.re, im: x.im, firstChunk: first, chunkCount: count, out }),
+      );
+    }
+    await Promise.all(calls); // each wrote its chunks into `all`
+    return covarianceFromChunkSums(elements, snapshots, [all]);
+  } finally {
+    giveBack(buffer);
   }
-  const answers = await Promise.all(calls);
-  return covarianceFromChunkSums(
-    elements,
-    snapshots,
-    answers.map((a) => a.sums),
-  );
+}
+
+// Output buffers kept between calls (a few at most): a fresh SharedArrayBuffer of some
+// hundreds of kilobytes costs page faults in every thread that writes it. Concurrent
+// calls each take their own.
+const spareBuffers: SharedArrayBuffer[] = [];
+
+function takeBuffer(values: number): SharedArrayBuffer {
+  const i = spareBuffers.findIndex((b) => b.byteLength >= 8 * values);
+  if (i >= 0) return spareBuffers.splice(i, 1)[0];
+  return new SharedArrayBuffer(8 * values);
+}
+
+function giveBack(buffer: SharedArrayBuffer): void {
+  if (spareBuffers.length >= 4) spareBuffers.shift();
+  spareBuffers.push(buffer);
 }

@@ -115,7 +115,66 @@ describe('sample covariance', () => {
     expect(() => new CovarianceAccumulator(3).covariance()).toThrow(/no snapshots/);
     expect(() => new CovarianceAccumulator(3).addRows(rows)).toThrow(/7 columns but the array has 3/);
   });
+
+  // The copies into the block buffer are plain; the check runs on each block's diagonal sums,
+  // so it must still name the first bad value in reading order, in any block, in both layouts.
+  it('names the first non-finite value in reading order, in any block and either layout', () => {
+    const m = 5;
+    const n = 3 * COVARIANCE_CHUNK + 17;
+    const big = simulateSnapshots({
+      elements: m,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [10],
+      noisePower: 1,
+      snapshots: n,
+      seed: 3,
+    });
+    const bigRows = transpose(big);
+    const snaps = clone(big);
+    snaps.re[2 * n + 2500] = Infinity; // element 2, snapshot 2500
+    snaps.im[4 * n + 2400] = NaN; // element 4, snapshot 2400: earlier in time, later element
+    expect(() => sampleCovariance(snaps)).toThrow(/snapshot 2500 \(0-based\), element 2: Infinity/);
+    const rowsBad = clone(bigRows);
+    rowsBad.re[2500 * m + 2] = -Infinity;
+    rowsBad.im[2400 * m + 4] = NaN;
+    expect(() => sampleCovarianceFromRows(rowsBad)).toThrow(/row 2400 \(0-based\), element 4: NaN/);
+    // in the last, partial block as well
+    const tail = clone(bigRows);
+    tail.re[(n - 1) * m] = NaN;
+    expect(() => sampleCovarianceFromRows(tail)).toThrow(new RegExp(`row ${n - 1} \\(0-based\\), element 0`));
+    // the helpers reuse their buffers: after an error the next call is clean
+    expect(sampleCovarianceFromRows(bigRows).re).toEqual(sampleCovariance(big).re);
+  });
+
+  it('lets finite values whose sums overflow through (no false alarm)', () => {
+    const rows = { rows: 4, cols: 2, re: Float64Array.from([1e200, 1, 1e200, 1, 1, 1, 1, 1]), im: new Float64Array(8) };
+    const r = sampleCovarianceFromRows(rows);
+    expect(r.re[0]).toBe(Infinity);
+    expect(r.re[3]).toBe(1);
+  });
+
+  it('gives each call its own answer although the helpers reuse buffers', () => {
+    const other = simulateSnapshots({
+      elements: 7,
+      spacingWavelengths: 0.5,
+      bearingsDeg: [-40],
+      noisePower: 2,
+      snapshots: 900,
+      seed: 8,
+    });
+    const first = sampleCovariance(x);
+    const second = sampleCovariance(other);
+    expect(sampleCovariance(x)).toEqual(first);
+    expect(second).toEqual(sampleCovarianceFresh(other));
+  });
 });
+
+/** R from an accumulator of its own (no shared buffers). */
+function sampleCovarianceFresh(a: ComplexMatrix): ComplexMatrix {
+  const acc = new CovarianceAccumulator(a.rows);
+  acc.addSnapshots(a);
+  return acc.covariance();
+}
 
 describe('fixed summation order: chunk sums (bit for bit, whatever the split)', () => {
   // N = 2·C + 904 snapshots (C = COVARIANCE_CHUNK = 1024): chunks of C, C and 904; M = 7 (odd, padded) and 16.

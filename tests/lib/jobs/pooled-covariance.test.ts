@@ -69,3 +69,12 @@ describe('pooled sample covariance', () => {
     ).toThrow(/sampleCovariance is 2 × 2, not 9 × 9/);
   });
 });
+
+describe('the warm-up task a pool thread runs at start', () => {
+  it('runs the covariance and EVD paths and names the kernel', async () => {
+    const answer = await compute('warm-up', { rounds: 2 }, () => {});
+    // Node 20 has WebAssembly SIMD, so the kernel is the compiled one (covariance-kernel.ts).
+    expect(answer.kernel).toBe('wasm');
+    expect(answer.ms).toBeGreaterThan(0);
+  });
+});
