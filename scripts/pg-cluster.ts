@@ -82,7 +82,8 @@ export async function startPgCluster({ database = 'steerwise' }: { database?: st
     '-w',
     '-o',
     // Throwaway: no fsync; socket in the temp folder; enough connections for several processes' pools.
-    `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=200`,
+    // STEERWISE_PG_OPTIONS adds server settings (diagnostics, e.g. "-c log_min_duration_statement=5").
+    `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=200 ${process.env.STEERWISE_PG_OPTIONS ?? ''}`.trim(),
     'start',
   ]);
   const base = `postgres://${encodeURIComponent(user)}@127.0.0.1:${port}`;
@@ -99,6 +100,8 @@ export async function startPgCluster({ database = 'steerwise' }: { database?: st
     createDatabase,
     stop: async () => {
       await run(path.join(bin, 'pg_ctl'), ['-D', data, '-m', 'immediate', '-w', 'stop']).catch(() => undefined);
+      // STEERWISE_PG_KEEP_LOG=<file>: keep the server log (diagnostics) before the cluster is removed.
+      if (process.env.STEERWISE_PG_KEEP_LOG) fs.copyFileSync(path.join(dir, 'log'), process.env.STEERWISE_PG_KEEP_LOG);
       fs.rmSync(dir, { recursive: true, force: true });
     },
   };

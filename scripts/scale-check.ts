@@ -18,7 +18,10 @@
  * run here in-process, on the stored inputs, one job after the other. Prints JSON lines
  * {"case":"scale-workers","workers":1|2,"jobsPerSecond":…} and {"case":"scale-kill","lost":…,"duplicated":…}.
  *
- * Needs `npm run build` first (it runs it when .next/BUILD_ID is missing). Options: --per-phase N (default 60).
+ * Needs `npm run build` first (it runs it when .next/BUILD_ID is missing or older than the sources). Options:
+ * --per-phase N (default 60); --s3 (the S3 fake as the file store); --throughput-only (no kill test);
+ * --no-build (keep the build as it is: for experiments on the worker side). Each throughput line carries
+ * the CPU per job of each process group (cpuPerJobMs), to show where a phase's time goes.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
@@ -237,6 +240,48 @@ async function stopChild(child: ChildProcess, signal: NodeJS.Signals = 'SIGTERM'
   await Promise.race([exited, sleep(70_000)]);
 }
 
+/**
+ * CPU seconds used so far by each group of processes (Linux /proc): every process under a given child
+ * (workers, web processes) by that child's group name, the PostgreSQL server processes as 'postgres',
+ * this script as 'check'. Processes that have exited are not counted (the pg backends are pooled).
+ */
+function cpuByGroup(groups: Map<number, string>): Record<string, number> {
+  const out: Record<string, number> = {};
+  if (process.platform !== 'linux') return out;
+  const tick = 100; // USER_HZ on Linux
+  const info = new Map<number, { ppid: number; comm: string; cpu: number }>();
+  for (const entry of fs.readdirSync('/proc')) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const stat = fs.readFileSync(`/proc/${entry}/stat`, 'utf8');
+      const close = stat.lastIndexOf(')');
+      const comm = stat.slice(stat.indexOf('(') + 1, close);
+      const f = stat.slice(close + 2).split(' '); // f[0] is field 3 (state)
+      info.set(Number(entry), { ppid: Number(f[1]), comm, cpu: (Number(f[11]) + Number(f[12])) / tick });
+    } catch {
+      // exited meanwhile
+    }
+  }
+  for (const [pid, p] of info) {
+    let group: string | undefined;
+    if (p.comm === 'postgres') group = 'postgres';
+    else if (pid === process.pid) group = 'check';
+    else
+      for (let at: number | undefined = pid, hops = 0; at && hops < 12; at = info.get(at)?.ppid, hops++) {
+        group = groups.get(at);
+        if (group) break;
+      }
+    if (group) out[group] = (out[group] ?? 0) + p.cpu;
+  }
+  return out;
+}
+
+function cpuSince(before: Record<string, number>, after: Record<string, number>, jobs: number) {
+  const perJobMs: Record<string, number> = {};
+  for (const k of Object.keys(after)) perJobMs[k] = Number(((1000 * (after[k] - (before[k] ?? 0))) / jobs).toFixed(1));
+  return perJobMs;
+}
+
 async function main() {
   // Build when there is no build or the sources changed since (the web processes run the built app).
   const newest = (dir: string): number =>
@@ -247,9 +292,11 @@ async function main() {
   // next.config.mjs and package.json count too: the --s3 mode's 500s came from a build made before the AWS SDK
   // was kept out of the server bundle (next.config.mjs), which the check did not see as stale.
   const configs = ['next.config.mjs', 'package.json'].map((f) => fs.statSync(path.join(root, f)).mtimeMs);
+  // --no-build: use the build as it is (experiments on the worker side only; the web processes then run older code).
   const stale =
-    !fs.existsSync(buildId) ||
-    Math.max(newest('lib'), newest('app'), newest('models'), ...configs) > fs.statSync(buildId).mtimeMs;
+    !args.includes('--no-build') &&
+    (!fs.existsSync(buildId) ||
+      Math.max(newest('lib'), newest('app'), newest('models'), ...configs) > fs.statSync(buildId).mtimeMs);
   if (stale) {
     console.error('scale:check: building the app (npm run build)…');
     const b = spawnSync('npm', ['run', 'build'], { cwd: root, stdio: 'inherit' });
@@ -299,6 +346,7 @@ async function main() {
     ).trim();
 
     const webs: string[] = [];
+    const webChildren: ChildProcess[] = [];
     for (let i = 0; i < 2; i++) {
       const port = await freePort();
       const child = spawnLogged(
@@ -314,6 +362,7 @@ async function main() {
       );
       const base = `http://127.0.0.1:${port}`;
       webs.push(base);
+      webChildren.push(child);
       await waitFor(
         `web process ${i + 1}`,
         async () => child.exitCode === null && (await fetch(`${base}/api/health`)).ok,
@@ -355,7 +404,13 @@ async function main() {
         env,
         Array.from({ length: workers }, (_, k) => `worker${k + 1}`),
       );
+      const groups = new Map<number, string>([
+        ...webChildren.map((c) => [c.pid!, 'web'] as [number, string]),
+        ...ws.map((c) => [c.pid!, 'worker'] as [number, string]),
+      ]);
+      const cpuBefore = cpuByGroup(groups);
       const rows = await waitFor('the estimates', () => allEnded(client, 'estimate', ids), 600_000);
+      const cpuPerJobMs = cpuSince(cpuBefore, cpuByGroup(groups), ids.length);
       rates[workers] = throughput(rows);
       console.log(
         JSON.stringify({
@@ -365,9 +420,27 @@ async function main() {
           jobs: ids.length,
           threadsPerWorker: 1,
           loadAverage: load,
+          // CPU per job by process group over the phase (workers, web processes, PostgreSQL, this script)
+          cpuPerJobMs,
         }),
       );
       await Promise.all(ws.map((w) => stopChild(w)));
+    }
+
+    const ratioLine = () =>
+      console.log(
+        JSON.stringify({
+          case: 'scale-ratio',
+          ratio: Number((rates[2] / rates[1]).toFixed(3)),
+          goal: 1.7,
+          cores: os.availableParallelism(),
+        }),
+      );
+    // --throughput-only: the two throughput phases without the kill test (experiments).
+    if (args.includes('--throughput-only')) {
+      ratioLine();
+      await client.end();
+      return;
     }
 
     // Kill test: the rest of the estimates and the studies, one of two workers killed mid-way.
@@ -506,14 +579,7 @@ async function main() {
         mismatched,
       }),
     );
-    console.log(
-      JSON.stringify({
-        case: 'scale-ratio',
-        ratio: Number((rates[2] / rates[1]).toFixed(3)),
-        goal: 1.7,
-        cores: os.availableParallelism(),
-      }),
-    );
+    ratioLine();
     if (lost || duplicated || mismatched) process.exitCode = 1;
   } catch (err) {
     console.error('scale:check failed:', err);
