@@ -70,6 +70,10 @@ describe('compact stored run results', () => {
       for (const r of results) {
         const stored = JSON.parse(JSON.stringify(compactStoredResult(r)));
         expect(stored.criteria.mdl).toBeUndefined();
+        if (r.spectrum) {
+          expect(stored.spectrum.valuesDb).toBeUndefined();
+          expect(typeof stored.spectrum.valuesF64).toBe('string');
+        }
         if (r.uncertainty) expect(stored.uncertainty.ci95Deg).toBeUndefined();
         const back = expandStoredResult(stored);
         expect(back).toEqual(JSON.parse(JSON.stringify(r)));
@@ -79,4 +83,21 @@ describe('compact stored run results', () => {
       }
     });
   }
+});
+
+describe('stored spectra', () => {
+  it('keep null (non-finite) values, signed zeros and extremes exactly', () => {
+    const valuesDb = [0, -0, null, -300.5, 1e-310, Number.MAX_VALUE, -12.345678901234567, null];
+    const r = {
+      method: 'mvdr',
+      criteria: { logLikelihood: [], snapshotsUsed: 10 },
+      uncertainty: null,
+      spectrum: { kind: 'mvdr', startDeg: -90, stepDeg: 0.01, valuesDb },
+    } as unknown as Parameters<typeof compactStoredResult>[0];
+    const stored = JSON.parse(JSON.stringify(compactStoredResult(r)));
+    expect(stored.spectrum.valuesF64.length).toBe(Math.ceil((8 * valuesDb.length) / 3) * 4);
+    const back = expandStoredResult(stored).spectrum!.valuesDb;
+    expect(back).toEqual(valuesDb);
+    expect(Object.is(back[1], -0)).toBe(true);
+  });
 });
