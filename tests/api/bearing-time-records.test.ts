@@ -232,7 +232,54 @@ describe('Stop and DELETE', () => {
     expect(fs.existsSync(folder)).toBe(false);
     expect((await get('engineer', id)).status).toBe(404);
   }, 60_000);
+
+  it('DELETE at any moment of a run, four at once (queued, mid-blocks, while files are written): 204 each, nothing left', async () => {
+    // Four records deleted together while their jobs claim, report and finish: every delete's
+    // transaction meets other writers (on SQLite a deferred transaction failed here with SQLITE_BUSY).
+    const ids: number[] = [];
+    const failures: string[] = [];
+    for (let round = 0; round < 10; round++) {
+      const batch: number[] = [];
+      for (let k = 0; k < 4; k++) {
+        const created = await post('engineer', tinyBtrBody(datasetId));
+        expect(created.status).toBe(202);
+        batch.push(created.body.id as number);
+      }
+      ids.push(...batch);
+      await new Promise((r) => setTimeout(r, round * 10)); // 0 … 90 ms after the creates
+      const statuses = await Promise.all(
+        batch.map(async (id) => {
+          const res = await byId.DELETE(
+            req('DELETE', `${BASE}/${id}`, { headers: await browserHeaders('engineer') }),
+            params({ id: String(id) }),
+          );
+          return res.status === 204
+            ? null
+            : `record ${id}, ${round * 10} ms: ${res.status} ${JSON.stringify(await json(res))}`;
+        }),
+      );
+      failures.push(...statuses.filter((s): s is string => s !== null));
+    }
+    expect(failures).toEqual([]);
+    // A job may still be finishing a share; once each has ended nothing of any record is left.
+    for (const id of ids) await waitForJobEnd(id);
+    for (const id of ids) {
+      expect(fs.existsSync(folderOf(teamId, id)), `folder of record ${id}`).toBe(false);
+      expect(await BearingTimeRecord.count({ where: { id } })).toBe(0);
+    }
+  }, 120_000);
 });
+
+async function waitForJobEnd(recordId: number): Promise<void> {
+  for (let t = 0; t < 200; t++) {
+    const open = await Job.count({
+      where: { kind: 'bearing-time-record', inputRef: String(recordId), status: ['queued', 'running'] },
+    });
+    if (open === 0) return;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error(`the job of record ${recordId} did not end`);
+}
 
 describe('hostile and odd recordings: a clear 4xx naming the field, nothing stored', () => {
   let before: { rows: number; jobs: number; files: string[] };
