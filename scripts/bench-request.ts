@@ -3,7 +3,7 @@
  * M = 16, N = 1000, two sources, LS-ESPRIT, no spectrum), measured in-process
  * on a temporary migrated and seeded database:
  *
- *   npx tsx scripts/bench-request.ts [--json] [--n 40]
+ *   npx tsx scripts/bench-request.ts [--json] [--n 40] [--keep]
  *
  * Phases (median over the runs after a warm-up): JSON.parse of the body, zod
  * validation, both together in a worker thread as the route does it (parseInWorker, the web
@@ -11,7 +11,9 @@
  * submitEstimate (an inline run the client waits for: compute in the worker, then run, done
  * job and audit event in one transaction), the compute alone in the worker (runCompute), and shaping the
  * answer (JSON.stringify of the §7 body). Then 200 more runs of the same body give the
- * database growth per run (`dbBytesPerRun`, the snapshot set being stored already).
+ * database growth per run (`dbBytesPerRun`, the snapshot set being stored already) and
+ * its split over tables and indexes (`bytesPerRunByObject`, SQLite's dbstat view). `--keep`
+ * leaves the temporary data folder in place to look at the rows.
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -99,6 +101,7 @@ async function main() {
   };
   const input = estimateRequestSchema.parse(JSON.parse(text));
   const sizeBefore = await dbSize();
+  const before = await bytesByObject(db).catch(() => null);
   const growthRuns = 200;
   for (let i = 0; i < growthRuns; i++) await submitEstimate({ caller, input, wait: true });
   const dbBytesPerRun = Math.round(((await dbSize()) - sizeBefore) / growthRuns);
@@ -108,6 +111,16 @@ async function main() {
        (SELECT length(detail) + length(action) + length(coalesce(target, '')) FROM audit_events ORDER BY id DESC LIMIT 1) AS audit
      FROM estimate_runs r ORDER BY r.id DESC LIMIT 1`,
   )) as [Record<string, number>[], unknown];
+  // Where the growth is, by table and index (SQLite's dbstat view, when compiled in): bytes per run.
+  const perObject = await bytesByObject(db).catch(() => null);
+  const byObject =
+    perObject && before
+      ? Object.fromEntries(
+          Object.entries(perObject)
+            .map(([k, v]) => [k, Math.round((v - (before[k] ?? 0)) / growthRuns)] as const)
+            .filter(([, v]) => v > 0),
+        )
+      : null;
   const median = (a: number[]) => [...a].sort((p, q) => p - q)[Math.floor(a.length / 2)];
   const out = Object.fromEntries(Object.entries(t).map(([k, v]) => [`${k}Ms`, Math.round(median(v) * 100) / 100]));
   console.log(
@@ -119,13 +132,23 @@ async function main() {
           ...out,
           dbBytesPerRun,
           lastRunChars: sizes,
+          ...(byObject ? { bytesPerRunByObject: byObject } : {}),
         })
-      : { ...out, dbBytesPerRun, lastRunChars: sizes },
+      : { ...out, dbBytesPerRun, lastRunChars: sizes, bytesPerRunByObject: byObject },
   );
   await stopJobRunner();
   await closePool();
-  fs.rmSync(dir, { recursive: true, force: true });
+  if (args.includes('--keep')) console.error(`kept ${dir}`);
+  else fs.rmSync(dir, { recursive: true, force: true });
   process.exit(0);
+}
+
+async function bytesByObject(db: import('sequelize').Sequelize): Promise<Record<string, number>> {
+  const [rows] = (await db.query('SELECT name, SUM(pgsize) AS bytes FROM dbstat GROUP BY name')) as [
+    { name: string; bytes: number }[],
+    unknown,
+  ];
+  return Object.fromEntries(rows.map((r) => [r.name, Number(r.bytes)]));
 }
 
 main().catch((err) => {

@@ -16,7 +16,7 @@ import { blockCount, planWideband, WidebandInputError, type WidebandOptions } fr
 import { BTR_DEFAULTS, type BearingTimeRecordRequest } from '../validations/bearing-time-record';
 import { datasetErrorToApi, findTeamArrayRevision } from './datasets';
 import { resolveStoragePath } from '../storage/files';
-import { ensureLocalFile } from '../storage/shared';
+import { ensureLocalFile, storedBytes } from '../storage/shared';
 import { SOFTWARE_VERSION } from '../version';
 import {
   finishRecord,
@@ -216,8 +216,9 @@ export async function resolveBtrInputs(caller: Caller, input: BearingTimeRecordR
   let recording: BtrInputs['recording'];
   let blocks: number;
   try {
+    // Only the header is read here: on a shared store, by ranges (no download on the web process).
     const source = await openTimeSeries({
-      path: await ensureLocalFile(dataset.storagePath),
+      path: await storedBytes(dataset.storagePath),
       format,
       fileName: dataset.originalName,
       maxBytes: Math.max(maxUploadBytes(), Number(dataset.bytes)),

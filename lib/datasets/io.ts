@@ -6,6 +6,45 @@ import { DEFAULT_MAX_BYTES, DEFAULT_MAX_VALUES } from './types';
 
 export const CHUNK_BYTES = 1024 * 1024;
 
+/**
+ * Bytes that are not a local file: a stored object read by ranges (lib/storage/shared.ts,
+ * `storedBytes`). `read(start, end)` gives bytes [start, end), fewer only at the end.
+ * The header readers (wav.ts, npy.ts) and the time-series reader take either a path or this,
+ * so a process that needs a recording's header or a few blocks fetches only those bytes.
+ */
+export interface ByteRanges {
+  size: number;
+  read(start: number, end: number): Promise<Buffer>;
+}
+
+/** A local file's path, or a source of byte ranges. */
+export type ByteSource = string | ByteRanges;
+
+/** Up to `length` bytes from `start` (fewer at the end of the file). */
+export async function readBytes(source: ByteSource, start: number, length: number): Promise<Buffer> {
+  if (typeof source !== 'string') return source.read(start, start + length);
+  const fh = await fsp.open(source, 'r');
+  try {
+    const buf = Buffer.alloc(length);
+    const { bytesRead } = await fh.read(buf, 0, length, start);
+    return buf.subarray(0, bytesRead);
+  } finally {
+    await fh.close();
+  }
+}
+
+/** A stored object's size, with the same 413 as checkedFileSize. */
+export function checkedRangeSize(size: number, maxBytes = DEFAULT_MAX_BYTES): number {
+  if (size > maxBytes) {
+    throw new DatasetError(
+      413,
+      'file-too-large',
+      `the file is ${formatBytes(size)}; the limit is ${formatBytes(maxBytes)}`,
+    );
+  }
+  return size;
+}
+
 /** Size of the file; 413 when it exceeds maxBytes. */
 export async function checkedFileSize(options: ParseOptions): Promise<number> {
   const maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;

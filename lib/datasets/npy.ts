@@ -13,9 +13,9 @@
  * Memory: the header is read on its own (at most 1 MiB) and the data section
  * is streamed in 1 MiB chunks straight into the output arrays.
  */
-import { createReadStream, promises as fsp } from 'node:fs';
+import { createReadStream } from 'node:fs';
 import { invalid, quoteText, unsupported } from './errors';
-import { CHUNK_BYTES, checkValueCount, progressReporter, throwIfAborted } from './io';
+import { CHUNK_BYTES, checkValueCount, progressReporter, readBytes, throwIfAborted, type ByteSource } from './io';
 import type { ParseOptions, ParsedSnapshots } from './types';
 
 const MAGIC = [0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59]; // \x93NUMPY
@@ -112,97 +112,88 @@ class LiteralReader {
 }
 
 /** Reads and checks the NPY preamble and header. */
-export async function readNpyHeader(path: string, fileSize: number): Promise<NpyHeader> {
-  const fh = await fsp.open(path, 'r');
-  try {
-    const pre = Buffer.alloc(12);
-    const { bytesRead } = await fh.read(pre, 0, 12, 0);
-    for (let k = 0; k < MAGIC.length; k++) {
-      if (k >= bytesRead || pre[k] !== MAGIC[k]) {
-        if (bytesRead === 0) throw invalid('empty-file', 'the NPY file is empty');
-        if (k >= bytesRead) {
-          throw invalid('truncated', `the NPY file is cut short: ${bytesRead} bytes, not even the 6-byte magic string`);
-        }
-        throw invalid('bad-magic', "not an NPY file: it does not start with the NPY magic string '\\x93NUMPY'");
+export async function readNpyHeader(source: ByteSource, fileSize: number): Promise<NpyHeader> {
+  const pre = await readBytes(source, 0, 12);
+  const bytesRead = pre.length;
+  for (let k = 0; k < MAGIC.length; k++) {
+    if (k >= bytesRead || pre[k] !== MAGIC[k]) {
+      if (bytesRead === 0) throw invalid('empty-file', 'the NPY file is empty');
+      if (k >= bytesRead) {
+        throw invalid('truncated', `the NPY file is cut short: ${bytesRead} bytes, not even the 6-byte magic string`);
       }
+      throw invalid('bad-magic', "not an NPY file: it does not start with the NPY magic string '\\x93NUMPY'");
     }
-    if (bytesRead < 10)
-      throw invalid('truncated', `the NPY file is cut short: ${bytesRead} bytes, the preamble needs 10`);
-    const major = pre[6];
-    const minor = pre[7];
-    if (major < 1 || major > 3) {
-      throw unsupported(
-        'unsupported-format',
-        `NPY format version ${major}.${minor} is not supported: use versions 1.0 to 3.0`,
-      );
-    }
-    let headerLength: number;
-    let headerStart: number;
-    if (major === 1) {
-      headerLength = pre.readUInt16LE(8);
-      headerStart = 10;
-    } else {
-      if (bytesRead < 12)
-        throw invalid(
-          'truncated',
-          `the NPY file is cut short: ${bytesRead} bytes, the version ${major} preamble needs 12`,
-        );
-      headerLength = pre.readUInt32LE(8);
-      headerStart = 12;
-    }
-    if (headerLength > MAX_HEADER) {
-      throw invalid(
-        'bad-header',
-        `NPY header length ${headerLength} bytes is implausible (the limit is ${MAX_HEADER})`,
-      );
-    }
-    if (headerStart + headerLength > fileSize) {
+  }
+  if (bytesRead < 10)
+    throw invalid('truncated', `the NPY file is cut short: ${bytesRead} bytes, the preamble needs 10`);
+  const major = pre[6];
+  const minor = pre[7];
+  if (major < 1 || major > 3) {
+    throw unsupported(
+      'unsupported-format',
+      `NPY format version ${major}.${minor} is not supported: use versions 1.0 to 3.0`,
+    );
+  }
+  let headerLength: number;
+  let headerStart: number;
+  if (major === 1) {
+    headerLength = pre.readUInt16LE(8);
+    headerStart = 10;
+  } else {
+    if (bytesRead < 12)
       throw invalid(
         'truncated',
-        `the NPY header is cut short: it says ${headerLength} bytes, but the file ends ${fileSize - headerStart} bytes after the preamble`,
+        `the NPY file is cut short: ${bytesRead} bytes, the version ${major} preamble needs 12`,
       );
-    }
-    const raw = Buffer.alloc(headerLength);
-    await fh.read(raw, 0, headerLength, headerStart);
-    const text = raw.toString(major === 3 ? 'utf8' : 'latin1');
-    const parsed = new LiteralReader(text.trimEnd()).parseAll();
-    if (parsed === null || typeof parsed !== 'object' || Array.isArray(parsed)) {
-      throw invalid('bad-header', 'NPY header is not a dictionary');
-    }
-    const dict = parsed as { [key: string]: PyValue };
-    for (const key of ['descr', 'fortran_order', 'shape']) {
-      if (!(key in dict)) throw invalid('bad-header', `NPY header has no '${key}' entry`);
-    }
-    const descr = dict.descr;
-    if (typeof descr !== 'string') {
-      throw unsupported(
-        'unsupported-dtype',
-        'NPY dtype is a structured type, which is not supported: use complex64, complex128, float32 or float64',
-      );
-    }
-    if (!/^[<>|=](c8|c16|f4|f8)$/.test(descr)) {
-      throw unsupported(
-        'unsupported-dtype',
-        `NPY dtype ${quoteText(descr, 20)} is not supported: use complex64, complex128, float32 or float64`,
-      );
-    }
-    if (typeof dict.fortran_order !== 'boolean')
-      throw invalid('bad-header', "NPY header 'fortran_order' is not True or False");
-    const shape = dict.shape;
-    if (!Array.isArray(shape) || !shape.every((d) => typeof d === 'number' && Number.isSafeInteger(d) && d >= 0)) {
-      throw invalid('bad-header', "NPY header 'shape' is not a tuple of non-negative integers");
-    }
-    return {
-      major,
-      minor,
-      descr,
-      fortranOrder: dict.fortran_order,
-      shape: shape as number[],
-      dataOffset: headerStart + headerLength,
-    };
-  } finally {
-    await fh.close();
+    headerLength = pre.readUInt32LE(8);
+    headerStart = 12;
   }
+  if (headerLength > MAX_HEADER) {
+    throw invalid('bad-header', `NPY header length ${headerLength} bytes is implausible (the limit is ${MAX_HEADER})`);
+  }
+  if (headerStart + headerLength > fileSize) {
+    throw invalid(
+      'truncated',
+      `the NPY header is cut short: it says ${headerLength} bytes, but the file ends ${fileSize - headerStart} bytes after the preamble`,
+    );
+  }
+  const raw = await readBytes(source, headerStart, headerLength);
+  const text = raw.toString(major === 3 ? 'utf8' : 'latin1');
+  const parsed = new LiteralReader(text.trimEnd()).parseAll();
+  if (parsed === null || typeof parsed !== 'object' || Array.isArray(parsed)) {
+    throw invalid('bad-header', 'NPY header is not a dictionary');
+  }
+  const dict = parsed as { [key: string]: PyValue };
+  for (const key of ['descr', 'fortran_order', 'shape']) {
+    if (!(key in dict)) throw invalid('bad-header', `NPY header has no '${key}' entry`);
+  }
+  const descr = dict.descr;
+  if (typeof descr !== 'string') {
+    throw unsupported(
+      'unsupported-dtype',
+      'NPY dtype is a structured type, which is not supported: use complex64, complex128, float32 or float64',
+    );
+  }
+  if (!/^[<>|=](c8|c16|f4|f8)$/.test(descr)) {
+    throw unsupported(
+      'unsupported-dtype',
+      `NPY dtype ${quoteText(descr, 20)} is not supported: use complex64, complex128, float32 or float64`,
+    );
+  }
+  if (typeof dict.fortran_order !== 'boolean')
+    throw invalid('bad-header', "NPY header 'fortran_order' is not True or False");
+  const shape = dict.shape;
+  if (!Array.isArray(shape) || !shape.every((d) => typeof d === 'number' && Number.isSafeInteger(d) && d >= 0)) {
+    throw invalid('bad-header', "NPY header 'shape' is not a tuple of non-negative integers");
+  }
+  return {
+    major,
+    minor,
+    descr,
+    fortranOrder: dict.fortran_order,
+    shape: shape as number[],
+    dataOffset: headerStart + headerLength,
+  };
 }
 
 export async function parseNpyFile(options: ParseOptions, fileSize: number): Promise<ParsedSnapshots> {

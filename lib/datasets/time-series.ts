@@ -4,6 +4,8 @@
  * (lib/doa/wideband/source.ts) that hands out consecutive samples per channel
  * as float32, read from disk in pieces of about 1 MiB. Nothing holds the whole
  * recording: memory is one piece of raw bytes plus what the caller asks for.
+ * The recording may also be byte ranges of a stored object (io.ts ByteRanges):
+ * then only the header and the pieces asked for are fetched.
  *
  * WAV: the formats and header checks of wav.ts (readWavLayout, checkWavData,
  * decodeWavSamples): PCM 16/24/32-bit or float32, integer PCM scaled by
@@ -21,14 +23,15 @@
 import { promises as fsp } from 'node:fs';
 import type { SampleSource } from '../doa/wideband/source';
 import { DatasetError, invalid, unsupported } from './errors';
-import { CHUNK_BYTES, checkedFileSize } from './io';
+import { CHUNK_BYTES, checkedFileSize, checkedRangeSize, type ByteRanges, type ByteSource } from './io';
 import { readNpyHeader } from './npy';
 import { checkWavData, decodeWavSamples, readWavLayout } from './wav';
 
 export type TimeSeriesFormat = 'wav' | 'npy';
 
 export interface TimeSeriesOptions {
-  path: string;
+  /** The recording: a local file, or byte ranges of a stored object (only the bytes read are fetched). */
+  path: ByteSource;
   /** Default from the extension of fileName (or path): .wav or .npy. */
   format?: TimeSeriesFormat;
   fileName?: string;
@@ -54,7 +57,7 @@ function formatOf(options: TimeSeriesOptions): TimeSeriesFormat {
     }
     return options.format;
   }
-  const name = (options.fileName ?? options.path).toLowerCase();
+  const name = (options.fileName ?? (typeof options.path === 'string' ? options.path : '')).toLowerCase();
   if (name.endsWith('.wav')) return 'wav';
   if (name.endsWith('.npy')) return 'npy';
   throw new DatasetError(415, 'unsupported-format', 'a bearing–time record reads .wav or .npy recordings');
@@ -70,7 +73,7 @@ interface Layout {
   details: Record<string, unknown>;
 }
 
-async function wavLayout(path: string, size: number): Promise<Layout> {
+async function wavLayout(path: ByteSource, size: number): Promise<Layout> {
   const layout = await readWavLayout(path, size);
   checkWavData(layout, size);
   return {
@@ -91,7 +94,7 @@ async function wavLayout(path: string, size: number): Promise<Layout> {
   };
 }
 
-async function npyLayout(path: string, size: number, sampleRate: number | undefined): Promise<Layout> {
+async function npyLayout(path: ByteSource, size: number, sampleRate: number | undefined): Promise<Layout> {
   const h = await readNpyHeader(path, size);
   const code = h.descr.slice(1);
   if (code !== 'f4' && code !== 'f8') {
@@ -163,11 +166,15 @@ async function npyLayout(path: string, size: number, sampleRate: number | undefi
 /** Opens a stored recording as a SampleSource. Rejects with a DatasetError. */
 export async function openTimeSeries(options: TimeSeriesOptions): Promise<TimeSeriesSource> {
   const format = formatOf(options);
-  const size = await checkedFileSize({ path: options.path, maxBytes: options.maxBytes });
+  const size =
+    typeof options.path === 'string'
+      ? await checkedFileSize({ path: options.path, maxBytes: options.maxBytes })
+      : checkedRangeSize(options.path.size, options.maxBytes);
   if (size === 0) throw invalid('empty-file', `the ${format.toUpperCase()} file is empty`);
   const layout =
     format === 'wav' ? await wavLayout(options.path, size) : await npyLayout(options.path, size, options.sampleRate);
-  const fh = await fsp.open(options.path, 'r');
+  const source = options.path;
+  const fh = typeof source === 'string' ? await fsp.open(source, 'r') : null;
   const frame = layout.bytesPerFrame;
   const piece = Buffer.alloc(Math.max(frame, Math.floor(CHUNK_BYTES / frame) * frame));
   const perPiece = piece.length / frame;
@@ -186,7 +193,14 @@ export async function openTimeSeries(options: TimeSeriesOptions): Promise<TimeSe
       while (done < want) {
         const n = Math.min(perPiece, want - done);
         const bytes = n * frame;
-        const { bytesRead } = await fh.read(piece, 0, bytes, layout.dataStart + position * frame);
+        const start = layout.dataStart + position * frame;
+        let bytesRead: number;
+        if (fh) bytesRead = (await fh.read(piece, 0, bytes, start)).bytesRead;
+        else {
+          const got = await (source as ByteRanges).read(start, start + bytes);
+          got.copy(piece, 0, 0, Math.min(bytes, got.length));
+          bytesRead = got.length;
+        }
         if (bytesRead < bytes) {
           throw invalid(
             'truncated',
@@ -208,7 +222,7 @@ export async function openTimeSeries(options: TimeSeriesOptions): Promise<TimeSe
     async close() {
       if (closed) return;
       closed = true;
-      await fh.close();
+      await fh?.close();
     },
   };
 }

@@ -17,10 +17,10 @@
  * a missing, non-positive or above-Nyquist frequency, fewer samples than one
  * FFT length, a bad FFT length, hop or window, non-finite float samples.
  */
-import { createReadStream, promises as fsp } from 'node:fs';
+import { createReadStream } from 'node:fs';
 import { WaveFile } from 'wavefile';
 import { invalid, quoteText, unsupported } from './errors';
-import { CHUNK_BYTES, checkValueCount, progressReporter, throwIfAborted } from './io';
+import { CHUNK_BYTES, checkValueCount, progressReporter, readBytes, throwIfAborted, type ByteSource } from './io';
 import { NarrowbandStft, stftBin, stftFrameCount } from './stft';
 import type { ParseOptions, ParsedSnapshots, StftWindow } from './types';
 import { DEFAULT_FFT_LENGTH } from './types';
@@ -47,22 +47,16 @@ interface WavHeader {
   dataSize: number;
 }
 
-async function readPrefix(path: string, length: number): Promise<Uint8Array> {
-  const fh = await fsp.open(path, 'r');
-  try {
-    const buf = Buffer.alloc(length);
-    const { bytesRead } = await fh.read(buf, 0, length, 0);
-    return new Uint8Array(buf.buffer, buf.byteOffset, bytesRead);
-  } finally {
-    await fh.close();
-  }
+async function readPrefix(source: ByteSource, length: number): Promise<Uint8Array> {
+  const buf = await readBytes(source, 0, length);
+  return new Uint8Array(buf.buffer, buf.byteOffset, buf.length);
 }
 
 /** Parses the header with wavefile from a growing prefix of the file. */
-async function readWavHeader(path: string, fileSize: number): Promise<WavHeader> {
+async function readWavHeader(source: ByteSource, fileSize: number): Promise<WavHeader> {
   let length = Math.min(fileSize, FIRST_PREFIX);
   for (;;) {
-    const prefix = await readPrefix(path, length);
+    const prefix = await readPrefix(source, length);
     if (prefix.length >= 4) {
       const tag = String.fromCharCode(prefix[0], prefix[1], prefix[2], prefix[3]);
       if (tag === 'RF64')
@@ -173,9 +167,9 @@ export interface WavLayout {
  * reader does not take), at least 2 channels, block align and sample rate.
  * The data chunk itself is checked by checkWavData.
  */
-export async function readWavLayout(path: string, fileSize: number): Promise<WavLayout> {
+export async function readWavLayout(source: ByteSource, fileSize: number): Promise<WavLayout> {
   if (fileSize === 0) throw invalid('empty-file', 'the WAV file is empty');
-  const header = await readWavHeader(path, fileSize);
+  const header = await readWavHeader(source, fileSize);
   const fmt = header.fmt;
   const extensible = fmt.audioFormat === WAVE_FORMAT_EXTENSIBLE;
   const formatTag = extensible ? (fmt.subformat?.[0] ?? 0) : fmt.audioFormat;

@@ -19,8 +19,9 @@ import type { Readable } from 'node:stream';
  *   range, so a reader that needs a header or one block reads only that.
  *
  * lib/storage/shared.ts publishes datasets and snapshot sets through it and
- * fetches them into a process's data folder (`putFile`, `download`);
- * `readRange` is not used by a reader yet. Tested against s3rver in
+ * fetches them into a process's data folder (`putFile`, `download`); readers
+ * that need only part of a file read ranges (`storedBytes`: a recording's
+ * header when a bearing–time record is created). Tested against s3rver in
  * tests/lib/storage/object-store.test.ts.
  */
 export interface ObjectStore {
@@ -29,6 +30,8 @@ export interface ObjectStore {
   putFile(key: string, file: string): Promise<void>;
   /** Bytes [start, end) of an object. */
   readRange(key: string, start: number, end: number): Promise<Buffer>;
+  /** The object's size in bytes. */
+  size(key: string): Promise<number>;
   /** The whole object into a local file (a worker's cache for readers that need a path). */
   download(key: string, file: string): Promise<void>;
   exists(key: string): Promise<boolean>;
@@ -64,6 +67,9 @@ export class LocalStore implements ObjectStore {
     } finally {
       await handle.close();
     }
+  }
+  async size(key: string): Promise<number> {
+    return (await fs.promises.stat(this.full(key))).size;
   }
   async download(key: string, file: string): Promise<void> {
     await fs.promises.mkdir(path.dirname(file), { recursive: true });
@@ -145,6 +151,14 @@ export class S3Store implements ObjectStore {
     const temp = `${file}.${randomUUID()}.part`;
     await pipeline(out.Body as Readable, fs.createWriteStream(temp, { flags: 'wx' }));
     await fs.promises.rename(temp, file);
+  }
+
+  async size(key: string): Promise<number> {
+    const { HeadObjectCommand } = await import('@aws-sdk/client-s3');
+    const head = await (
+      await this.s3()
+    ).send(new HeadObjectCommand({ Bucket: this.s.bucket, Key: this.objectKey(key) }));
+    return Number(head.ContentLength ?? 0);
   }
 
   async exists(key: string): Promise<boolean> {

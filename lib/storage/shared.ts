@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import { dataDir } from '../env';
 import { resolveStoragePath } from './files';
 import { objectStoreFromEnv, type ObjectStore } from './object-store';
+import type { ByteRanges, ByteSource } from '../datasets/io';
 
 /**
  * Stored files shared between machines. With STEERWISE_S3_BUCKET set, the
@@ -33,6 +34,28 @@ export async function ensureLocalFile(relative: string): Promise<string> {
   const store = sharedStore();
   if (store && !fs.existsSync(file)) await store.download(relative, file);
   return file;
+}
+
+/**
+ * A stored file for a reader that needs only part of it (a header, a few blocks): the local
+ * path when this process has the file or there is no shared store, else byte ranges of the
+ * shared copy, so nothing is downloaded beyond the bytes read.
+ */
+export async function storedBytes(relative: string): Promise<ByteSource> {
+  const file = resolveStoragePath(relative);
+  const store = sharedStore();
+  if (!store || fs.existsSync(file)) return file;
+  return objectRanges(store, relative);
+}
+
+/** Byte ranges of one object of a store (each `read` is one ranged GET on S3). */
+export async function objectRanges(store: ObjectStore, key: string): Promise<ByteRanges> {
+  const size = await store.size(key);
+  return {
+    size,
+    read: (start, end) =>
+      start >= size ? Promise.resolve(Buffer.alloc(0)) : store.readRange(key, start, Math.min(end, size)),
+  };
 }
 
 /** Removes a stored file from the shared store (the local copy is the caller's); never throws. */

@@ -67,6 +67,7 @@ describe.each(stores())('object store: %s', (_name, make) => {
     expect(await store.exists(key)).toBe(false);
     await store.putFile(key, source);
     expect(await store.exists(key)).toBe(true);
+    expect(await store.size(key)).toBe(bytes.length);
     expect(sha(await store.readRange(key, 0, 128))).toBe(sha(bytes.subarray(0, 128)));
     const mid = 7 * 1024 * 1024 - 10; // across the first part boundary
     expect(sha(await store.readRange(key, mid, mid + 4096))).toBe(sha(bytes.subarray(mid, mid + 4096)));
