@@ -39,7 +39,7 @@ import { musicSpectrumValues } from '../lib/doa/methods/music';
 import { rootMusicElectricalAngles } from '../lib/doa/methods/root-music';
 import { DEFAULT_GRID, gridAngles } from '../lib/doa/methods/spectrum';
 import { simulateSnapshots } from '../lib/doa/sim/simulate';
-import { ComplexMatrix } from '../lib/doa/linalg/complex';
+import { ComplexMatrix, transpose } from '../lib/doa/linalg/complex';
 import { pooledSampleCovariance, sharedMatrix } from '../lib/jobs/pooled-covariance';
 import type { CovarianceChunksInput } from '../lib/jobs/compute';
 
@@ -185,13 +185,7 @@ for (const [m, n] of [
     seed: 1,
   });
   // File layout (N × M, one snapshot per row), as a stored or inline snapshot set reaches the job.
-  const rows: ComplexMatrix = { rows: n, cols: m, re: new Float64Array(m * n), im: new Float64Array(m * n) };
-  for (let i = 0; i < m; i++) {
-    for (let t = 0; t < n; t++) {
-      rows.re[t * m + i] = x.re[i * n + t];
-      rows.im[t * m + i] = x.im[i * n + t];
-    }
-  }
+  const rows: ComplexMatrix = transpose(x);
   const shared = sharedMatrix(rows);
   cases.push({
     name: `pipeline-pool-${m}x${n}`,

@@ -56,14 +56,7 @@ export async function checkedFileSize(options: ParseOptions): Promise<number> {
   } catch (error) {
     throw new DatasetError(500, 'io-error', `the uploaded file could not be read (${(error as Error).message})`);
   }
-  if (size > maxBytes) {
-    throw new DatasetError(
-      413,
-      'file-too-large',
-      `the file is ${formatBytes(size)}; the limit is ${formatBytes(maxBytes)}`,
-    );
-  }
-  return size;
+  return checkedRangeSize(size, maxBytes);
 }
 
 /** 413 when N·M exceeds maxValues (bounds the 16 bytes per value of the output). */

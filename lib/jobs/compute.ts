@@ -13,6 +13,7 @@ import { WidebandInputError } from '../doa/wideband/plan';
 import { applyElementGains, complexGains, type ElementGainState } from '../doa/calibration';
 import { COVARIANCE_CHUNK, covarianceChunkSums, sampleCovarianceFromRows } from '../doa/covariance';
 import { hermitianEigen } from '../doa/linalg/hermitian-eigen';
+import { transpose } from '../doa/linalg/complex';
 import { simulateSnapshots } from '../doa/sim/simulate';
 import { covarianceKernelInUse } from '../doa/wasm/covariance-kernel';
 import { summarise, type DatasetSummary } from '../storage/summary';
@@ -235,13 +236,7 @@ function warmUp(rounds: number): { kernel: 'wasm' | 'js'; ms: number } {
     snapshots: n,
     seed: 11,
   });
-  const rows = { rows: n, cols: m, re: new Float64Array(n * m), im: new Float64Array(n * m) };
-  for (let i = 0; i < m; i++) {
-    for (let t = 0; t < n; t++) {
-      rows.re[t * m + i] = x.re[i * n + t];
-      rows.im[t * m + i] = x.im[i * n + t];
-    }
-  }
+  const rows = transpose(x);
   for (let r = 0; r < Math.max(1, Math.floor(rounds)); r++) {
     covarianceChunkSums(rows, 'rows', 0, 2);
     covarianceChunkSums(x, 'snapshots', 0, 2);

@@ -69,6 +69,18 @@ export function clone(a: ComplexMatrix): ComplexMatrix {
   return { rows: a.rows, cols: a.cols, re: a.re.slice(), im: a.im.slice() };
 }
 
+/** Plain transpose Aᵀ (no conjugate): from element-major M × N snapshots to file layout N × M and back. */
+export function transpose(a: ComplexMatrix): ComplexMatrix {
+  const out = zeros(a.cols, a.rows);
+  for (let i = 0; i < a.rows; i++) {
+    for (let k = 0; k < a.cols; k++) {
+      out.re[k * a.rows + i] = a.re[i * a.cols + k];
+      out.im[k * a.rows + i] = a.im[i * a.cols + k];
+    }
+  }
+  return out;
+}
+
 /** Conjugate (Hermitian) transpose Aᴴ. */
 export function conjugateTranspose(a: ComplexMatrix): ComplexMatrix {
   const out = zeros(a.cols, a.rows);

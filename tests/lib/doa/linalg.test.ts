@@ -5,6 +5,7 @@ import fixtures from '@/fixtures/doa/linalg.json';
 import {
   ComplexMatrix,
   conjugateTranspose,
+  transpose,
   multiply,
   subtract,
   frobeniusNorm,
@@ -37,6 +38,24 @@ function diag(values: ArrayLike<number>): ComplexMatrix {
   for (let i = 0; i < n; i++) d.re[i * n + i] = values[i];
   return d;
 }
+
+describe('transpose', () => {
+  it('moves entry (i, k) to (k, i) without conjugating; twice gives the matrix back', () => {
+    const a = {
+      rows: 2,
+      cols: 3,
+      re: Float64Array.from([1, 2, 3, 4, 5, 6]),
+      im: Float64Array.from([-1, 0, 1, 2, -2, 3]),
+    };
+    const t = transpose(a);
+    expect([t.rows, t.cols]).toEqual([3, 2]);
+    expect(Array.from(t.re)).toEqual([1, 4, 2, 5, 3, 6]);
+    expect(Array.from(t.im)).toEqual([-1, 2, 0, -2, 1, 3]);
+    const back = transpose(t);
+    expect(Array.from(back.re)).toEqual(Array.from(a.re));
+    expect(Array.from(back.im)).toEqual(Array.from(a.im));
+  });
+});
 
 describe('hermitianEigen', () => {
   for (const c of fx.hermitian) {
