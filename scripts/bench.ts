@@ -122,12 +122,9 @@ async function pooledPipeline(rows: ComplexMatrix, threads: number): Promise<num
 }
 
 const cases: Case[] = [];
-for (const [m, n] of [
-  [16, 1000],
-  [64, 10000],
-  [128, 20000],
-] as const) {
-  const x = simulateSnapshots({
+/** The pipelines' input: two sources at −20° and 15°, unit noise, M elements at half a wavelength, N snapshots (seed 1). */
+function benchSnapshots(m: number, n: number): ComplexMatrix {
+  return simulateSnapshots({
     elements: m,
     spacingWavelengths: 0.5,
     bearingsDeg: [-20, 15],
@@ -135,6 +132,14 @@ for (const [m, n] of [
     snapshots: n,
     seed: 1,
   });
+}
+
+for (const [m, n] of [
+  [16, 1000],
+  [64, 10000],
+  [128, 20000],
+] as const) {
+  const x = benchSnapshots(m, n);
   cases.push({ name: `pipeline-${m}x${n}`, run: () => pipeline(x), reps: m * n <= 100000 ? 30 : 9 });
 }
 {
@@ -176,14 +181,7 @@ for (const [m, n] of [
   [64, 10000],
   [128, 20000],
 ] as const) {
-  const x = simulateSnapshots({
-    elements: m,
-    spacingWavelengths: 0.5,
-    bearingsDeg: [-20, 15],
-    noisePower: 1,
-    snapshots: n,
-    seed: 1,
-  });
+  const x = benchSnapshots(m, n);
   // File layout (N × M, one snapshot per row), as a stored or inline snapshot set reaches the job.
   const rows: ComplexMatrix = transpose(x);
   const shared = sharedMatrix(rows);
