@@ -5,6 +5,7 @@ import * as m0003 from './0003-studies';
 import * as m0004 from './0004-jobs';
 import * as m0005 from './0005-calibrations';
 import * as m0006 from './0006-bearing-time-records';
+import * as m0007 from './0007-run-result-storage';
 
 export type Migration = {
   name: string;
@@ -24,4 +25,5 @@ export const migrations: Migration[] = [
   { name: '0004-jobs', ...m0004 },
   { name: '0005-calibrations', ...m0005 },
   { name: '0006-bearing-time-records', ...m0006 },
+  { name: '0007-run-result-storage', ...m0007 },
 ];

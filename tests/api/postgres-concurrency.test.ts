@@ -28,6 +28,14 @@ describe('concurrent writers', () => {
     expect(db.getDialect()).toBe(onPostgres ? 'postgres' : 'sqlite');
   });
 
+  it.runIf(onPostgres)('a run result is stored out of line without compression (migration 0007)', async () => {
+    const db = await getDb();
+    const [rows] = (await db.query(
+      `SELECT attstorage FROM pg_attribute WHERE attrelid = 'estimate_runs'::regclass AND attname = 'result'`,
+    )) as [{ attstorage: string }[], unknown];
+    expect(rows[0]?.attstorage).toBe('e');
+  });
+
   it('eight simultaneous saves of one array give revisions 2…9, each once, and the counter ends at 9', async () => {
     const created = await arrays.POST(
       req('POST', '/api/v1/arrays', {
