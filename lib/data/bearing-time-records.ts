@@ -400,6 +400,14 @@ registerJobKind<{ summary: BtrSummary; folder: { abs: string; rel: string } } | 
     // Deleted while the files were written: leave nothing behind.
     if (updated === 0) await fs.promises.rm(value.folder.abs, { recursive: true, force: true });
   },
+  // Stopped or deleted while the files were written (after the last check of the signal): remove
+  // them unless another worker has since taken the job (the row is running again) or stored it.
+  async discard({ job, value }) {
+    if (!value) return;
+    const row = await BearingTimeRecord.findByPk(Number(job.inputRef));
+    if (row && (row.resultPath || row.status === 'running' || row.status === 'queued')) return;
+    await fs.promises.rm(value.folder.abs, { recursive: true, force: true, maxRetries: 5, retryDelay: 20 });
+  },
   async onState({ inputRef, status, progress, error }) {
     await BearingTimeRecord.update({ status, progress, error }, { where: { id: Number(inputRef) } });
   },
@@ -592,7 +600,11 @@ export async function deleteBearingTimeRecord({ caller, id }: { caller: Caller; 
     );
   });
   const folder = resultFolder(row.teamId as number, row.id);
-  await fs.promises.rm(folder.abs, { recursive: true, force: true });
+  // A job that is still writing the folder may add a file while it is removed (ENOTEMPTY): retried,
+  // and if it still fails the record is gone all the same; the job removes what it wrote (`discard`).
+  await fs.promises.rm(folder.abs, { recursive: true, force: true, maxRetries: 5, retryDelay: 20 }).catch((err) => {
+    console.error('[steerwise] bearing–time record files left for the job to remove', folder.rel, err);
+  });
 }
 
 /** Stops a queued or running record (engineers, admins); 409 when it has already ended. */

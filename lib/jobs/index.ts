@@ -87,6 +87,13 @@ export interface JobKind<T = unknown> {
    * still owns the running job, so a result is stored exactly once.
    */
   store?(ctx: { job: Job; value: T; transaction: Transaction }): Promise<void>;
+  /**
+   * Called when `run` returned a value that was not stored: the job was cancelled (or its
+   * record deleted) while `run` finished, or this process lost the job to a lease sweep. For a
+   * kind whose `run` leaves something outside the database (files), to remove it when nothing
+   * else will use it. Errors are logged, never thrown.
+   */
+  discard?(ctx: { job: Job; value: T }): Promise<void>;
   /** Mirrors a state change onto the kind's own row. */
   onState?(state: JobState): Promise<void>;
   /** The message stored and shown to the job's owner when `run` throws. */
@@ -344,6 +351,7 @@ async function execute(job: Job): Promise<void> {
   const beat = setInterval(() => void heartbeat(job, entry), heartbeatMs());
   beat.unref();
   let outcome: JobOutcome;
+  let produced: { value: unknown } | null = null;
   await mirror(job.kind, { ...toState(job), status: 'running' });
   try {
     const value = await kind.run({
@@ -354,6 +362,7 @@ async function execute(job: Job): Promise<void> {
         entry.progress = Math.min(1, Math.max(0, f));
       },
     });
+    produced = { value };
     outcome = entry.controller.signal.aborted
       ? { status: 'cancelled', error: cancelReason(entry) }
       : { status: 'done', error: null, value };
@@ -369,8 +378,10 @@ async function execute(job: Job): Promise<void> {
     s.running.delete(job.id);
     s.localInputs.delete(job.id);
   }
+  let stored = false;
   try {
     const n = await finishJob(job, kind, outcome, entry.progress);
+    stored = n === 1 && outcome.status === 'done';
     // n = 0: cancelled meanwhile (the row already says so) or the lease was lost to a sweep.
     if (n === 1)
       await mirror(job.kind, {
@@ -382,6 +393,11 @@ async function execute(job: Job): Promise<void> {
     if (kind.transient) await Job.destroy({ where: { id: job.id } });
   } catch (err) {
     console.error('[steerwise] job state could not be stored', job.kind, job.id, err);
+  }
+  if (produced && !stored && kind.discard) {
+    await kind.discard({ job, value: produced.value }).catch((err: unknown) => {
+      console.error('[steerwise] job value could not be discarded', job.kind, job.id, err);
+    });
   }
   settleWaiters(job.id, outcome);
   kick();
