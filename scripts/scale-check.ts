@@ -32,10 +32,9 @@ import { createRequire } from 'node:module';
 import pg from 'pg';
 import { simulateSnapshots } from '../lib/doa/sim/simulate';
 import { freePort, startPgCluster, type PgCluster } from './pg-cluster';
+import { startS3Fake, type S3Fake } from './s3-fake';
 
 const require_ = createRequire(import.meta.url);
-type S3rverInstance = { run(): Promise<import('node:net').AddressInfo>; close(): Promise<void> };
-const S3rver = require_('s3rver') as new (o: object) => S3rverInstance;
 const serverOnly = require_.resolve('server-only');
 require_.cache[serverOnly] = { id: serverOnly, filename: serverOnly, loaded: true, exports: {} } as NodeJS.Module;
 
@@ -304,20 +303,13 @@ async function main() {
   }
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-scale-'));
   let cluster: PgCluster | undefined;
-  let s3: S3rverInstance | undefined;
+  let s3: S3Fake | undefined;
   try {
     cluster = await startPgCluster();
     // The S3 fake: every process shares the bucket; the workers get data folders of their own, so the
     // snapshot sets they read come from the bucket (lib/storage/shared.ts), not from the web processes' disk.
-    if (useS3)
-      s3 = new S3rver({
-        port: 0,
-        address: '127.0.0.1',
-        silent: true,
-        directory: path.join(dataDir, 's3rver'),
-        configureBuckets: [{ name: 'steerwise' }],
-      });
-    const s3Port = s3 ? (await s3.run()).port : 0;
+    if (useS3) s3 = await startS3Fake({ directory: path.join(dataDir, 's3rver'), bucket: 'steerwise' });
+    const s3Port = s3?.port ?? 0;
     const env: NodeJS.ProcessEnv = {
       ...process.env,
       NODE_ENV: 'production',

@@ -175,6 +175,12 @@ export async function openTimeSeries(options: TimeSeriesOptions): Promise<TimeSe
     format === 'wav' ? await wavLayout(options.path, size) : await npyLayout(options.path, size, options.sampleRate);
   const source = options.path;
   const fh = typeof source === 'string' ? await fsp.open(source, 'r') : null;
+  /** Fills piece[0, bytes) from file offset `start`; the count of bytes there were. */
+  const readPiece = async (start: number, bytes: number): Promise<number> => {
+    if (fh) return (await fh.read(piece, 0, bytes, start)).bytesRead;
+    const got = await (source as ByteRanges).read(start, start + bytes);
+    return got.copy(piece, 0, 0, Math.min(bytes, got.length));
+  };
   const frame = layout.bytesPerFrame;
   const piece = Buffer.alloc(Math.max(frame, Math.floor(CHUNK_BYTES / frame) * frame));
   const perPiece = piece.length / frame;
@@ -193,14 +199,7 @@ export async function openTimeSeries(options: TimeSeriesOptions): Promise<TimeSe
       while (done < want) {
         const n = Math.min(perPiece, want - done);
         const bytes = n * frame;
-        const start = layout.dataStart + position * frame;
-        let bytesRead: number;
-        if (fh) bytesRead = (await fh.read(piece, 0, bytes, start)).bytesRead;
-        else {
-          const got = await (source as ByteRanges).read(start, start + bytes);
-          got.copy(piece, 0, 0, Math.min(bytes, got.length));
-          bytesRead = got.length;
-        }
+        const bytesRead = await readPiece(layout.dataStart + position * frame, bytes);
         if (bytesRead < bytes) {
           throw invalid(
             'truncated',

@@ -125,7 +125,10 @@ export function isPostgres(sequelize: Sequelize): boolean {
   return sequelize.getDialect() === 'postgres';
 }
 
-/** SQLite connection settings (WAL, foreign keys, busy timeout); nothing on Postgres. */
+/**
+ * SQLite file settings (page size, WAL) and foreign keys; nothing on Postgres. The busy timeout and
+ * the sync level are set on every connection as it is handed out (configureEachConnection).
+ */
 export async function applyPragmas(sequelize: Sequelize): Promise<void> {
   if (isPostgres(sequelize)) return;
   // 8 KiB pages for a new, empty file (no effect on an existing one, and none once WAL is on): an
@@ -133,8 +136,6 @@ export async function applyPragmas(sequelize: Sequelize): Promise<void> {
   await sequelize.query('PRAGMA page_size = 8192;');
   await sequelize.query('PRAGMA journal_mode = WAL;');
   await sequelize.query('PRAGMA foreign_keys = ON;');
-  await sequelize.query('PRAGMA busy_timeout = 5000;');
-  await sequelize.query('PRAGMA synchronous = NORMAL;');
 }
 
 /** Where a target is, for messages: the SQLite path, or the Postgres URL without its password. */

@@ -7,32 +7,20 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { createHash, randomBytes } from 'node:crypto';
-import { createRequire } from 'node:module';
-import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LocalStore, S3Store, objectStoreFromEnv, type ObjectStore } from '@/lib/storage/object-store';
-
-const require_ = createRequire(import.meta.url);
-type S3rverInstance = { run(): Promise<AddressInfo>; close(): Promise<void> };
-const S3rver = require_('s3rver') as new (o: object) => S3rverInstance;
+import { startS3Fake, type S3Fake } from '../../../scripts/s3-fake';
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-store-'));
 const source = path.join(dir, 'source.bin');
 const bytes = randomBytes(12 * 1024 * 1024);
-let server: S3rverInstance;
+let server: S3Fake;
 let endpoint = '';
 
 beforeAll(async () => {
   fs.writeFileSync(source, bytes);
-  server = new S3rver({
-    port: 0,
-    address: '127.0.0.1',
-    silent: true,
-    directory: path.join(dir, 's3'),
-    configureBuckets: [{ name: 'steerwise-test' }],
-  });
-  const addr = await server.run();
-  endpoint = `http://127.0.0.1:${addr.port}`;
+  server = await startS3Fake({ directory: path.join(dir, 's3'), bucket: 'steerwise-test' });
+  endpoint = server.endpoint;
 });
 
 afterAll(async () => {

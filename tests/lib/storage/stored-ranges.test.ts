@@ -9,23 +9,18 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { createRequire } from 'node:module';
-import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { S3Store } from '@/lib/storage/object-store';
 import { objectRanges } from '@/lib/storage/shared';
 import { openTimeSeries, type TimeSeriesOptions } from '@/lib/datasets/time-series';
 import type { ByteRanges } from '@/lib/datasets/io';
 import { writeSimulatedWav } from '@/lib/btr/simulated-wav';
-
-const require_ = createRequire(import.meta.url);
-type S3rverInstance = { run(): Promise<AddressInfo>; close(): Promise<void> };
-const S3rver = require_('s3rver') as new (o: object) => S3rverInstance;
+import { startS3Fake, type S3Fake } from '../../../scripts/s3-fake';
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'steerwise-ranges-'));
 const wav = path.join(dir, 'line.wav');
 const npy = path.join(dir, 'line.npy');
-let server: S3rverInstance;
+let server: S3Fake;
 let store: S3Store;
 
 /** An NPY file of shape (samples, channels), float32 little-endian, written by hand (NPY format 1.0). */
@@ -80,17 +75,10 @@ beforeAll(async () => {
     firTaps: 63,
   });
   writeNpy(npy, 50_000, 4);
-  server = new S3rver({
-    port: 0,
-    address: '127.0.0.1',
-    silent: true,
-    directory: path.join(dir, 's3'),
-    configureBuckets: [{ name: 'steerwise-ranges' }],
-  });
-  const addr = await server.run();
+  server = await startS3Fake({ directory: path.join(dir, 's3'), bucket: 'steerwise-ranges' });
   store = new S3Store({
     bucket: 'steerwise-ranges',
-    endpoint: `http://127.0.0.1:${addr.port}`,
+    endpoint: server.endpoint,
     region: 'us-east-1',
     accessKeyId: 'S3RVER',
     secretAccessKey: 'S3RVER',
